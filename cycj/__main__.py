@@ -1,0 +1,3 @@
+from cycj.cli import main
+
+main()

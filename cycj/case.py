@@ -1,0 +1,444 @@
+"""Case files (TOML) → validated, typed objects in internal units, with one-line errors.
+
+The keys are the contract of DESIGN.md; see ``examples/`` for complete cases.  Paths inside a
+case are relative to the case file.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import math
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+from cycj.errors import CycjInputError, ValidityRangeError
+from cycj.geometry import SHAPE_NAMES, Geometry, make_geometry
+from cycj.growth_law import GrowthLaw, from_delta_k
+from cycj.material import Material, ResistanceCurve, StressStrainCurve
+from cycj.tables import Table, read_toml
+from cycj.units import rate_factor, registry, to_internal
+
+CLOSURE_MODELS = ("none", "elber", "newman", "constant")
+SEQUENCE_MODELS = ("none", "wheeler", "willenborg")
+CRITERIA = ("toughness", "tearing", "fad", "collapse", "size-limit")
+END_REASONS = ("toughness", "tearing", "fad", "collapse", "size-limit", "leak", "max-cycles",
+               "no-growth")
+
+
+@dataclass(frozen=True)
+class Closure:
+    """Crack closure model: ``none``, ``elber``, ``newman`` or ``constant`` (with ``U``)."""
+
+    model: str = "none"
+    U: float = 1.0
+    constraint_factor: float | None = None  # Newman's α; default from the constraint
+
+
+@dataclass(frozen=True)
+class Loading:
+    history: Path | None = None
+    column: str | None = None
+    unit: str | None = None
+    quantity: str = "force"
+    scale: float = 1.0
+    gate: float = 0.0                 # in the load's internal unit (N or MPa)
+    duration_h: float | None = None   # one pass of the history
+    constant: tuple[float, float] | None = None   # (max, min) in the load's internal unit
+    closure: Closure = field(default_factory=Closure)
+    compressive_part: str = "ignore"
+    sequence: str = "none"
+    sequence_options: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Analysis:
+    j_method: str = "reference-stress"
+    fad: str = "option-2"
+
+
+@dataclass(frozen=True)
+class RunOptions:
+    method: str = "auto"
+    max_cycles: float = 1e9
+    crack_length_limit: float | None = None
+    criteria: tuple[str, ...] = ("toughness", "collapse", "size-limit")
+
+
+@dataclass(frozen=True)
+class Case:
+    """A resolved case: every quantity in internal units (N, mm, MPa, kJ/m², h)."""
+
+    title: str
+    material: Material
+    geometry: Geometry
+    growth: GrowthLaw
+    loading: Loading
+    analysis: Analysis
+    run: RunOptions
+    path: Path | None = None
+    inspection: dict | None = None
+    raw: dict = field(default_factory=dict, repr=False)
+    toughness_source: str = "J_c"
+
+    @property
+    def sha256(self) -> str | None:
+        if self.path is None:
+            return None
+        return hashlib.sha256(Path(self.path).read_bytes()).hexdigest()
+
+    def resolved(self) -> dict:
+        """The case in internal units, as plain JSON-ready data."""
+        geo = self.geometry
+        out = {
+            "title": self.title,
+            "units": {"force": "N", "length": "mm", "stress": "MPa", "J": "kJ/m^2",
+                      "K": "MPa*mm^0.5", "rate": "mm/cycle", "time": "h"},
+            "material": _plain(asdict(self.material)),
+            "geometry": {"shape": geo.shape.name, "crack_length_mm": geo.crack_length,
+                         "constraint": "plane-strain" if geo.plane_strain else "plane-stress",
+                         **{f"{k}_mm" if k != "bending_ratio" else k: v
+                            for k, v in geo.dims.items()}},
+            "growth": _plain(asdict(self.growth)),
+            "loading": _plain(asdict(self.loading)),
+            "analysis": asdict(self.analysis),
+            "run": _plain(asdict(self.run)),
+        }
+        out["material"]["flow_stress"] = self.material.flow_stress
+        out["material"]["effective_modulus"] = self.material.effective_modulus(geo.plane_strain)
+        if self.inspection is not None:
+            out["inspection"] = self.inspection
+        return out
+
+
+def _plain(obj):
+    if isinstance(obj, dict):
+        return {k: _plain(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_plain(v) for v in obj]
+    if isinstance(obj, Path):
+        return str(obj)
+    if isinstance(obj, float) and not math.isfinite(obj):
+        return str(obj)
+    return obj
+
+
+def load_case(path) -> Case:
+    """Read and validate a case file.  Raises :class:`CycjInputError` with one clear line."""
+    path = Path(path)
+    raw = read_toml(path)
+    return case_from_dict(raw, source=str(path), base=path.parent, path=path)
+
+
+def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = None,
+                   path: Path | None = None) -> Case:
+    """Validate a case given as a dict (the parsed TOML)."""
+    top = Table(raw, "", source)
+    title = top.string("title", default=path.stem if path else "untitled case")
+    mat_t = top.table("material", required=True)
+    geo_t = top.table("geometry", required=True)
+    geometry = _geometry(geo_t)
+    material, jc_note = _material(mat_t, geometry)
+    growth = _growth(mat_t.table("growth", required=True), material, geometry)
+    mat_t.finish()
+    loading = _loading(top.table("loading", required=True), geometry, base or Path("."))
+    analysis = _analysis(top.table("analysis"))
+    run = _run(top.table("run"), geometry)
+    inspection = top.get("inspection")
+    if inspection is not None and not isinstance(inspection, dict):
+        raise CycjInputError("must be a table", source=source, key="inspection",
+                             expected="a TOML table [inspection]", found=inspection)
+    top.finish()
+    if loading.closure.model != "none" and growth.basis == "applied":
+        raise CycjInputError(
+            "closure with a growth law fitted on the applied range would count closure twice; "
+            "use a law with basis = \"effective\" or closure = \"none\"", source=source,
+            key="loading.closure", expected="'none' for an applied-basis law",
+            found=loading.closure.model)
+    if analysis.j_method != "elastic" and material.cyclic_curve is None:
+        raise CycjInputError(f"j_method '{analysis.j_method}' needs the cyclic curve",
+                             source=source, key="material.cyclic_curve",
+                             expected="{ strength_coefficient = ..., hardening_exponent = ... }")
+    if analysis.j_method == "small-crack" and geometry.shape.name not in (
+            "edge-crack-semi-infinite", "center-crack-infinite-plate"):
+        raise CycjInputError("the small-crack estimate is for a small crack in a smooth "
+                             "section", source=source, key="analysis.j_method",
+                             expected="'reference-stress' or 'elastic' for "
+                                      f"{geometry.shape.name}", found="small-crack")
+    for crit in run.criteria:
+        if crit == "toughness" and material.J_c is None:
+            raise CycjInputError("criterion 'toughness' needs material.toughness.J_c (or K_c)",
+                                 source=source, key="run.criteria")
+        if crit == "tearing" and material.resistance_curve is None:
+            raise CycjInputError("criterion 'tearing' needs material.toughness."
+                                 "resistance_curve", source=source, key="run.criteria")
+        if crit == "fad" and material.J_c is None:
+            raise CycjInputError("criterion 'fad' needs a toughness (J_c or K_c)",
+                                 source=source, key="run.criteria")
+    return Case(title, material, geometry, growth, loading, analysis, run, path, inspection,
+                raw, jc_note)
+
+
+def _geometry(t: Table) -> Geometry:
+    shape = t.choice("shape", SHAPE_NAMES, required=True)
+    kw = {}
+    for k in ("width", "thickness", "net_thickness", "span", "half_length"):
+        v = t.quantity(k, "length", positive=True)
+        if v is not None:
+            kw[k] = v
+    br = t.number("bending_ratio")
+    if br is not None:
+        kw["bending_ratio"] = br
+    a = t.quantity("crack_length", "length", required=True, positive=True)
+    constraint = t.choice("constraint", ("plane-strain", "plane-stress"),
+                          default="plane-strain")
+    t.finish()
+    return make_geometry(shape, a, constraint=constraint, source=t.source, prefix=t.path, **kw)
+
+
+def _curve(t: Table | None) -> StressStrainCurve | None:
+    if t is None:
+        return None
+    k = t.quantity("strength_coefficient", "stress", required=True, positive=True)
+    n = t.number("hardening_exponent", required=True, lo=(0.0, "> 0"), hi=(1.0, "< 1"))
+    if not 0 < n < 1:
+        raise t.error("hardening_exponent", "out of range", expected="0 < n' < 1", found=n)
+    t.finish()
+    return StressStrainCurve(k, n)
+
+
+def _material(t: Table, geometry: Geometry) -> tuple[Material, str]:
+    e = t.quantity("elastic_modulus", "stress", required=True, positive=True)
+    nu = t.number("poisson_ratio", default=0.3)
+    if not 0 <= nu < 0.5:
+        raise t.error("poisson_ratio", "out of range", expected="0 ≤ ν < 0.5", found=nu)
+    sy = t.quantity("yield_strength", "stress", required=True, positive=True)
+    su = t.quantity("tensile_strength", "stress", positive=True)
+    if su is not None and su < sy:
+        raise t.error("tensile_strength", "below the yield strength",
+                      expected=f"≥ {sy:g} MPa", found=su)
+    cyc = _curve(t.table("cyclic_curve"))
+    mono = _curve(t.table("monotonic_curve"))
+    jc, rcurve, note = None, None, "none"
+    tough = t.table("toughness")
+    if tough is not None:
+        jc = tough.quantity("J_c", "energy_per_area", positive=True)
+        kc = tough.quantity("K_c", "stress_intensity", positive=True)
+        if jc is not None and kc is not None:
+            raise tough.error("K_c", "give J_c or K_c, not both")
+        e_prime = e / (1 - nu**2) if geometry.plane_strain else e
+        note = "J_c"
+        if kc is not None:
+            jc, note = kc**2 / e_prime, "K_c converted with J_c = K_c²/E'"
+        rc = tough.table("resistance_curve")
+        if rc is not None:
+            c1 = rc.quantity("C1", "energy_per_area", required=True, positive=True)
+            c2 = rc.number("C2", required=True, positive=True)
+            rc.finish()
+            try:
+                rcurve = ResistanceCurve(c1, c2)
+            except ValidityRangeError as exc:
+                raise rc.error("C2", str(exc), found=c2) from None
+        tough.finish()
+    mat = Material(e, nu, sy, su, cyc, mono, jc, rcurve)
+    return mat, note
+
+
+def _growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
+    law = t.choice("law", ("paris",), default="paris")
+    basis = t.choice("basis", ("applied", "effective"), default="applied")
+    q = t.number("toughness_exponent", default=0.0, nonnegative=True)
+    e_prime = material.effective_modulus(geometry.plane_strain)
+    dk = t.table("from_delta_K")
+    if dk is not None:
+        if t.has("C") or t.has("m"):
+            raise t.error("from_delta_K", "give C and m either here or in from_delta_K")
+        out = _delta_k_law(dk, e_prime, basis=basis, law=law, toughness_exponent=q)
+        t.finish()
+        return out
+    c = t.number("C", required=True, positive=True)
+    m = t.number("m", required=True, positive=True)
+    rate_unit = t.string("rate_unit", default="mm")
+    driving_unit = t.string("driving_unit", default="kJ/m^2")
+    thr_raw = t.get("threshold")
+    t.finish()
+    kind = _driving_kind(driving_unit, t, "driving_unit")
+    if kind == "stress_intensity":  # a ΔK law entered directly: convert exactly
+        c_k = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
+        thr = 0.0 if thr_raw is None else to_internal(thr_raw, kind, key=t.key("threshold"),
+                                                      source=t.source)
+        return from_delta_k(c_k, m, e_prime, thr, basis=basis, law=law, toughness_exponent=q,
+                            converted_from={"C": c, "m": m, "rate_unit": rate_unit,
+                                            "driving_unit": driving_unit})
+    c_int = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
+    thr = 0.0 if thr_raw is None else to_internal(thr_raw, "energy_per_area",
+                                                  key=t.key("threshold"), source=t.source)
+    if thr < 0:
+        raise t.error("threshold", "out of range", expected="≥ 0", found=thr_raw)
+    return GrowthLaw(c_int, m, thr, basis, law, q)
+
+
+def _driving_kind(unit: str, t: Table, key: str) -> str:
+    for kind in ("energy_per_area", "stress_intensity"):
+        try:
+            to_internal(f"1 {unit}", kind)
+            return kind
+        except CycjInputError:
+            continue
+    raise t.error(key, "not a unit of ΔJ or ΔK", expected="e.g. 'kJ/m^2' or 'MPa*m**0.5'",
+                  found=unit)
+
+
+def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
+    c = t.number("C", required=True, positive=True)
+    m = t.number("m", required=True, positive=True)
+    rate_unit = t.string("rate_unit", default="mm")
+    driving_unit = t.string("driving_unit", default="MPa*mm**0.5")
+    thr = t.quantity("threshold", "stress_intensity", nonnegative=True, default=0.0)
+    t.finish()
+    c_k = c * rate_factor(rate_unit, driving_unit, "stress_intensity", m, key=t.path,
+                          source=t.source)
+    return from_delta_k(c_k, m, e_prime, thr, converted_from={
+        "C": c, "m": m, "rate_unit": rate_unit, "driving_unit": driving_unit}, **kw)
+
+
+def _quantity_kind(unit: str | None) -> str | None:
+    if unit is None:
+        return None
+    ureg = registry()
+    try:
+        q = ureg.Quantity(1.0, unit.replace("^", "**"))
+    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
+        return None
+    if q.check("[force]"):
+        return "force"
+    if q.check("[pressure]"):
+        return "stress"
+    return None
+
+
+def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
+    hist = t.string("history")
+    const = t.table("constant")
+    if (hist is None) == (const is None):
+        raise t.error("history", "give either a history file or constant = { max, min }")
+    unit = t.string("unit")
+    kind_from_unit = _quantity_kind(unit)
+    if unit is not None and kind_from_unit is None:
+        raise t.error("unit", "not a unit of force or stress", expected="e.g. 'kN' or 'MPa'",
+                      found=unit)
+    default_q = kind_from_unit or ("force" if "force" in geometry.shape.loading else "stress")
+    if const is not None and unit is None:
+        s = str(const.get("max", ""))
+        default_q = _quantity_kind(s.split(" ", 1)[1]) if " " in s.strip() else default_q
+        default_q = default_q or "stress"
+    quantity = t.choice("quantity", ("force", "stress", "pressure"), default=default_q)
+    if quantity == "pressure":
+        raise t.error("quantity", "pressure loading needs a pressurised shape (none yet)",
+                      expected="'force' or 'stress'", found=quantity)
+    if quantity not in geometry.shape.loading:
+        raise t.error("quantity", f"{geometry.shape.name} takes {' or '.join(geometry.shape.loading)}",
+                      expected=" or ".join(repr(x) for x in geometry.shape.loading),
+                      found=quantity)
+    kind = "force" if quantity == "force" else "stress"
+    if unit is not None and kind_from_unit != kind:
+        raise t.error("unit", f"a {quantity} history needs a {kind} unit", found=unit)
+    unit_factor = 1.0 if unit is None else to_internal(f"1 {unit}", kind, key=t.key("unit"),
+                                                       source=t.source)
+    scale = t.number("scale", default=1.0, positive=True)
+    gate_raw = t.get("gate", 0.0)
+    gate = (gate_raw * unit_factor * scale
+            if isinstance(gate_raw, (int, float)) and not isinstance(gate_raw, bool)
+            else t.quantity("gate", kind, nonnegative=True) * scale)
+    if not gate >= 0:
+        raise t.error("gate", "out of range", expected="≥ 0", found=gate_raw)
+    duration = t.quantity("duration", "time", positive=True)
+    column = t.string("column")
+    constant = None
+    if const is not None:
+        vals = []
+        for k in ("max", "min"):
+            raw = const.get(k, required=True)
+            v = raw * unit_factor if isinstance(raw, (int, float)) and not isinstance(
+                raw, bool) else to_internal(raw, kind, key=const.key(k), source=const.source)
+            vals.append(v * scale)
+        const.finish()
+        if not vals[0] > vals[1]:
+            raise const.error("max", "max must exceed min", expected=f"> {vals[1]:g}",
+                              found=vals[0])
+        if not vals[0] > 0:
+            raise const.error("max", "no tensile load: the crack cannot grow",
+                              expected="> 0", found=vals[0])
+        constant = (vals[0], vals[1])
+    history = None
+    if hist is not None:
+        history = (base / hist)
+        if not history.is_file():
+            raise t.error("history", "history file not found", found=str(history))
+    closure = _closure(t)
+    comp = t.choice("compressive_part", ("ignore", "include"), default="ignore")
+    seq_raw = t.get("sequence", "none")
+    seq_opts: dict = {}
+    if isinstance(seq_raw, dict):
+        st = Table(seq_raw, t.key("sequence"), t.source)
+        seq = st.choice("model", SEQUENCE_MODELS, required=True)
+        seq_opts = {k: v for k, v in seq_raw.items() if k != "model"}
+        st.known |= set(seq_opts)
+    else:
+        seq = t.choice("sequence", SEQUENCE_MODELS, default="none")
+    t.finish()
+    return Loading(history, column, unit, quantity, scale, gate,
+                   duration, constant, closure, comp, seq, seq_opts)
+
+
+def _closure(t: Table) -> Closure:
+    raw = t.get("closure", "none")
+    if isinstance(raw, dict):
+        ct = Table(raw, t.key("closure"), t.source)
+        model = ct.choice("model", CLOSURE_MODELS, required=True)
+        u = ct.number("U", default=1.0, lo=(0.0, "> 0"), hi=(1.0, "1"),
+                      required=model == "constant")
+        if model == "constant" and not u > 0:
+            raise ct.error("U", "out of range", expected="0 < U ≤ 1", found=u)
+        alpha = ct.number("constraint_factor", lo=(1.0, "1"), hi=(3.0, "3"))
+        ct.finish()
+        return Closure(model, u, alpha)
+    model = t.choice("closure", CLOSURE_MODELS, default="none")
+    if model == "constant":
+        raise t.error("closure", "constant closure needs U",
+                      expected="closure = { model = \"constant\", U = 0.8 }", found=raw)
+    return Closure(model)
+
+
+def _analysis(t: Table | None) -> Analysis:
+    if t is None:
+        return Analysis()
+    jm = t.choice("j_method", ("reference-stress", "small-crack", "elastic"),
+                  default="reference-stress")
+    fad = t.choice("fad", ("option-1", "option-2"), default="option-2")
+    t.finish()
+    return Analysis(jm, fad)
+
+
+def _run(t: Table | None, geometry: Geometry) -> RunOptions:
+    if t is None:
+        return RunOptions()
+    method = t.choice("method", ("auto", "cycle", "block"), default="auto")
+    maxc = t.number("max_cycles", default=1e9, positive=True)
+    limit = t.quantity("crack_length_limit", "length", positive=True)
+    if limit is not None and not limit > geometry.crack_length:
+        raise t.error("crack_length_limit", "must exceed the initial crack",
+                      expected=f"> {geometry.crack_length:g} mm", found=limit)
+    crit = t.get("criteria", ["toughness", "collapse", "size-limit"])
+    if not isinstance(crit, list) or not crit:
+        raise t.error("criteria", "must be a list", expected=f"a list from {CRITERIA}",
+                      found=crit)
+    for c in crit:
+        if c not in CRITERIA:
+            import difflib
+
+            near = difflib.get_close_matches(str(c), CRITERIA, n=1)
+            hint = f" (did you mean '{near[0]}'?)" if near else ""
+            raise t.error("criteria", f"unknown criterion{hint}",
+                          expected="any of " + ", ".join(CRITERIA), found=c)
+    t.finish()
+    return RunOptions(method, maxc, limit, tuple(crit))

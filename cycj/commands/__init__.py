@@ -1,0 +1,1 @@
+"""Click commands, one module per job; each is a thin call into the library."""

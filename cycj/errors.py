@@ -1,0 +1,33 @@
+"""Errors that the command line turns into one clear line and exit status 2."""
+
+from __future__ import annotations
+
+
+class CycjInputError(ValueError):
+    """Bad input: names where (file, key path or line), what was expected and what was found."""
+
+    def __init__(self, message: str, *, source: str | None = None, key: str | None = None,
+                 line: int | None = None, expected: str | None = None,
+                 found: object | None = None):
+        self.source, self.key, self.line = source, key, line
+        self.expected, self.found = expected, found
+        parts = []
+        where = ""
+        if source:
+            where = str(source)
+            if line is not None:
+                where += f":{line}"
+        if key:
+            where = f"{where}: [{key}]" if where else f"[{key}]"
+        if where:
+            parts.append(where)
+        parts.append(message)
+        if expected is not None:
+            parts.append(f"expected {expected}")
+        if found is not None:
+            parts.append(f"found {found!r}")
+        super().__init__(": ".join(parts[:2]) + ("; " + "; ".join(parts[2:]) if parts[2:] else ""))
+
+
+class ValidityRangeError(ValueError):
+    """A physics function was called outside the validity range of its published source."""

@@ -1,0 +1,220 @@
+"""Crack configurations: stress intensity solution, limit load, validity range, kernel code.
+
+Each shape has a module with compiled scalar kernels (``k_over_s``, ``limit_stress``) and an
+entry in :data:`SHAPES` describing its dimensions, nominal stress S(P), validity and sources.
+The nominal stress definition makes every shape look alike to the rest of cycj:
+K = S·k_over_s(a) and the plastic limit load corresponds to the nominal stress
+S_L(a) = limit_stress(a, σ_y), so L_r = S/S_L and σ_ref = S·σ_y/S_L.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from cycj.errors import CycjInputError
+from cycj.geometry import (
+    _params as P,
+)
+from cycj.geometry import (
+    center_crack_infinite,
+    center_crack_plate,
+    compact_tension,
+    edge_crack_plate,
+    edge_crack_semi_infinite,
+    three_point_bend,
+)
+
+
+@dataclass(frozen=True)
+class Shape:
+    """Description of one crack configuration (data only; the physics is in its module)."""
+
+    name: str
+    code: int
+    title: str
+    module: object
+    required: tuple[str, ...]
+    loading: tuple[str, ...]
+    nominal_stress: str
+    crack: str
+    validity: str
+    references: tuple[str, ...]
+    optional: dict = field(default_factory=dict)
+
+
+SHAPES: dict[str, Shape] = {}
+
+
+def _register(shape: Shape) -> None:
+    SHAPES[shape.name] = shape
+
+
+_register(Shape(
+    "center-crack-infinite-plate", center_crack_infinite.CODE,
+    "centre crack in an infinite plate", center_crack_infinite, (), ("stress",),
+    "S = remote stress", "a = half crack length", "a > 0",
+    ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000)",)))
+_register(Shape(
+    "edge-crack-semi-infinite", edge_crack_semi_infinite.CODE,
+    "edge crack in a semi-infinite plate", edge_crack_semi_infinite, (), ("stress",),
+    "S = remote stress", "a = crack depth", "a > 0",
+    ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000): 1.1215",)))
+_register(Shape(
+    "center-crack-plate", center_crack_plate.CODE,
+    "middle-cracked tension plate, M(T)", center_crack_plate, ("width", "thickness"),
+    ("force", "stress"), "S = P/(B·W), W = full width", "a = half crack length",
+    "0 < 2a/W ≤ 0.95",
+    ("Tada (1973) secant form, in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
+     "Kumar, German & Shih, EPRI NP-1931 (1981): net-section limit load"),
+    {"net_thickness": "= thickness"}))
+_register(Shape(
+    "edge-crack-plate", edge_crack_plate.CODE,
+    "single-edge-cracked tension plate, SE(T), pin loaded", edge_crack_plate,
+    ("width", "thickness"), ("force", "stress"), "S = P/(B·W)", "a = crack depth",
+    "0 < a/W ≤ 0.9",
+    ("Tada (1973), in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
+     "Miller, IJPVP 32 (1988): tension-bending net-section limit load (from memory)"),
+    {"net_thickness": "= thickness"}))
+_register(Shape(
+    "compact-tension", compact_tension.CODE, "compact tension specimen, C(T)",
+    compact_tension, ("width", "thickness"), ("force", "stress"),
+    "S = P/(B·W); W and a from the load line", "a = crack length from the load line",
+    "0.2 ≤ a/W ≤ 0.95",
+    ("Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399/E647/E1820",
+     "Kumar, German & Shih, EPRI NP-1931 (1981): limit load"),
+    {"net_thickness": "= thickness"}))
+_register(Shape(
+    "three-point-bend", three_point_bend.CODE, "single-edge-notched bend, SE(B), S = 4W",
+    three_point_bend, ("width", "thickness"), ("force", "stress"), "S = P/(B·W)",
+    "a = crack depth", "0.1 ≤ a/W ≤ 0.9, span = 4·W",
+    ("Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399",
+     "Kumar, German & Shih, EPRI NP-1931 (1981): limit load"),
+    {"net_thickness": "= thickness", "span": "= 4·width"}))
+
+#: shapes accepted in ``geometry.shape``
+SHAPE_NAMES = tuple(SHAPES)
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """A crack configuration with its dimensions [mm] resolved.
+
+    ``params`` is the plain float64 array handed to the compiled kernels.
+    """
+
+    shape: Shape
+    crack_length: float
+    params: np.ndarray
+    plane_strain: bool
+    dims: dict
+
+    @property
+    def code(self) -> int:
+        return self.shape.code
+
+    @property
+    def size_limits(self) -> tuple[float, float]:
+        """Smallest and largest crack size [mm] inside the solution's validity range."""
+        return self.shape.module.size_limits(self.params)
+
+    def check_crack(self, a, what: str = "crack length") -> None:
+        """Raise ValidityRangeError if any crack size in ``a`` is outside the validity range."""
+        from cycj.errors import ValidityRangeError
+
+        lo, hi = self.size_limits
+        arr = np.atleast_1d(np.asarray(a, dtype=float))
+        bad = arr[~((arr > 0) & (arr >= lo * (1 - 1e-12)) & (arr <= hi * (1 + 1e-12)))]
+        if bad.size:
+            raise ValidityRangeError(
+                f"{what} {bad[0]:.6g} mm is outside the validity range of {self.shape.name} "
+                f"({self.shape.validity}: {lo:.6g} to {hi:.6g} mm)")
+
+    def k_over_s(self, a):
+        """K per unit nominal stress [√mm] (vectorised, range-checked)."""
+        self.check_crack(a)
+        return _vectorised("k_over_s")(self.code, np.asarray(a, float), self.params)
+
+    def limit_stress(self, a, sigma_y: float):
+        """Nominal stress at the limit load [MPa] (vectorised, range-checked)."""
+        self.check_crack(a)
+        return _vectorised("limit_stress")(self.code, np.asarray(a, float), self.params,
+                                           float(sigma_y))
+
+    def stress_intensity(self, a, nominal_stress):
+        """K [MPa√mm] for crack ``a`` [mm] and nominal stress [MPa]."""
+        return np.asarray(nominal_stress, float) * self.k_over_s(a)
+
+    def nominal_stress_per_force(self) -> float:
+        """S per unit force [MPa/N] (1/(B·W)); raises for the infinite bodies."""
+        w, b = self.params[P.WIDTH], self.params[P.THICKNESS]
+        if w <= 0 or b <= 0:
+            raise CycjInputError(f"shape {self.shape.name} takes a stress history only",
+                                 key="loading.quantity", expected="'stress'", found="force")
+        return 1.0 / (w * b)
+
+
+def _vectorised(name):
+    from cycj.geometry import dispatch
+
+    fn = getattr(dispatch, name)
+
+    def call(code, a, params, *extra):
+        a = np.atleast_1d(a)
+        out = np.empty(a.shape, float)
+        for i, ai in enumerate(a.flat):
+            out.flat[i] = fn(code, float(ai), params, *extra)
+        return out if out.size > 1 else float(out[0])
+
+    return call
+
+
+def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
+                  thickness: float = 0.0, net_thickness: float | None = None,
+                  span: float | None = None, constraint: str = "plane-strain",
+                  half_length: float = 0.0, bending_ratio: float = 0.0,
+                  source: str | None = None, prefix: str = "geometry") -> Geometry:
+    """Build a :class:`Geometry` from dimensions in mm, checking them (errors name the key)."""
+    if shape not in SHAPES:
+        import difflib
+
+        near = difflib.get_close_matches(shape, SHAPE_NAMES, n=1)
+        hint = f" (did you mean '{near[0]}'?)" if near else ""
+        raise CycjInputError(f"unknown shape{hint}", source=source, key=f"{prefix}.shape",
+                             expected="one of " + ", ".join(SHAPE_NAMES), found=shape)
+    s = SHAPES[shape]
+    if constraint not in ("plane-strain", "plane-stress"):
+        raise CycjInputError("unknown constraint", source=source, key=f"{prefix}.constraint",
+                             expected="'plane-strain' or 'plane-stress'", found=constraint)
+    vals = {"width": width, "thickness": thickness}
+    for k in s.required:
+        if not (vals[k] > 0 and math.isfinite(vals[k])):
+            raise CycjInputError("must be a positive size", source=source, key=f"{prefix}.{k}",
+                                 expected=f"a length > 0 for {shape}", found=vals[k])
+    bn = thickness if net_thickness is None else net_thickness
+    if "thickness" in s.required and not (0 < bn <= thickness):
+        raise CycjInputError("net thickness must be positive and not above the thickness",
+                             source=source, key=f"{prefix}.net_thickness",
+                             expected=f"0 < B_N ≤ {thickness:g} mm", found=bn)
+    sp = 4.0 * width if span is None else span
+    if shape == "three-point-bend" and abs(sp / width - 4.0) > 0.04:
+        raise CycjInputError("the SE(B) solution is published for span = 4·width only",
+                             source=source, key=f"{prefix}.span",
+                             expected=f"{4 * width:g} mm", found=sp)
+    p = np.zeros(P.N_PARAMS)
+    p[P.WIDTH], p[P.THICKNESS], p[P.NET_THICKNESS] = width, thickness, bn
+    p[P.SPAN] = sp
+    p[P.PLANE_STRAIN] = 1.0 if constraint == "plane-strain" else 0.0
+    p[P.HALF_LENGTH], p[P.BENDING_RATIO] = half_length, bending_ratio
+    geo = Geometry(s, float(crack_length), p, constraint == "plane-strain",
+                   {"width": width, "thickness": thickness, "net_thickness": bn, "span": sp,
+                    "half_length": half_length, "bending_ratio": bending_ratio})
+    lo, hi = geo.size_limits
+    if not (crack_length > 0 and lo * (1 - 1e-12) <= crack_length <= hi * (1 + 1e-12)):
+        raise CycjInputError("crack outside the body or the solution's validity range",
+                             source=source, key=f"{prefix}.crack_length",
+                             expected=f"{lo:g} < a ≤ {hi:g} mm ({s.validity})",
+                             found=crack_length)
+    return geo

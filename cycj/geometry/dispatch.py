@@ -1,0 +1,62 @@
+"""Compiled dispatch from an integer shape code to the shape's kernels.
+
+The life stepper calls :func:`k_over_s` and :func:`limit_stress` with the code and the plain
+parameter array (layout in :mod:`cycj.geometry._params`).  Adding a shape: write its module with
+``CODE``, ``k_over_s`` and ``limit_stress``, add one branch to each function here and one entry
+to the registry in :mod:`cycj.geometry`.
+"""
+
+from cycj._jit import jit
+from cycj.geometry import (
+    center_crack_infinite as _cci,
+)
+from cycj.geometry import (
+    center_crack_plate as _mt,
+)
+from cycj.geometry import (
+    compact_tension as _ct,
+)
+from cycj.geometry import (
+    edge_crack_plate as _set,
+)
+from cycj.geometry import (
+    edge_crack_semi_infinite as _esi,
+)
+from cycj.geometry import (
+    three_point_bend as _seb,
+)
+
+_CCI, _ESI, _MT, _SET, _CT, _SEB = 1, 2, 3, 4, 5, 6
+assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE) == (1, 2, 3, 4, 5, 6)
+
+
+@jit
+def k_over_s(code, a, p):
+    """K per unit nominal stress [√mm] for shape ``code`` at crack size ``a`` [mm]."""
+    if code == _CT:
+        return _ct.k_over_s(a, p)
+    if code == _MT:
+        return _mt.k_over_s(a, p)
+    if code == _SET:
+        return _set.k_over_s(a, p)
+    if code == _SEB:
+        return _seb.k_over_s(a, p)
+    if code == _ESI:
+        return _esi.k_over_s(a, p)
+    return _cci.k_over_s(a, p)
+
+
+@jit
+def limit_stress(code, a, p, sigma_y):
+    """Nominal stress at the plastic limit load [MPa] for shape ``code`` and crack ``a`` [mm]."""
+    if code == _CT:
+        return _ct.limit_stress(a, p, sigma_y)
+    if code == _MT:
+        return _mt.limit_stress(a, p, sigma_y)
+    if code == _SET:
+        return _set.limit_stress(a, p, sigma_y)
+    if code == _SEB:
+        return _seb.limit_stress(a, p, sigma_y)
+    if code == _ESI:
+        return _esi.limit_stress(a, p, sigma_y)
+    return _cci.limit_stress(a, p, sigma_y)

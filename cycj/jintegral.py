@@ -1,0 +1,312 @@
+"""ΔJ and J_max estimates (elastic + plastic), L_r, failure assessment curves, CTOD from J.
+
+Units: K in MPa√mm, stresses in MPa, J in kJ/m² (= N/mm = MPa·mm), crack sizes in mm.
+
+Each formula is written once as a compiled scalar kernel (used by the life stepper) and exposed
+to notebooks as a vectorised, range-checked function of the same source.
+
+Two L_r's are kept apart by name:
+
+* ``lr_cyclic`` = Δσ_ref/(2σ'_y) enters only the bracket of the cyclic ΔJ estimate;
+* ``lr`` (monotonic) = P_max/P_L(a) = S_max/S_L(a) enters J_max, the FAD and collapse.
+
+References
+----------
+.. [1] Ainsworth, R. A., "The assessment of defects in structures of strain hardening material",
+   Eng. Fract. Mech. 19 (1984) 633–642: J/J_e = Eε_ref/σ_ref + ½L_r²σ_ref/(Eε_ref).
+.. [2] Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: ΔJ as a cyclic J-integral.
+.. [3] Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p), small cracks.
+.. [4] R6 Rev. 4 (EDF Energy) and BS 7910:2013+A1:2015, Option 1 and Option 2 FAD curves.
+.. [5] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326: δ_t = d_n·J/σ_0.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from cycj._jit import jit, ufunc
+from cycj.errors import ValidityRangeError
+from cycj.material import masing_plastic_strain_range
+
+# j_method codes used by the compiled stepper
+ELASTIC, REFERENCE_STRESS, SMALL_CRACK = 0, 1, 2
+J_METHODS = {"elastic": ELASTIC, "reference-stress": REFERENCE_STRESS,
+             "small-crack": SMALL_CRACK}
+
+
+# --------------------------------------------------------------------------- compiled scalars
+@jit
+def delta_j_elastic_scalar(delta_k, e_prime):
+    """ΔJ_el = ΔK²/E' [kJ/m²] for ΔK [MPa√mm] and E' [MPa]."""
+    return delta_k * delta_k / e_prime
+
+
+@jit
+def plastic_fraction_scalar(u, n_prime):
+    """f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U: the share of the Masing branch's plastic
+    work (from the minimum) that lies above the opening load.  U in [0, 1], 0 < n' ≤ 1."""
+    x = 1.0 - u
+    if x <= 0.0:
+        return 1.0
+    if x >= 1.0:
+        return 0.0
+    return 1.0 - (1.0 + n_prime) * x + n_prime * x ** (1.0 + 1.0 / n_prime)
+
+
+@jit
+def reference_stress_delta_j_scalar(dj_el, dsig_ref, e_mod, k_prime, n_prime, u):
+    """Effective ΔJ by the cyclic reference stress method on the Masing branch [kJ/m²].
+
+    ΔJ_eff = U²·ΔJ_el·[1 + ½L_r,cyc²·Δσ_ref/(EΔε_ref)] + f_pl·ΔJ_el·EΔε_p,ref/Δσ_ref,
+    Δε_ref = Δσ_ref/E + 2(Δσ_ref/2K')^(1/n'), L_r,cyc = Δσ_ref/(2σ'_y), σ'_y = K'·0.002^n'.
+    """
+    if dsig_ref <= 0.0:
+        return u * u * dj_el
+    dep = masing_plastic_strain_range(dsig_ref, k_prime, n_prime)
+    de_ref = dsig_ref / e_mod + dep
+    sy_cyc = k_prime * 0.002**n_prime
+    lr_cyc = dsig_ref / (2.0 * sy_cyc)
+    elastic_part = dj_el * (1.0 + 0.5 * lr_cyc * lr_cyc * dsig_ref / (e_mod * de_ref))
+    plastic_part = dj_el * e_mod * dep / dsig_ref
+    return u * u * elastic_part + plastic_fraction_scalar(u, n_prime) * plastic_part
+
+
+@jit
+def small_crack_delta_j_scalar(a, dsig, e_mod, k_prime, n_prime, u):
+    """Dowling's small-crack ΔJ = a(3.2ΔW_e + 5.0ΔW_p) [kJ/m²], with ΔW_e = Δσ²/2E and
+    ΔW_p = ΔσΔε_p/(1+n') from the Masing loop; closure keeps U² of the elastic and f_pl of the
+    plastic term.  ``a`` [mm], ``dsig`` [MPa]."""
+    dwe = dsig * dsig / (2.0 * e_mod)
+    dwp = dsig * masing_plastic_strain_range(dsig, k_prime, n_prime) / (1.0 + n_prime)
+    return a * (3.2 * u * u * dwe + 5.0 * plastic_fraction_scalar(u, n_prime) * dwp)
+
+
+@jit
+def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
+    """J at peak load by the reference stress method (Ainsworth 1984) [kJ/m²].
+
+    σ_ref = L_r·σ_y, ε_ref = σ_ref/E + (σ_ref/K)^(1/n) on the monotonic (or cyclic) curve.
+    """
+    if lr <= 0.0:
+        return j_el
+    s_ref = lr * sigma_y
+    e_ref = s_ref / e_mod + (s_ref / k) ** (1.0 / n)
+    return j_el * (e_mod * e_ref / s_ref + 0.5 * lr * lr * s_ref / (e_mod * e_ref))
+
+
+@jit
+def fad_option1_scalar(lr, lr_max):
+    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max."""
+    if lr > lr_max:
+        return 0.0
+    return (1.0 - 0.14 * lr * lr) * (0.3 + 0.7 * math.exp(-0.65 * lr**6))
+
+
+@jit
+def fad_option2_scalar(lr, lr_max, sigma_y, e_mod, k, n):
+    """Option 2 curve from the material's own curve,
+    f(L_r) = [Eε_ref/(L_rσ_y) + L_r³σ_y/(2Eε_ref)]^(−1/2); 1 at L_r = 0, 0 beyond L_r,max."""
+    if lr > lr_max:
+        return 0.0
+    if lr <= 0.0:
+        return 1.0
+    return 1.0 / math.sqrt(j_peak_scalar(1.0, lr, sigma_y, e_mod, k, n))
+
+
+# --------------------------------------------------------------------------- vectorised API
+_plastic_fraction = ufunc(plastic_fraction_scalar)
+_ref_stress_dj = ufunc(reference_stress_delta_j_scalar)
+_small_crack_dj = ufunc(small_crack_delta_j_scalar)
+_j_peak = ufunc(j_peak_scalar)
+_fad1 = ufunc(fad_option1_scalar)
+_fad2 = ufunc(fad_option2_scalar)
+
+
+def _nonneg(name, x):
+    x = np.asarray(x, float)
+    if np.any(~np.isfinite(x)) or np.any(x < 0):
+        raise ValidityRangeError(f"{name} must be finite and ≥ 0")
+    return x
+
+
+def _closure_u(u):
+    u = np.asarray(u, float)
+    if np.any(~((u >= 0) & (u <= 1))):
+        raise ValidityRangeError("U (effective range ratio) must lie in [0, 1]")
+    return u
+
+
+def _curve(material):
+    c = material.cyclic_curve
+    if c is None:
+        raise ValidityRangeError("this ΔJ estimate needs the material's cyclic curve (K', n')")
+    return c
+
+
+def delta_j_elastic(delta_k, e_prime):
+    """ΔJ_el = ΔK²/E' [kJ/m²].
+
+    Parameters
+    ----------
+    delta_k : array_like [MPa√mm], ≥ 0
+    e_prime : float [MPa], E (plane stress) or E/(1−ν²) (plane strain)
+
+    References
+    ----------
+    .. [1] Rice, J. R., J. Appl. Mech. 35 (1968) 379: J = K²/E' under small-scale yielding.
+    """
+    if not e_prime > 0:
+        raise ValidityRangeError("E' must be > 0 MPa")
+    return _nonneg("ΔK", delta_k) ** 2 / e_prime
+
+
+def plastic_fraction(u, n_prime):
+    """f_pl(U, n'): share of the Masing branch's plastic work above the opening load.
+
+    f_pl = 1 − (1+n')x + n'·x^(1+1/n'), x = 1 − U; f_pl(1) = 1, f_pl(0) = 0, → U² as n' → 1.
+
+    Derivation: on the branch Δε_p(s) = 2(s/2K')^(1/n') measured from the minimum, the plastic
+    work between s = xΔσ and Δσ, ∫ (Δσ − s) dε_p, divided by the full branch's ΔσΔε_p/(1+n').
+    """
+    n_prime = np.asarray(n_prime, float)
+    if np.any(~((n_prime > 0) & (n_prime <= 1))):
+        raise ValidityRangeError("n' must lie in (0, 1]")
+    return _plastic_fraction(_closure_u(u), n_prime)
+
+
+def reference_stress_delta_j(delta_j_el, delta_sigma_ref, material, u=1.0):
+    """Effective cyclic ΔJ [kJ/m²] by the reference stress method on the Masing branch.
+
+    Parameters
+    ----------
+    delta_j_el : array_like [kJ/m²], ΔK²/E' of the full applied range
+    delta_sigma_ref : array_like [MPa], ΔP·σ_y/P_L(a) (nominal stress range for infinite bodies)
+    material : cycj.material.Material with a cyclic curve
+    u : array_like in [0, 1], effective range ratio (1 − x, x = (P_op − P_min)/ΔP)
+
+    Notes
+    -----
+    Limits: Δσ_ref → 0 gives U²ΔJ_el; vanishing plastic strain gives U²ΔJ_el(1 + ½L_r,cyc²).
+
+    References
+    ----------
+    .. [1] Ainsworth, Eng. Fract. Mech. 19 (1984) 633, applied to the cyclic (doubled) curve.
+    """
+    c = _curve(material)
+    return _ref_stress_dj(_nonneg("ΔJ_el", delta_j_el), _nonneg("Δσ_ref", delta_sigma_ref),
+                          material.elastic_modulus, c.strength_coefficient,
+                          c.hardening_exponent, _closure_u(u))
+
+
+def small_crack_delta_j(a, delta_sigma, material, u=1.0):
+    """Dowling's (1977) ΔJ for a small surface crack in a smooth section [kJ/m²].
+
+    Parameters
+    ----------
+    a : array_like [mm], crack depth > 0
+    delta_sigma : array_like [MPa], stress range of the stable loop ≥ 0
+    material : Material with a cyclic curve
+    u : effective range ratio in [0, 1]
+
+    Notes
+    -----
+    The elastic term alone is 1.6·Δσ²·a/E (U = 1), its own K with Y ≈ 0.714.
+
+    References
+    ----------
+    .. [1] Dowling, N. E., ASTM STP 637 (1977) 97–121.
+    """
+    a = _nonneg("a", a)
+    c = _curve(material)
+    return _small_crack_dj(a, _nonneg("Δσ", delta_sigma), material.elastic_modulus,
+                           c.strength_coefficient, c.hardening_exponent, _closure_u(u))
+
+
+def lr_monotonic(geometry, a, s_max, sigma_y):
+    """L_r = P_max/P_L(a) = S_max/S_L(a) (monotonic, for J_max, FAD and collapse)."""
+    return np.asarray(s_max, float) / geometry.limit_stress(a, sigma_y)
+
+
+def lr_cyclic(delta_sigma_ref, cyclic_curve):
+    """L_r,cyc = Δσ_ref/(2σ'_y), σ'_y = K'·0.002^n' (enters only the cyclic ΔJ bracket)."""
+    return _nonneg("Δσ_ref", delta_sigma_ref) / (2 * cyclic_curve.proof_stress)
+
+
+def delta_j(geometry, material, a, delta_s, u=1.0, method="reference-stress"):
+    """Effective ΔJ [kJ/m²] for crack sizes ``a`` [mm] and nominal stress ranges ``delta_s``
+    [MPa] on ``geometry``; ``method`` is ``"reference-stress"``, ``"small-crack"`` or
+    ``"elastic"`` (U²·ΔK²/E')."""
+    a = np.asarray(a, float)
+    ds = _nonneg("ΔS", delta_s)
+    u = _closure_u(u)
+    if method == "small-crack":
+        return small_crack_delta_j(a, ds, material, u)
+    dj_el = delta_j_elastic(ds * geometry.k_over_s(a),
+                            material.effective_modulus(geometry.plane_strain))
+    if method == "elastic":
+        return u * u * dj_el
+    if method == "reference-stress":
+        dsig_ref = ds * material.yield_strength / geometry.limit_stress(a, material.yield_strength)
+        return reference_stress_delta_j(dj_el, dsig_ref, material, u)
+    raise ValueError(f"unknown j_method {method!r}; expected one of {', '.join(J_METHODS)}")
+
+
+def j_max(geometry, material, a, s_max):
+    """J at the peak nominal stress ``s_max`` [MPa] by the reference stress method with the
+    monotonic curve (the cyclic one if no monotonic curve is given) [kJ/m²]."""
+    curve = material.peak_curve
+    if curve is None:
+        raise ValidityRangeError("J_max needs a monotonic or cyclic stress–strain curve")
+    s = _nonneg("S_max", s_max)
+    j_el = delta_j_elastic(s * geometry.k_over_s(a),
+                           material.effective_modulus(geometry.plane_strain))
+    lr = lr_monotonic(geometry, a, s, material.yield_strength)
+    return _j_peak(j_el, lr, material.yield_strength, material.elastic_modulus,
+                   curve.strength_coefficient, curve.hardening_exponent)
+
+
+def fad_option1(lr, lr_max=np.inf):
+    """R6 / BS 7910 Option 1 curve f(L_r) (0 beyond ``lr_max``)."""
+    return _fad1(_nonneg("L_r", lr), float(lr_max))
+
+
+def fad_option2(lr, material):
+    """Option 2 curve from the material's own curve (monotonic if given, else cyclic)."""
+    curve = material.peak_curve
+    if curve is None:
+        raise ValidityRangeError("Option 2 needs a stress–strain curve")
+    return _fad2(_nonneg("L_r", lr), material.lr_max, material.yield_strength,
+                 material.elastic_modulus, curve.strength_coefficient,
+                 curve.hardening_exponent)
+
+
+# Shih (1981) D_n = d_n/(αε_0)^(1/n) at αε_0 = 0.002, computed from the HRR field (REFERENCE 15)
+_SHIH_N = np.array([3.0, 5.0, 10.0, 13.0])
+_SHIH_DN = {True: np.array([1.326, 1.085, 0.931, 0.898]),
+            False: np.array([2.036, 1.641, 1.369, 1.306])}
+
+
+def shih_dn(n, alpha_eps0=0.002, plane_strain=True):
+    """Shih's d_n for hardening exponent n (3 ≤ n ≤ 13, ε/ε0 = σ/σ0 + α(σ/σ0)^n).
+
+    References
+    ----------
+    .. [1] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326 (90° intercept definition);
+       values interpolated in n from D_n computed from the HRR field (from memory, [X]).
+    """
+    n = np.asarray(n, float)
+    if np.any((n < 3) | (n > 13)):
+        raise ValidityRangeError("Shih's d_n is tabulated here for 3 ≤ n ≤ 13 only")
+    if not alpha_eps0 > 0:
+        raise ValidityRangeError("αε_0 must be > 0")
+    dn = np.interp(n, _SHIH_N, _SHIH_DN[bool(plane_strain)])
+    return dn * alpha_eps0 ** (1 / n)
+
+
+def ctod_from_j(j, sigma_0, n, alpha_eps0=0.002, plane_strain=True):
+    """Crack-tip opening displacement δ_t = d_n·J/σ_0 [mm] for J [kJ/m²] and σ_0 [MPa]."""
+    if not sigma_0 > 0:
+        raise ValidityRangeError("σ_0 must be > 0 MPa")
+    return shih_dn(n, alpha_eps0, plane_strain) * _nonneg("J", j) / sigma_0

@@ -1,0 +1,126 @@
+"""Reading nested TOML tables with clear, one-line errors (file, key path, expected, found).
+
+Shared by the case file, the specimen file and every other TOML input.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import tomllib
+from pathlib import Path
+
+from cycj.errors import CycjInputError
+from cycj.units import to_internal
+
+
+def read_toml(path) -> dict:
+    """Parse a TOML file; a missing file or bad syntax is one clear error."""
+    path = Path(path)
+    if not path.is_file():
+        raise CycjInputError("file not found", source=str(path))
+    try:
+        with path.open("rb") as fh:
+            return tomllib.load(fh)
+    except tomllib.TOMLDecodeError as exc:
+        raise CycjInputError(f"not valid TOML ({exc})", source=str(path)) from None
+    except UnicodeDecodeError:
+        raise CycjInputError("not a UTF-8 text file", source=str(path)) from None
+
+
+class Table:
+    """One TOML table being read: every key read is remembered, the rest are reported."""
+
+    def __init__(self, raw, path: str, source: str | None):
+        if not isinstance(raw, dict):
+            raise CycjInputError("must be a table", source=source, key=path or None,
+                                 expected="a TOML table { ... }", found=raw)
+        self.raw, self.path, self.source = raw, path, source
+        self.known: set[str] = set()
+
+    def key(self, name: str) -> str:
+        return f"{self.path}.{name}" if self.path else name
+
+    def error(self, name: str, message: str, expected=None, found=None) -> CycjInputError:
+        return CycjInputError(message, source=self.source, key=self.key(name),
+                              expected=expected, found=found)
+
+    def has(self, name: str) -> bool:
+        self.known.add(name)
+        return name in self.raw
+
+    def get(self, name: str, default=None, *, required: bool = False):
+        self.known.add(name)
+        if name not in self.raw:
+            if required:
+                raise self.error(name, "missing required key")
+            return default
+        return self.raw[name]
+
+    def quantity(self, name, kind, *, required=False, default=None, positive=False,
+                 nonnegative=False, lo=None, hi=None):
+        """A quantity in internal units (unit strings allowed; bare numbers are internal)."""
+        raw = self.get(name, required=required)
+        if raw is None:
+            return default
+        val = to_internal(raw, kind, key=self.key(name), source=self.source)
+        self._range(name, val, raw, positive, nonnegative, lo, hi)
+        return val
+
+    def number(self, name, *, required=False, default=None, positive=False,
+               nonnegative=False, lo=None, hi=None, integer=False):
+        raw = self.get(name, required=required)
+        if raw is None:
+            return default
+        if isinstance(raw, bool) or not isinstance(raw, (int, float)):
+            raise self.error(name, "not a number", expected="a number", found=raw)
+        val = float(raw)
+        if not math.isfinite(val):
+            raise self.error(name, "not a finite number", expected="a finite number",
+                             found=raw)
+        if integer and val != int(val):
+            raise self.error(name, "not a whole number", expected="an integer", found=raw)
+        self._range(name, val, raw, positive, nonnegative, lo, hi)
+        return int(val) if integer else val
+
+    def _range(self, name, val, raw, positive, nonnegative, lo, hi):
+        if positive and not val > 0:
+            raise self.error(name, "out of range", expected="a value > 0", found=raw)
+        if nonnegative and not val >= 0:
+            raise self.error(name, "out of range", expected="a value ≥ 0", found=raw)
+        if lo is not None and hi is not None and not lo[0] <= val <= hi[0]:
+            raise self.error(name, "out of range", expected=f"{lo[1]} to {hi[1]}", found=raw)
+
+    def choice(self, name, options, *, default=None, required=False):
+        raw = self.get(name, default=default, required=required)
+        if raw is None:
+            return None
+        if not isinstance(raw, str) or raw not in options:
+            near = difflib.get_close_matches(str(raw), list(options), n=1)
+            hint = f" (did you mean '{near[0]}'?)" if near else ""
+            raise self.error(name, f"unknown value{hint}",
+                             expected="one of " + ", ".join(repr(o) for o in options),
+                             found=raw)
+        return raw
+
+    def string(self, name, *, default=None, required=False):
+        raw = self.get(name, default=default, required=required)
+        if raw is not None and not isinstance(raw, str):
+            raise self.error(name, "not a string", expected="a text value in quotes", found=raw)
+        return raw
+
+    def table(self, name, *, required=False):
+        raw = self.get(name, required=required)
+        if raw is None:
+            return None
+        return Table(raw, self.key(name), self.source)
+
+    def finish(self, extra_ok=()):
+        """Report the first unknown key, with a 'did you mean' from the known ones."""
+        known = self.known | set(extra_ok)
+        for k in self.raw:
+            if k not in known:
+                near = difflib.get_close_matches(k, sorted(known), n=1)
+                hint = f" (did you mean '{near[0]}'?)" if near else ""
+                raise self.error(k, f"unknown key{hint}",
+                                 expected="one of " + ", ".join(sorted(known)))

@@ -1,0 +1,136 @@
+"""Stress intensity and limit-load solutions against published values."""
+
+import math
+
+import pytest
+
+from cycj.errors import CycjInputError, ValidityRangeError
+from cycj.geometry import SHAPES, make_geometry
+
+MPA_SQRT_M = math.sqrt(1000.0)
+
+
+# ASTM E399 / Srawley (1976) C(T) f(a/W); values from Anderson, Fracture Mechanics 3rd ed. (2005)
+# Table 2.4 (REFERENCE item 1, confirmed)
+@pytest.mark.parametrize("alpha,f", [(0.2, 4.2737), (0.4, 7.2787), (0.5, 9.6591),
+                                     (0.6, 13.654), (0.7, 21.552)])
+def test_compact_tension_srawley_e399(alpha, f):
+    g = make_geometry("compact-tension", alpha * 50, width=50, thickness=25)
+    assert g.k_over_s(alpha * 50) / math.sqrt(50) == pytest.approx(f, rel=2e-4)
+
+
+def test_compact_tension_worked_value_e399():
+    # P = 10 kN, B = 25, W = 50 mm, a/W = 0.5 → K = 17.279 MPa√m (REFERENCE item 1)
+    g = make_geometry("compact-tension", 25, width=50, thickness=25)
+    s = 10e3 * g.nominal_stress_per_force()
+    assert s * g.k_over_s(25) / MPA_SQRT_M == pytest.approx(17.279, rel=1e-4)
+
+
+# ASTM E399 SE(B), S/W = 4, in P/(B√W) units (×S/W): Anderson Table 2.4 (REFERENCE item 2)
+@pytest.mark.parametrize("alpha,f", [(0.3, 6.0850), (0.5, 10.650), (0.6, 15.086)])
+def test_three_point_bend_srawley_e399(alpha, f):
+    g = make_geometry("three-point-bend", alpha * 40, width=40, thickness=20)
+    assert g.k_over_s(alpha * 40) / math.sqrt(40) == pytest.approx(f, rel=2e-4)
+
+
+# Tada (1973) M(T) secant form, Anderson Table 2.4 (REFERENCE item 3, confirmed)
+@pytest.mark.parametrize("lam,f", [(0.5, 1.18623), (0.8, 1.81433)])
+def test_center_crack_plate_tada(lam, f):
+    g = make_geometry("center-crack-plate", lam * 50, width=100, thickness=5)
+    a = lam * 50
+    assert g.k_over_s(a) / math.sqrt(math.pi * a) == pytest.approx(f, rel=1e-5)
+
+
+def test_center_crack_plate_worked_value():
+    # P = 10 kN, B = 5, W = 100, 2a = 50 mm → K = 6.6655 MPa√m with Feddersen's (1966) secant
+    # factor 1.18921 (REFERENCE item 3, from memory); cycj uses Tada's 1.18623 (confirmed), so
+    # the same case gives 6.6655·1.18623/1.18921.
+    g = make_geometry("center-crack-plate", 25, width=100, thickness=5)
+    s = 10e3 * g.nominal_stress_per_force()
+    assert s * g.k_over_s(25) / MPA_SQRT_M == pytest.approx(6.6655 * 1.18623 / 1.18921,
+                                                            rel=1e-4)
+
+
+# Tada SE(T): Anderson Table 2.4 (REFERENCE item 4, confirmed)
+@pytest.mark.parametrize("alpha,f", [(0.1, 1.1957), (0.2, 1.3667), (0.5, 2.8266)])
+def test_edge_crack_plate_tada(alpha, f):
+    g = make_geometry("edge-crack-plate", alpha * 50, width=50, thickness=10)
+    a = alpha * 50
+    assert g.k_over_s(a) / math.sqrt(math.pi * a) == pytest.approx(f, rel=1e-4)
+
+
+def test_infinite_and_semi_infinite():
+    # Griffith–Irwin K = σ√(πa) exactly; edge crack in a half-plane 1.1215σ√(πa) (Tada 2000)
+    g = make_geometry("center-crack-infinite-plate", 7.0)
+    assert g.k_over_s(7.0) == pytest.approx(math.sqrt(math.pi * 7.0), rel=1e-14)
+    h = make_geometry("edge-crack-semi-infinite", 7.0)
+    assert h.k_over_s(7.0) == pytest.approx(1.1215 * math.sqrt(math.pi * 7.0), rel=1e-14)
+    assert g.limit_stress(7.0, 300.0) == 300.0
+
+
+def test_edge_crack_plate_small_crack_tends_to_half_plane():
+    # Tada's SE(T) F(α → 0) = 1.122 (free-surface factor), Tada handbook
+    g = make_geometry("edge-crack-plate", 0.01, width=100, thickness=10)
+    assert g.k_over_s(0.01) / math.sqrt(math.pi * 0.01) == pytest.approx(1.122, abs=2e-3)
+
+
+# Kumar, German & Shih, EPRI NP-1931 (1981): C(T) plane strain P0 = 1.455·η·b·σ0 per unit
+# thickness; at a/W = 0.5, η = 0.16228 and P0/(bσ0) = 0.2361 (REFERENCE item 11, from memory)
+def test_compact_tension_limit_load_epri():
+    g = make_geometry("compact-tension", 25, width=50, thickness=10)
+    p_l = g.limit_stress(25, 300.0) * 50 * 10
+    assert p_l / (25 * 300.0 * 10) == pytest.approx(0.2361, rel=5e-4)
+    g2 = make_geometry("compact-tension", 25, width=50, thickness=10, constraint="plane-stress")
+    assert g2.limit_stress(25, 300.0) / g.limit_stress(25, 300.0) == pytest.approx(
+        1.072 / 1.455)
+
+
+def test_three_point_bend_limit_load_epri():
+    # EPRI NP-1931: SE(B) P0 = 0.728·σ0·b²/L (plane strain), L = half span (from memory)
+    g = make_geometry("three-point-bend", 20, width=40, thickness=10)
+    p_l = g.limit_stress(20, 400.0) * 40 * 10
+    assert p_l == pytest.approx(0.728 * 400.0 * 20**2 * 10 / 80.0, rel=1e-12)
+
+
+def test_center_crack_plate_limit_load_net_section():
+    # net section (W − 2a)·B·σ_y in plane stress; ×2/√3 in plane strain (EPRI NP-1931)
+    g = make_geometry("center-crack-plate", 20, width=100, thickness=5,
+                      constraint="plane-stress")
+    assert g.limit_stress(20, 300.0) * 100 * 5 == pytest.approx(60 * 5 * 300.0)
+    h = make_geometry("center-crack-plate", 20, width=100, thickness=5)
+    assert h.limit_stress(20, 300.0) / g.limit_stress(20, 300.0) == pytest.approx(
+        2 / math.sqrt(3))
+
+
+def test_edge_crack_plate_limit_load_limits():
+    # tension–bending interaction: full section at a → 0, zero at a → W (common practice)
+    g = make_geometry("edge-crack-plate", 1e-9, width=50, thickness=5,
+                      constraint="plane-stress")
+    assert g.limit_stress(1e-9, 300.0) == pytest.approx(300.0, rel=1e-6)
+    # rectangular section under N and M = N·a/2: M/M0 + (N/N0)² = 1 (plastic interaction)
+    a, w, sy = 20.0, 50.0, 300.0
+    p_l = g.limit_stress(a, sy) * w * 5
+    b = w - a
+    n0, m0 = sy * 5 * b, sy * 5 * b * b / 4
+    assert p_l * a / 2 / m0 + (p_l / n0) ** 2 == pytest.approx(1.0, rel=1e-10)
+
+
+def test_six_shapes_registered():
+    assert set(SHAPES) >= {"center-crack-infinite-plate", "center-crack-plate",
+                           "edge-crack-plate", "edge-crack-semi-infinite", "compact-tension",
+                           "three-point-bend"}
+
+
+def test_outside_validity_is_an_error():
+    with pytest.raises(CycjInputError, match="validity"):
+        make_geometry("compact-tension", 5, width=50, thickness=10)   # a/W = 0.1 < 0.2
+    g = make_geometry("compact-tension", 25, width=50, thickness=10)
+    with pytest.raises(ValidityRangeError):
+        g.k_over_s(49.0)
+
+
+def test_side_grooves_raise_k():
+    # ASTM E1820: K ∝ 1/√(B·B_N)
+    g = make_geometry("compact-tension", 25, width=50, thickness=20)
+    h = make_geometry("compact-tension", 25, width=50, thickness=20, net_thickness=16)
+    assert h.k_over_s(25) / g.k_over_s(25) == pytest.approx(math.sqrt(20 / 16))
