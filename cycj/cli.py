@@ -67,6 +67,14 @@ def main(argv=None):
     except (OSError, UnicodeDecodeError) as exc:
         click.echo(f"cycj: error: {exc}", err=True)
         sys.exit(2)
+    except Exception as exc:  # noqa: BLE001 - a bug: one line, traceback on request
+        import os
+
+        if os.environ.get("CYCJ_DEBUG"):
+            raise
+        click.echo(f"cycj: internal error: {type(exc).__name__}: {exc} (set CYCJ_DEBUG=1 for "
+                   "the traceback, and please report it)", err=True)
+        sys.exit(1)
     sys.exit(rv if isinstance(rv, int) else 0)
 
 

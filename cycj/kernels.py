@@ -14,6 +14,8 @@ Per cycle (S_max, S_min nominal stresses, crack size a):
 
 from __future__ import annotations
 
+import numpy as np
+
 from cycj._jit import jit
 from cycj.geometry.dispatch import k_over_s, limit_stress
 from cycj.growth import opening_fraction, paris_rate
@@ -207,3 +209,20 @@ def first_end(smax_peak, a_grid, code, gp, mp):
         if end != RUNNING:
             return k, end
     return -1, RUNNING
+
+
+@jit
+def tearing_margin_kernel(s_peak, a, a_hi, c1, c2, code, gp, mp, n_points):
+    """max over Δa ∈ [1e-4 mm, a_hi − a] (geometric grid) of J_R(Δa) − J_max(a + Δa) at the
+    peak nominal stress [kJ/m²]; J_R = C1·(Δa/1 mm)^C2.  Negative: unstable tearing."""
+    span = a_hi - a
+    if span <= 0.0:
+        return -np.inf
+    best = -np.inf
+    lo = np.log(1e-4)
+    step = (np.log(span) - lo) / (n_points - 1) if span > 1e-4 else 0.0
+    for k in range(n_points):
+        da = np.exp(lo + step * k) if step > 0.0 else span
+        jmax = cycle_driving_force(s_peak, 0.0, min(a + da, a_hi), code, gp, mp)[1]
+        best = max(best, c1 * da**c2 - jmax)
+    return best

@@ -154,13 +154,10 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
     mp[M.A_LIMIT] = size_limit(case)[0]
     mp[M.A_TEAR] = math.inf
     if "tearing" in crit and s_peak is not None:
-        from dataclasses import replace
-
         rc = mat.resistance_curve
-        mat_t = replace(mat, resistance_curve=replace(rc, C1=rc.C1 * toughness_scale))
-        mp[M.A_TEAR] = tearing_instability_size(geo, mat_t, s_peak, geo.size_limits[0]
-                                                if geo.size_limits[0] > 0 else 1e-6,
-                                                mp[M.A_LIMIT])
+        a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
+        mp[M.A_TEAR] = tearing_instability_size(geo, s_peak, a_from, mp[M.A_LIMIT],
+                                                rc.C1 * toughness_scale, rc.C2, mp)
     return mp
 
 
