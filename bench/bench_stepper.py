@@ -55,12 +55,19 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     geo = case.geometry
     rec = np.zeros((10, K.N_REC))
     acc = np.zeros(8)
-    args = (smax, smin, 15.0, 0.0, 0.0, 1, 1e18, geo.code, geo.params, mp, 1e9, rec, 0, acc)
-    K.run_cycles(*args)  # compile / load from cache
+
+    def state():
+        st = np.zeros(M.N_STATE)
+        st[M.ST_A] = 15.0
+        return st
+
+    K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
+                 acc)  # compile / load from cache
     acc[:] = 0
+    st = state()
     t = time.perf_counter()
-    out = K.run_cycles(smax, smin, 15.0, 0.0, 0.0, blocks, 1e18, geo.code, geo.params, mp,
-                       1e9, rec, 0, acc)
+    K.run_cycles(smax, smin, st, blocks, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
+                 acc)
     t_py = time.perf_counter() - t
     with tempfile.TemporaryDirectory() as tmp:
         data = Path(tmp) / "block.bin"
@@ -75,7 +82,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     c_cycles, c_a = res.stdout.split()
     n = n_block * blocks
     print(f"stepper: {n:.3g} cycles in {t_py:.3f} s = {n / t_py / 1e6:.2f} M cycles/s; "
-          f"a = {out[2]:.9f} mm")
+          f"a = {st[M.ST_A]:.9f} mm")
     print(f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = "
           f"{float(c_a):.9f} mm")
     print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.8)")

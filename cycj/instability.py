@@ -37,10 +37,10 @@ from cycj.model_params import (
 
 # end codes (0 = still running)
 RUNNING, END_TOUGHNESS, END_TEARING, END_FAD, END_COLLAPSE, END_SIZE, END_MAX_CYCLES, \
-    END_NO_GROWTH = range(8)
+    END_NO_GROWTH, END_LEAK = range(9)
 END_NAMES = {END_TOUGHNESS: "toughness", END_TEARING: "tearing", END_FAD: "fad",
              END_COLLAPSE: "collapse", END_SIZE: "size-limit", END_MAX_CYCLES: "max-cycles",
-             END_NO_GROWTH: "no-growth"}
+             END_NO_GROWTH: "no-growth", END_LEAK: "leak"}
 
 
 
