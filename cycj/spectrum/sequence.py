@@ -29,8 +29,9 @@ def cycles_in_sequence(values, gate: float = 0.0,
         last in the block.
     ``order="reversal"`` (the stepper's order **with** a sequence model, e.g. Wheeler or
     Willenborg)
-        Each rising reversal (a valley and the next peak) is one cycle, in time order, starting
-        at the first valley of the block.  Retardation depends on when an overload happens;
+        Each rising reversal (a valley and the next peak) is one cycle, in the time order of
+        its peak within the block (the first peak's valley may be the end of the previous
+        pass).  Retardation depends on when an overload happens;
         rainflow order would move the largest cycle (often the overload) to the end of the
         block and so misplace it, while time order keeps each peak where it occurred.
 
@@ -71,6 +72,6 @@ def cycles_in_sequence(values, gate: float = 0.0,
     ring, ring_idx = v[:-1], idx[:-1]
     n = np.asarray(values).shape[0]
     ring = np.roll(ring, -int(np.argmin(ring_idx % n)))
-    if ring[0] > ring[1]:  # starts on a peak: begin at the next valley
-        ring = np.roll(ring, -1)
+    if ring[0] > ring[1]:  # the first reversal in time is a peak: its valley came before it
+        ring = np.roll(ring, 1)
     return ring[1::2].copy(), ring[0::2].copy()
