@@ -93,7 +93,10 @@ def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: f
                              expected=".csv, .tsv, .txt, .dat, .parquet or .npy", found=suffix)
     factor = float(unit_factor) * float(scale)
     if factor != 1.0:
-        values *= factor
+        if values.flags.writeable:
+            values *= factor  # in place: no second copy of a long history
+        else:  # pragma: no cover - e.g. a read-only memory map
+            values = values * factor
     return values, times
 
 
@@ -216,8 +219,8 @@ def _read_text(path: Path, column, time_column):
     except (ValueError, pd.errors.ParserError) as exc:
         _locate_text_error(path, sep, skip, use, names, src, exc)
         raise  # pragma: no cover - _locate_text_error always raises
-    values = np.ascontiguousarray(df[pos].to_numpy(dtype=np.float64))
-    times = None if t_pos is None else np.ascontiguousarray(df[t_pos].to_numpy(np.float64))
+    values = df[pos].to_numpy(dtype=np.float64, copy=True)
+    times = None if t_pos is None else df[t_pos].to_numpy(dtype=np.float64, copy=True)
     del df
     line_of = _TextLines(path, skip)
     _check_values(values, names[pos], src, line_of)
@@ -361,9 +364,46 @@ def _read_parquet(path: Path, column, time_column):
             raise CycjInputError(f"not a number in column {names[p]!r} at row {row + 1}",
                                  source=src, line=row + 1, expected="a number",
                                  found=col.iloc[row] if len(col) else str(col.dtype))
-        out.append(np.ascontiguousarray(col.to_numpy(dtype=np.float64, na_value=np.nan)))
+        out.append(col.to_numpy(dtype=np.float64, na_value=np.nan, copy=True))
     del df
     _check_values(out[0], names[pos], src, _row_lines)
     if out[1] is not None:
         _check_values(out[1], names[t_pos], src, _row_lines)
     return out[0], out[1]
+
+
+# ---------------------------------------------------------------- units
+
+def history_unit(unit: str | None, key: str = "unit") -> tuple[float, str, str | None]:
+    """Factor from a history's unit to cycj's internal unit, that unit, and its kind.
+
+    Parameters
+    ----------
+    unit : str or None
+        A force unit (``"kN"``, ``"lbf"`` → N) or a stress unit (``"MPa"``, ``"ksi"`` → MPa);
+        None means the values are taken as they are.
+
+    Returns
+    -------
+    factor : float
+        Multiply the file's values by this.
+    internal : str
+        ``"N"``, ``"MPa"`` or ``""`` (no unit given).
+    kind : str or None
+        ``"force"``, ``"stress"`` or None.
+    """
+    from cycj.units import registry, to_internal
+
+    if unit is None or not str(unit).strip():
+        return 1.0, "", None
+    ureg = registry()
+    try:
+        q = ureg.Quantity(1.0, str(unit).replace("^", "**"))
+    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
+        q = None
+    if q is not None and q.check("[force]"):
+        return to_internal(f"1 {unit}", "force", key=key), "N", "force"
+    if q is not None and q.check("[pressure]"):
+        return to_internal(f"1 {unit}", "stress", key=key), "MPa", "stress"
+    raise CycjInputError("not a unit of force or stress", key=key,
+                         expected="e.g. 'kN', 'N', 'MPa' or 'ksi'", found=unit)
