@@ -17,7 +17,7 @@ def _figure():
 
 
 def _unit(unit: str) -> str:
-    return f" [{unit}]" if unit else ""
+    return f" [{unit}]" if unit else " [unit of the file]"
 
 
 def _save(fig, plt, path):
