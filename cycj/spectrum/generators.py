@@ -210,7 +210,9 @@ def exceedance_sequence(amplitudes, cumulative_counts, mean: float = 0.0,
     Returns
     -------
     numpy.ndarray of float64
-        Reversals (valley, peak, …), starting and ending at a valley.
+        Reversals: peak and valley of each cycle in turn (peak first).  Counted as a
+        repeating block, the rainflow cycles reproduce the table exactly, since all cycles
+        share one mean.
     """
     amp = np.asarray(amplitudes, dtype=np.float64)
     cum = np.rint(np.asarray(cumulative_counts, dtype=np.float64)).astype(np.int64)
@@ -231,10 +233,9 @@ def exceedance_sequence(amplitudes, cumulative_counts, mean: float = 0.0,
         for i in rng.permutation(amp.size):
             peaks.append(np.full(int(share[i, b]), amp[i]))
     a = np.concatenate(peaks)
-    out = np.empty(2 * a.size + 1)
-    out[0] = mean - a[0]
-    out[1::2] = mean + a
-    out[2::2] = mean - a
+    out = np.empty(2 * a.size)
+    out[0::2] = mean + a
+    out[1::2] = mean - a
     return out
 
 
