@@ -168,3 +168,31 @@ def test_count_command_constant(tmp_path, capsys):
     p = _write(tmp_path, "c.csv", "load\n5\n5\n5\n")
     code, out, _ = _run(["count", str(p)], capsys)
     assert code == 0 and "cycles: none" in out
+
+
+# ---------------------------------------------------------------- demonstration spectra
+
+SPECTRA_DIR = __import__("pathlib").Path(__file__).resolve().parents[1] / "loadspectra"
+
+
+@pytest.mark.parametrize("name", ["crane_duty.csv", "pressure_vessel.csv", "wind_member.csv",
+                                  "press_frame.csv", "suspension_arm.csv"])
+def test_demo_spectra_are_small_labelled_and_readable(name):
+    path = SPECTRA_DIR / name
+    head = path.read_text().splitlines()[:8]
+    assert any("invented" in line.lower() for line in head if line.startswith("#"))
+    assert any("unit" in line.lower() for line in head if line.startswith("#"))
+    assert path.stat().st_size < 1_000_000
+    x = read_history(path, column="load")
+    assert 2 <= x.size <= 20_000
+    assert count_cycles(x)["count"].sum() > 10
+
+
+def test_demo_crane_and_pressure_ranges():
+    crane = read_history(SPECTRA_DIR / "crane_duty.csv")  # kN
+    df = count_cycles(crane, gate=1.0)
+    peaks = df["mean"] + 0.5 * df["range"]
+    assert crane.min() >= 0.0 and 40.0 <= crane.max() <= 65.0
+    assert peaks[df["range"] > 5.0].min() >= 8.0
+    vessel = read_history(SPECTRA_DIR / "pressure_vessel.csv")  # MPa
+    assert vessel.min() >= 0.0 and 130.0 <= vessel.max() <= 160.0
