@@ -20,7 +20,6 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # run from a sourc
 from cycj.spectrum import count_cycles  # noqa: E402
 from cycj.spectrum.generators import (  # noqa: E402
     block_programme,
-    constant_amplitude,
     exceedance_sequence,
     gaussian_from_irregularity,
     gaussian_from_psd,

@@ -146,7 +146,6 @@ def write_count_outputs(out_dir, values: np.ndarray, cycles: dict, unit: str = "
                 lambda p: pd.DataFrame({f"range{suffix}": levels, "cycles_exceeding": cum})
                 .to_csv(p, index=False, float_format="%.10g")),
     ]
-    del table
     rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"])) % max(len(values), 1))
     written += [
         _atomic(out / "history.png",
