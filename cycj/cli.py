@@ -14,6 +14,7 @@ import click
 #: command name → "module:function" (each module lives in cycj/commands/)
 COMMANDS = {
     "check": "cycj.commands.check:check",
+    "count": "cycj.commands.count:count",
     "geometries": "cycj.commands.check:geometries",
     "run": "cycj.commands.run:run",
 }
