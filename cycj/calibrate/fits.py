@@ -162,7 +162,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
 
     grids = []
     for s in series:
-        ag = np.linspace(s["a_tab"][0] - 0.05 * np.ptp(s["a_tab"]), s["a_tab"][-1] + 0.5 * np.ptp(s["a_tab"]) + 1e-6, 600)
+        span = np.ptp(s["a_tab"])
+        ag = np.linspace(s["a_tab"][0] - 0.05 * span, s["a_tab"][-1] + 0.5 * span + 1e-6, 600)
         dj = np.interp(ag, s["a_tab"], s["dj_tab"])
         # extend beyond the data with the last slope in ln ΔJ – a
         tail = ag > s["a_tab"][-1]

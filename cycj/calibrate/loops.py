@@ -237,8 +237,8 @@ def reduce_loops_kernel(load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg
     Returns an array (n_loops, 7) with columns P_max, P_min [N], compliance dV/dP [mm/N] of the
     unloading branch between P_max − fit_hi·ΔP and P_max − fit_lo·ΔP, opening load [N] (first
     segment from the top whose offset reaches ``criterion`` and stays there, interpolated to
-    the criterion between the lower ends of the segments; P_min if none), loading-branch area above the opening load [N·mm], sample
-    count and status (see :data:`LOOP_STATUS`).
+    the criterion between the lower ends of the segments; P_min if none), loading-branch area
+    above the opening load [N·mm], sample count and status (see :data:`LOOP_STATUS`).
     """
     m = starts.size
     out = np.full((m, 7), math.nan)
