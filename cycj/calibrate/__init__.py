@@ -197,7 +197,7 @@ def fit_logs(log_paths, specimen_path, method="auto", *, spacing="e647", confide
                        specs)
     snippet = growth_snippet(summary)
     for name, g in gradients.items():
-        if g < -0.08:
+        if round(g, 3) < -0.08:
             warnings.append(f"{name}: K-decreasing gradient (1/K)dK/da = {g:.3f} /mm is "
                             "steeper than the ASTM E647 limit −0.08 /mm")
     summary["warnings"] = warnings
