@@ -28,7 +28,7 @@ def _skip(skipped, log, cycles, mask, reason):
         skipped.append({"log": log, "cycle": float(c), "reason": reason})
 
 
-def crack_from_compliance(specimen, comp, ok):
+def crack_from_compliance(specimen, comp, ok, cycles=None):
     """Crack length [mm] from the measured compliance [mm/N] of each loop; NaN where the
     expression's range is left.  ``ok`` marks loops usable for anchoring.  Returns (a, note)."""
     geo = specimen.geometry
@@ -45,11 +45,16 @@ def crack_from_compliance(specimen, comp, ok):
 
     a_grid, dc = cm.castigliano_compliance_table(geo, specimen.e_prime,
                                                  tips=_tips(specimen.shape))
-    first = np.flatnonzero(ok)[:3]
-    c0 = np.median(comp[first]) - np.interp(specimen.initial_crack, a_grid, dc)
+    first = np.flatnonzero(ok)[:5]
+    if first.size >= 3 and cycles is not None:   # trend of the first loops, at the first one
+        c_first = np.polyval(np.polyfit(cycles[first], comp[first], 1), cycles[first[0]])
+    else:
+        c_first = comp[first[0]]
+    c0 = c_first - np.interp(specimen.initial_crack, a_grid, dc)
     a = cm.crack_from_table(comp - c0, a_grid, dc)
     return a, ("load-point compliance from K by Castigliano's theorem (Tada, Paris & Irwin), "
-               "uncracked-body part anchored at the initial crack length on the first loops")
+               "uncracked-body part anchored at the initial crack length (trend of the first five "
+               "loops)")
 
 
 def _outliers(a, ok, cycles):
@@ -147,7 +152,7 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
         if code:
             _skip(skipped, log.name, cyc, res["status"] == code, reason)
     comp = res["compliance"]
-    a, how_a = crack_from_compliance(specimen, comp, ok)
+    a, how_a = crack_from_compliance(specimen, comp, ok, cyc)
     bad = ok & ~np.isfinite(a)
     _skip(skipped, log.name, cyc, bad, "crack length outside the compliance expression's range")
     ok &= ~bad

@@ -26,9 +26,10 @@ import numpy as np
 from cycj.errors import ValidityRangeError
 from cycj.material import masing_plastic_strain_range
 
-#: uncracked-body part of the load-point compliance for shapes without an E647 expression,
+#: uncracked-body part of the compliance for shapes without an E647 expression (a short gauge
+#: across the crack),
 #: as E·B·C0 (dimensionless; any value works: the reduction anchors it at the first loop)
-_C0_NORMALISED = 3.0
+_C0_NORMALISED = 0.3
 
 
 @dataclass
