@@ -386,3 +386,42 @@ def test_package_export():
     import cycj
 
     assert cycj.fit_logs is fit_logs
+
+
+def test_first_last_optical_correction(tmp_path):
+    # ASTM E647 practice: compliance crack lengths corrected linearly in extension so the first
+    # and last match the optical readings; here the "optical" final reading is the true one
+    spec = read_specimen(write_spec(tmp_path))
+    sim = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, record_every=500,
+                        crack_end=28, seed=9)
+    a_end = float(sim.truth["a_mm"].iloc[-1])
+    text = CT_SPEC.format(bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="",
+                          point="front-face")
+    text += f'final_crack_length = "{a_end:.4f} mm"\ncrack_correction = "first-last"\n'
+    p = write_spec(tmp_path, "corr.toml", text=text)
+    res = fit_logs([write_log(tmp_path, sim.raw, "c.csv")], p)
+    a = res.reduced["a_mm"].to_numpy()
+    assert np.median(a[:3]) == pytest.approx(15.0, abs=0.03)
+    assert np.median(a[-3:]) == pytest.approx(a_end, abs=0.03)
+    assert "linear" in res.summary["methods_used"]["c.csv"]["crack_correction"]
+
+
+def test_round_trip_three_point_bend(tmp_path):
+    # SE(B), load-line compliance from K (Castigliano), η = 1.9 (ASTM E1820, from memory)
+    text = """
+shape = "three-point-bend"
+width = "25 mm"
+thickness = "12.5 mm"
+crack_length = "7 mm"
+elastic_modulus = "205 GPa"
+poisson_ratio = 0.3
+yield_strength = "450 MPa"
+displacement_at = "load-line"
+"""
+    p = write_spec(tmp_path, "seb.toml", text=text)
+    sim = simulate_test(read_specimen(p), 6e-5, 1.5, p_max=9000, r_ratio=0.1,
+                        record_every=500, crack_end=17, seed=10)
+    res = fit_logs([write_log(tmp_path, sim.raw, "seb.csv")], p)
+    a_true = np.interp(res.reduced["cycle"], sim.truth["cycle"], sim.truth["a_mm"])
+    assert np.max(np.abs(res.reduced["a_mm"] - a_true)) < 0.15
+    assert res.summary["m"] == pytest.approx(1.5, abs=0.1)
