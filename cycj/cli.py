@@ -17,6 +17,7 @@ COMMANDS = {
     "count": "cycj.commands.count:count",
     "geometries": "cycj.commands.check:geometries",
     "run": "cycj.commands.run:run",
+    "fit": "cycj.commands.fit:fit",
 }
 
 
