@@ -1,7 +1,8 @@
 """One place that decides how cycj's kernels are compiled.
 
 ``jit`` is numba's ``njit`` with ``cache=True`` and ``fastmath`` off.  The numba cache lives in a
-folder keyed on cycj's version, so an upgrade never runs stale machine code.  Setting the
+folder keyed on cycj's version and a hash of its sources, so an upgrade (or an edit) never runs
+stale machine code.  Setting the
 environment variable ``CYCJ_DISABLE_JIT=1`` runs the same source as plain Python (for coverage
 and debugging).
 """
@@ -14,12 +15,24 @@ from pathlib import Path
 from cycj._version import __version__
 
 
+def _source_key() -> str:
+    """Hash of the compiled modules' sources: numba's own cache check looks only at the file
+    of the cached function, not at the kernels it calls from other modules."""
+    import hashlib
+
+    h = hashlib.sha1()
+    root = Path(__file__).resolve().parent
+    for path in sorted(root.rglob("*.py")):
+        h.update(path.read_bytes())
+    return h.hexdigest()[:12]
+
+
 def _cache_dir() -> str:
     base = os.environ.get("CYCJ_CACHE_DIR")
     if base is None:
         xdg = os.environ.get("XDG_CACHE_HOME", str(Path.home() / ".cache"))
         base = str(Path(xdg) / "cycj")
-    return str(Path(base) / f"numba-{__version__}")
+    return str(Path(base) / f"numba-{__version__}-{_source_key()}")
 
 
 os.environ.setdefault("NUMBA_CACHE_DIR", _cache_dir())

@@ -136,7 +136,7 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
     title = top.string("title", default=path.stem if path else "untitled case")
     mat_t = top.table("material", required=True)
     geo_t = top.table("geometry", required=True)
-    geometry = _geometry(geo_t)
+    geometry = _geometry(geo_t, base or Path("."))
     material, jc_note = _material(mat_t, geometry)
     growth = _growth(mat_t.table("growth", required=True), material, geometry)
     mat_t.finish()
@@ -178,16 +178,24 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
                 raw, jc_note)
 
 
-def _geometry(t: Table) -> Geometry:
+def _geometry(t: Table, base: Path) -> Geometry:
     shape = t.choice("shape", SHAPE_NAMES, required=True)
     kw = {}
-    for k in ("width", "thickness", "net_thickness", "span", "half_length"):
+    for k in ("width", "thickness", "net_thickness", "span", "half_length", "inner_radius"):
         v = t.quantity(k, "length", positive=True)
         if v is not None:
             kw[k] = v
     br = t.number("bending_ratio")
     if br is not None:
         kw["bending_ratio"] = br
+    table = t.string("table")
+    if table is not None:
+        from cycj.geometry.tabulated import read_table
+
+        path = base / table
+        if not path.is_file():
+            raise t.error("table", "table file not found", found=str(path))
+        kw["table"] = read_table(path, source=str(path))
     a = t.quantity("crack_length", "length", required=True, positive=True)
     constraint = t.choice("constraint", ("plane-strain", "plane-stress"),
                           default="plane-strain")
@@ -331,15 +339,14 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     if unit is not None and kind_from_unit is None:
         raise t.error("unit", "not a unit of force or stress", expected="e.g. 'kN' or 'MPa'",
                       found=unit)
-    default_q = kind_from_unit or ("force" if "force" in geometry.shape.loading else "stress")
+    default_q = kind_from_unit or geometry.shape.loading[0]
     if const is not None and unit is None:
         s = str(const.get("max", ""))
         default_q = _quantity_kind(s.split(" ", 1)[1]) if " " in s.strip() else default_q
         default_q = default_q or "stress"
+    if default_q == "stress" and "pressure" in geometry.shape.loading:
+        default_q = "pressure"
     quantity = t.choice("quantity", ("force", "stress", "pressure"), default=default_q)
-    if quantity == "pressure":
-        raise t.error("quantity", "pressure loading needs a pressurised shape (none yet)",
-                      expected="'force' or 'stress'", found=quantity)
     if quantity not in geometry.shape.loading:
         takes = " or ".join(geometry.shape.loading)
         raise t.error("quantity", f"{geometry.shape.name} takes {takes}",
@@ -387,8 +394,12 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     if isinstance(seq_raw, dict):
         st = Table(seq_raw, t.key("sequence"), t.source)
         seq = st.choice("model", SEQUENCE_MODELS, required=True)
-        seq_opts = {k: v for k, v in seq_raw.items() if k != "model"}
-        st.known |= set(seq_opts)
+        for key, lo, hi in (("shaping_exponent", 0.0, 10.0), ("shut_off_ratio", 1.01, 10.0),
+                            ("zone_factor", 1.0, 10.0)):
+            v = st.number(key, lo=(lo, f"{lo:g}"), hi=(hi, f"{hi:g}"))
+            if v is not None:
+                seq_opts[key] = v
+        st.finish()
     else:
         seq = t.choice("sequence", SEQUENCE_MODELS, default="none")
     t.finish()

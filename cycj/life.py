@@ -78,7 +78,9 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
     so overloads stay where they happened.
     """
     ld = case.loading
-    per_force = case.geometry.nominal_stress_per_force() if ld.quantity == "force" else 1.0
+    per_force = {"force": case.geometry.nominal_stress_per_force,
+                 "pressure": case.geometry.nominal_stress_per_pressure}.get(
+        ld.quantity, lambda: 1.0)()
     order = "closing" if ld.sequence == "none" else "reversal"
     if ld.constant is not None:
         smax = np.array([ld.constant[0] * per_force])

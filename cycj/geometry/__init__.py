@@ -24,7 +24,9 @@ from cycj.geometry import (
     compact_tension,
     edge_crack_plate,
     edge_crack_semi_infinite,
+    axial_crack_cylinder,
     surface_crack_plate,
+    tabulated,
     three_point_bend,
 )
 
@@ -107,6 +109,22 @@ _register(Shape(
      "BS 7910:2013+A1:2015 Annex P: reference stress of a surface flaw (from memory)"),
     {"bending_ratio": "= 0"}, two_d=True))
 
+_register(Shape(
+    "axial-crack-cylinder", axial_crack_cylinder.CODE,
+    "through-wall axial crack in a pressurised cylinder", axial_crack_cylinder,
+    ("inner_radius", "thickness"), ("pressure", "stress"),
+    "S = hoop stress p·R_i/t (wall average)", "a = half crack length",
+    "λ = a/√(R_m·t) ≤ √50",
+    ("Folias, Int. J. Fract. Mech. 1 (1965) 104",
+     "Kiefner, Maxey, Eiber & Duffy, ASTM STP 536 (1973): bulging factor, flow-stress "
+     "collapse (from memory)")))
+_register(Shape(
+    "tabulated", tabulated.CODE, "user geometry from a table of a/W, F, limit-load factor",
+    tabulated, ("width", "thickness", "table"), ("force", "stress"),
+    "S = P/(B·W); K = S·√(πa)·F(a/W); P_L = factor·σ_y·W·B", "a as defined by the table",
+    "inside the table's a/W range",
+    ("Fritsch & Carlson, SIAM J. Numer. Anal. 17 (1980) 238: monotone interpolation",)))
+
 #: shapes accepted in ``geometry.shape``
 SHAPE_NAMES = tuple(SHAPES)
 
@@ -170,10 +188,18 @@ class Geometry:
         """K [MPa√mm] for crack ``a`` [mm] and nominal stress [MPa]."""
         return np.asarray(nominal_stress, float) * self.k_over_s(a)
 
+    def nominal_stress_per_pressure(self) -> float:
+        """Hoop stress per unit pressure, R_i/t (pressurised shapes only)."""
+        if "pressure" not in self.shape.loading:
+            raise CycjInputError(f"shape {self.shape.name} takes no pressure loading",
+                                 key="loading.quantity", expected="'force' or 'stress'",
+                                 found="pressure")
+        return self.params[P.EXTRA] / self.params[P.THICKNESS]
+
     def nominal_stress_per_force(self) -> float:
         """S per unit force [MPa/N] (1/(B·W)); raises for the infinite bodies."""
         w, b = self.params[P.WIDTH], self.params[P.THICKNESS]
-        if w <= 0 or b <= 0:
+        if w <= 0 or b <= 0 or "force" not in self.shape.loading:
             raise CycjInputError(f"shape {self.shape.name} takes a stress history only",
                                  key="loading.quantity", expected="'stress'", found="force")
         return 1.0 / (w * b)
@@ -198,6 +224,7 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
                   thickness: float = 0.0, net_thickness: float | None = None,
                   span: float | None = None, constraint: str = "plane-strain",
                   half_length: float = 0.0, bending_ratio: float = 0.0,
+                  inner_radius: float = 0.0, table=None,
                   source: str | None = None, prefix: str = "geometry") -> Geometry:
     """Build a :class:`Geometry` from dimensions in mm, checking them (errors name the key)."""
     if shape not in SHAPES:
@@ -211,7 +238,8 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     if constraint not in ("plane-strain", "plane-stress"):
         raise CycjInputError("unknown constraint", source=source, key=f"{prefix}.constraint",
                              expected="'plane-strain' or 'plane-stress'", found=constraint)
-    vals = {"width": width, "thickness": thickness, "half_length": half_length}
+    vals = {"width": width, "thickness": thickness, "half_length": half_length,
+            "inner_radius": inner_radius, "table": 1.0 if table is not None else 0.0}
     for k in s.required:
         if not (vals[k] > 0 and math.isfinite(vals[k])):
             raise CycjInputError("must be a positive size", source=source, key=f"{prefix}.{k}",
@@ -231,12 +259,16 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     p[P.SPAN] = sp
     p[P.PLANE_STRAIN] = 1.0 if constraint == "plane-strain" else 0.0
     p[P.HALF_LENGTH], p[P.BENDING_RATIO] = half_length, bending_ratio
+    p[P.EXTRA] = inner_radius
+    if table is not None:
+        p = np.concatenate([p, tabulated.table_params(*table)])
     if s.two_d:
         _check_surface_crack(crack_length, half_length, width, thickness, bending_ratio,
                              source, prefix)
     geo = Geometry(s, float(crack_length), p, constraint == "plane-strain",
                    {"width": width, "thickness": thickness, "net_thickness": bn, "span": sp,
-                    "half_length": half_length, "bending_ratio": bending_ratio})
+                    "half_length": half_length, "bending_ratio": bending_ratio,
+                    "inner_radius": inner_radius})
     lo, hi = geo.size_limits
     if not (crack_length > 0 and lo * (1 - 1e-12) <= crack_length <= hi * (1 + 1e-12)):
         raise CycjInputError("crack outside the body or the solution's validity range",

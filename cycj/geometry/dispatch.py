@@ -23,15 +23,21 @@ from cycj.geometry import (
     edge_crack_semi_infinite as _esi,
 )
 from cycj.geometry import (
+    axial_crack_cylinder as _cyl,
+)
+from cycj.geometry import (
     surface_crack_plate as _scp,
+)
+from cycj.geometry import (
+    tabulated as _tab,
 )
 from cycj.geometry import (
     three_point_bend as _seb,
 )
 
-_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP = 1, 2, 3, 4, 5, 6, 7
-assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE, _scp.CODE) == (
-    1, 2, 3, 4, 5, 6, 7)
+_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP, _CYL, _TAB = 1, 2, 3, 4, 5, 6, 7, 8, 9
+assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE, _scp.CODE, _cyl.CODE,
+        _tab.CODE) == (1, 2, 3, 4, 5, 6, 7, 8, 9)
 
 
 @jit
@@ -49,6 +55,10 @@ def k_over_s(code, a, p):
         return _esi.k_over_s(a, p)
     if code == _SCP:
         return _scp.k_over_s(a, p)
+    if code == _CYL:
+        return _cyl.k_over_s(a, p)
+    if code == _TAB:
+        return _tab.k_over_s(a, p)
     return _cci.k_over_s(a, p)
 
 
@@ -67,6 +77,10 @@ def limit_stress(code, a, p, sigma_y):
         return _esi.limit_stress(a, p, sigma_y)
     if code == _SCP:
         return _scp.limit_stress(a, p, sigma_y)
+    if code == _CYL:
+        return _cyl.limit_stress(a, p, sigma_y)
+    if code == _TAB:
+        return _tab.limit_stress(a, p, sigma_y)
     return _cci.limit_stress(a, p, sigma_y)
 
 
