@@ -19,12 +19,12 @@ from cycj.geometry import (
     _params as P,
 )
 from cycj.geometry import (
+    axial_crack_cylinder,
     center_crack_infinite,
     center_crack_plate,
     compact_tension,
     edge_crack_plate,
     edge_crack_semi_infinite,
-    axial_crack_cylinder,
     surface_crack_plate,
     tabulated,
     three_point_bend,

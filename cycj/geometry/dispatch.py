@@ -8,6 +8,9 @@ to the registry in :mod:`cycj.geometry`.
 
 from cycj._jit import jit
 from cycj.geometry import (
+    axial_crack_cylinder as _cyl,
+)
+from cycj.geometry import (
     center_crack_infinite as _cci,
 )
 from cycj.geometry import (
@@ -21,9 +24,6 @@ from cycj.geometry import (
 )
 from cycj.geometry import (
     edge_crack_semi_infinite as _esi,
-)
-from cycj.geometry import (
-    axial_crack_cylinder as _cyl,
 )
 from cycj.geometry import (
     surface_crack_plate as _scp,
