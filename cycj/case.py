@@ -336,7 +336,8 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         raise t.error("quantity", "pressure loading needs a pressurised shape (none yet)",
                       expected="'force' or 'stress'", found=quantity)
     if quantity not in geometry.shape.loading:
-        raise t.error("quantity", f"{geometry.shape.name} takes {' or '.join(geometry.shape.loading)}",
+        takes = " or ".join(geometry.shape.loading)
+        raise t.error("quantity", f"{geometry.shape.name} takes {takes}",
                       expected=" or ".join(repr(x) for x in geometry.shape.loading),
                       found=quantity)
     kind = "force" if quantity == "force" else "stress"

@@ -1,0 +1,89 @@
+"""The self-contained HTML report every command writes (plots embedded, no external links).
+
+Readable on a phone and in print: what was asked, the inputs, the answer in one sentence, the
+plots, validity warnings, the references the run used, and the caution.
+"""
+
+from __future__ import annotations
+
+import base64
+import html
+from pathlib import Path
+
+CAUTION = ("Caution: these results are estimates for engineering judgement. They depend on the "
+           "quality of the inputs and do not replace the applicable design code, "
+           "fitness-for-service standard, or a qualified engineer's review.")
+
+_CSS = """
+body{font-family:system-ui,-apple-system,Segoe UI,Roboto,sans-serif;margin:0 auto;max-width:60em;
+padding:1em;line-height:1.45;color:#1b1b1b}
+h1{font-size:1.5em;margin-bottom:.2em}h2{font-size:1.15em;border-bottom:1px solid #ccc;
+padding-bottom:.2em;margin-top:1.6em}
+.answer{font-size:1.15em;background:#eef5ee;border-left:4px solid #3a7d44;padding:.6em .8em}
+.caution{background:#fff4e5;border-left:4px solid #d98200;padding:.6em .8em}
+.warn{color:#8a4b00}table{border-collapse:collapse;width:100%;font-size:.92em;
+display:block;overflow-x:auto}td,th{border:1px solid #ddd;padding:.25em .5em;text-align:left;
+vertical-align:top}th{background:#f3f3f3}figure{margin:1em 0}img{max-width:100%;height:auto}
+figcaption{font-size:.9em;color:#444}@media print{body{max-width:none}figure{break-inside:avoid}}
+"""
+
+
+def _img(src) -> str:
+    data = Path(src).read_bytes()
+    return "data:image/png;base64," + base64.b64encode(data).decode("ascii")
+
+
+def _table(frame, max_rows: int = 60) -> str:
+    import pandas as pd
+
+    df = frame if isinstance(frame, pd.DataFrame) else pd.DataFrame(frame)
+    if len(df) > max_rows:
+        df = pd.concat([df.head(max_rows // 2), df.tail(max_rows // 2)])
+    return df.to_html(index=False, border=0, float_format=lambda x: f"{x:.6g}",
+                      escape=True)
+
+
+def render_report(*, title: str, question: str, answer: str, inputs=(), figures=(),
+                  tables=(), warnings=(), references=(), extra_html: str = "") -> str:
+    """The report as one HTML string (images embedded as base64 PNG)."""
+    def e(text):
+        return html.escape(text, quote=False)
+
+    parts = [
+        "<!DOCTYPE html><html lang='en'><head><meta charset='utf-8'>",
+        "<meta name='viewport' content='width=device-width, initial-scale=1'>",
+        f"<title>{e(title)}</title><style>{_CSS}</style></head><body>",
+        f"<h1>{e(title)}</h1>",
+        f"<p class='caution'>{e(CAUTION)}</p>",
+        f"<h2>What was asked</h2><p>{e(question)}</p>",
+        f"<h2>Answer</h2><p class='answer'>{e(answer)}</p>",
+    ]
+    if warnings:
+        parts.append("<h2>Validity warnings</h2><ul>")
+        parts += [f"<li class='warn'>{e(str(w))}</li>" for w in warnings]
+        parts.append("</ul>")
+    if inputs:
+        parts.append("<h2>Inputs</h2><table><tr><th>item</th><th>value</th></tr>")
+        parts += [f"<tr><td>{e(str(k))}</td><td>{e(str(v))}</td></tr>" for k, v in inputs]
+        parts.append("</table>")
+    for caption, src in figures:
+        parts.append(f"<figure><img src='{_img(src)}' alt='{html.escape(caption)}'>"
+                     f"<figcaption>{e(caption)}</figcaption></figure>")
+    for caption, frame in tables:
+        parts.append(f"<h2>{e(caption)}</h2>{_table(frame)}")
+    parts.append(extra_html)
+    if references:
+        parts.append("<h2>References used</h2><ol>")
+        parts += [f"<li>{e(str(r))}</li>" for r in references]
+        parts.append("</ol>")
+    from cycj._version import __version__
+
+    parts.append(f"<p><small>cycj {e(__version__)}</small></p></body></html>")
+    return "\n".join(parts)
+
+
+def write_report(path, **kw) -> Path:
+    """Write :func:`render_report` to ``path`` (UTF-8)."""
+    path = Path(path)
+    path.write_text(render_report(**kw), encoding="utf-8")
+    return path
