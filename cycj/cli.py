@@ -15,6 +15,7 @@ import click
 COMMANDS = {
     "check": "cycj.commands.check:check",
     "geometries": "cycj.commands.check:geometries",
+    "run": "cycj.commands.run:run",
 }
 
 

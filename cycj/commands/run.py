@@ -1,0 +1,81 @@
+"""``cycj run``: remaining life of one case (or a fleet of cases)."""
+
+from __future__ import annotations
+
+import sys
+import time
+from pathlib import Path
+
+import click
+
+
+class _Progress:
+    """A one-line progress display on stderr (cycles and crack size), for long runs."""
+
+    def __init__(self, enabled: bool):
+        self.enabled = enabled
+        self.t0 = time.monotonic()
+        self.shown = False
+
+    def __call__(self, cycles, a):
+        if not self.enabled or time.monotonic() - self.t0 < 1.0:
+            return
+        self.shown = True
+        click.echo(f"\r  {cycles:14.6g} cycles   a = {a:9.4f} mm", nl=False, err=True)
+
+    def close(self):
+        if self.shown:
+            click.echo("", err=True)
+
+
+@click.command()
+@click.argument("case_files", nargs=-1, required=True, type=click.Path(dir_okay=False))
+@click.option("--out", "out_dir", type=click.Path(file_okay=False),
+              help="Output folder (default: <case name>-life beside the case).")
+@click.option("--method", type=click.Choice(["auto", "cycle", "block"]), default=None,
+              help="Override the case's run.method.")
+@click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
+@click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
+@click.option("--scheduler", default=None,
+              help="Dask scheduler address (tcp://HOST:PORT) to run a fleet of cases.")
+def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
+    """Predict the remaining life of CASE_FILES (cycles to a J-based instability).
+
+    Writes summary.json, history.csv, plots and report.html to the output folder.
+    """
+    from cycj.case import load_case
+    from cycj.outputs import dumps
+
+    if len(case_files) > 1 or scheduler:
+        from cycj.fleet import run_fleet
+
+        table = run_fleet(case_files, out_dir, method=method, force=force,
+                          scheduler=scheduler)
+        click.echo(table.to_string(index=False))
+        return
+    case_file = case_files[0]
+    case = load_case(case_file)
+    out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-life")
+    progress = _Progress(sys.stderr.isatty() and not as_json)
+    from cycj.life_outputs import run_and_write
+
+    try:
+        summary = run_and_write(case, out, method=method, force=force, plots=not no_plots,
+                                progress=progress)
+    finally:
+        progress.close()
+    if as_json:
+        click.echo(dumps(summary))
+        return
+    click.echo(answer_sentence(summary))
+    click.echo(f"outputs: {out}/ (summary.json, history.csv"
+               + (", plots, report.html)" if not no_plots else ")"))
+    for w in summary["warnings"]:
+        click.echo(f"warning: {w}")
+
+
+def answer_sentence(s: dict) -> str:
+    from cycj.life_outputs import answer_sentence as _a
+
+    return _a(s)

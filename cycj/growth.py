@@ -1,0 +1,130 @@
+"""Growth laws in ΔJ, crack closure (opening load) models and the compressive part.
+
+All functions here are compiled scalar kernels (used by the life stepper) with vectorised,
+range-checked twins for notebooks.  Units: stresses MPa, ΔJ kJ/m², da/dN mm/cycle.
+
+Closure enters ΔJ through x = (S_op − S_min)/ΔS = 1 − U (see :mod:`cycj.jintegral`):
+U² of the elastic part and the fraction f_pl of the plastic part of the Masing branch drive
+growth.
+
+References
+----------
+.. [1] Elber, W., "The significance of fatigue crack closure", ASTM STP 486 (1971) 230–242:
+   U = 0.5 + 0.4R for −0.1 ≤ R ≤ 0.7 (2024-T3).
+.. [2] Newman, J. C., Jr., "A crack opening stress equation for fatigue crack growth",
+   Int. J. Fract. 24 (1984) R131–R135.
+.. [3] ASTM E647: the compressive part of a cycle (P < 0) is excluded from ΔK (R < 0).
+.. [4] Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: da/dN = C·ΔJ^m.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from cycj._jit import jit, ufunc
+from cycj.errors import ValidityRangeError
+
+# closure model codes of the stepper
+NONE, CONSTANT, ELBER, NEWMAN = 0, 1, 2, 3
+CLOSURE_CODES = {"none": NONE, "constant": CONSTANT, "elber": ELBER, "newman": NEWMAN}
+
+ELBER_R_RANGE = (-0.1, 0.7)
+NEWMAN_R_MIN = -1.0
+NEWMAN_SMAX_FLOW_MAX = 0.8
+
+
+@jit
+def elber_u(r):
+    """Elber's U = 0.5 + 0.4R (valid −0.1 ≤ R ≤ 0.7; the stepper clips R and counts it)."""
+    return 0.5 + 0.4 * r
+
+
+@jit
+def newman_opening_ratio(r, smax_flow, alpha):
+    """Newman's S_o/S_max for stress ratio R (−1 ≤ R < 1), S_max/σ_0 (≤ 0.8) and constraint
+    factor α (1 plane stress … 3 plane strain); never below R (S_o ≥ S_min)."""
+    a0 = (0.825 - 0.34 * alpha + 0.05 * alpha * alpha) * math.cos(
+        0.5 * math.pi * smax_flow) ** (1.0 / alpha)
+    a1 = (0.415 - 0.071 * alpha) * smax_flow
+    a3 = 2.0 * a0 + a1 - 1.0
+    a2 = 1.0 - a0 - a1 - a3
+    if r >= 0.0:
+        so = a0 + a1 * r + a2 * r * r + a3 * r * r * r
+    else:
+        so = a0 + a1 * r
+    return max(so, r)
+
+
+@jit
+def newman_u(r, smax_flow, alpha):
+    """U = (1 − S_o/S_max)/(1 − R) from Newman's opening function."""
+    return (1.0 - newman_opening_ratio(r, smax_flow, alpha)) / (1.0 - r)
+
+
+@jit
+def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compressive):
+    """x = (S_op − S_min)/ΔS for one cycle (0 ≤ x ≤ 1), and a flag: 1 if R or S_max/σ_0 had to
+    be clipped into the model's range (counted by the stepper, warned by Python).
+
+    ``model``: 0 none, 1 constant U, 2 Elber, 3 Newman.  With ``none`` and S_min < 0 the
+    compressive part is excluded (S_op = 0) unless ``include_compressive``.
+    """
+    ds = smax - smin
+    if ds <= 0.0 or smax <= 0.0:
+        return 1.0, 0
+    clipped = 0
+    if model == 1:
+        return 1.0 - u_const, 0
+    if model == 0:
+        if smin < 0.0 and include_compressive < 0.5:
+            return -smin / ds, 0
+        return 0.0, 0
+    r = smin / smax
+    if model == 2:
+        if r < -0.1:
+            r, clipped = -0.1, 1
+        elif r > 0.7:
+            r, clipped = 0.7, 1
+        return 1.0 - elber_u(r), clipped
+    if r < -1.0:
+        r, clipped = -1.0, 1
+    sf = smax_flow
+    if sf > 0.8:
+        sf, clipped = 0.8, 1
+    x = 1.0 - newman_u(r, sf, alpha)
+    return min(max(x, 0.0), 1.0), clipped
+
+
+@jit
+def paris_rate(dj, c, m, threshold):
+    """da/dN = C·ΔJ^m [mm/cycle] above the threshold ΔJ_th, else 0."""
+    if dj <= threshold or dj <= 0.0:
+        return 0.0
+    return c * dj**m
+
+
+# ------------------------------------------------------------------ vectorised, checked twins
+_newman_ratio = ufunc(newman_opening_ratio)
+
+
+def elber_closure(r):
+    """Elber's U(R) = 0.5 + 0.4R; raises outside −0.1 ≤ R ≤ 0.7 (Elber 1971)."""
+    r = np.asarray(r, float)
+    if np.any((r < ELBER_R_RANGE[0]) | (r > ELBER_R_RANGE[1])):
+        raise ValidityRangeError("Elber's U(R) is published for −0.1 ≤ R ≤ 0.7")
+    return 0.5 + 0.4 * r
+
+
+def newman_closure(r, smax_flow, alpha):
+    """Newman's (1984) S_o/S_max; raises outside −1 ≤ R < 1, 0 ≤ S_max/σ_0 ≤ 0.8,
+    1 ≤ α ≤ 3."""
+    r, s = np.asarray(r, float), np.asarray(smax_flow, float)
+    if np.any((r < -1) | (r >= 1)):
+        raise ValidityRangeError("Newman's opening function needs −1 ≤ R < 1")
+    if np.any((s < 0) | (s > NEWMAN_SMAX_FLOW_MAX)):
+        raise ValidityRangeError("Newman's opening function is for 0 ≤ S_max/σ_0 ≤ 0.8")
+    if not 1 <= alpha <= 3:
+        raise ValidityRangeError("Newman's constraint factor α lies in [1, 3]")
+    return _newman_ratio(r, s, float(alpha))

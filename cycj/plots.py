@@ -1,0 +1,95 @@
+"""Plots of a life prediction (matplotlib, imported here only): crack size vs cycles with the
+end marked; ΔJ and da/dN vs crack size; the J_max or FAD trajectory against its criterion."""
+
+from __future__ import annotations
+
+import numpy as np
+
+
+def _plt():
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    return plt
+
+
+def crack_growth_figure(result):
+    """a vs N with the end point and the critical crack size."""
+    plt = _plt()
+    h, s = result.history, result.summary
+    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    ax.plot(h["cycle"], h["a_mm"], lw=1.6, label="crack size")
+    ax.plot([s["cycles_to_end"]], [s["a_end_mm"]], "o", color="C3",
+            label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles")
+    ax.axhline(s["critical_crack_length_mm"], ls="--", color="0.5", lw=1,
+               label=f"critical size at peak load ({s['critical_crack_criterion']})")
+    ax.set_xlabel("cycles N")
+    ax.set_ylabel("crack size a [mm]")
+    ax.grid(alpha=0.3)
+    ax.legend(fontsize=8, loc="upper left")
+    return fig
+
+
+def driving_force_figure(result):
+    """ΔJ_eq, ΔJ (largest cycle) and da/dN vs crack size."""
+    plt = _plt()
+    h = result.history
+    fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
+    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], label="ΔJ_eq of the block")
+    ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", label="largest cycle ΔJ_eff")
+    ax1.set_xlabel("crack size a [mm]")
+    ax1.set_ylabel("ΔJ [kJ/m²]")
+    ax1.set_yscale("log")
+    ax1.grid(alpha=0.3, which="both")
+    ax1.legend(fontsize=8)
+    rate = h["dadN_mm_per_cycle"].to_numpy()
+    ok = rate > 0
+    ax2.plot(h["a_mm"][ok], rate[ok], color="C2")
+    ax2.set_xlabel("crack size a [mm]")
+    ax2.set_ylabel("da/dN [mm/cycle]")
+    ax2.set_yscale("log")
+    ax2.grid(alpha=0.3, which="both")
+    fig.tight_layout()
+    return fig
+
+
+def criterion_figure(result):
+    """The peak-load trajectory: J_max vs a against J_c, or on the FAD when it is used."""
+    plt = _plt()
+    h, case = result.history, result.case
+    mat = case.material
+    fig, ax = plt.subplots(figsize=(6.0, 4.2))
+    if "fad" in case.run.criteria and mat.J_c:
+        from cycj.jintegral import fad_option1, fad_option2
+
+        lr = np.linspace(0, mat.lr_max, 200)
+        f = fad_option2(lr, mat) if case.analysis.fad == "option-2" and mat.peak_curve \
+            else fad_option1(lr, mat.lr_max)
+        ax.plot(lr, f, color="k", label=f"FAD {case.analysis.fad}")
+        ax.vlines(mat.lr_max, 0, f[-1], color="k")
+        kr = np.sqrt(_jel_peak(result) / mat.J_c)  # K_r = K_max/K_mat = √(J_el/J_c)
+        ax.plot(h["Lr"], kr, "o-", ms=2, color="C3", label="assessment points")
+        ax.set_xlabel("L_r = P_max / P_L")
+        ax.set_ylabel("K_r = K_max / K_mat")
+        ax.set_xlim(0, mat.lr_max * 1.1)
+        ax.set_ylim(0, 1.2)
+    else:
+        ax.plot(h["a_mm"], h["Jmax_kJm2"], label="J_max at the block's peak load")
+        if mat.J_c:
+            ax.axhline(mat.J_c, color="C3", ls="--", label=f"J_c = {mat.J_c:g} kJ/m²")
+        ax.set_xlabel("crack size a [mm]")
+        ax.set_ylabel("J_max [kJ/m²]")
+    ax.grid(alpha=0.3)
+    ax.legend(fontsize=8)
+    return fig
+
+
+def _jel_peak(result):
+    """J_el at the history's peak load along the history [kJ/m²]."""
+    case = result.case
+    geo = case.geometry
+    a = np.clip(result.history["a_mm"].to_numpy(), *geo.size_limits)
+    k = result.loads.peak * geo.k_over_s(a)
+    return np.asarray(k, float) ** 2 / case.material.effective_modulus(geo.plane_strain)
