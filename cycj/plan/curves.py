@@ -96,13 +96,36 @@ def factor_grid(dist, n: int, p: float = 1e-6) -> np.ndarray:
     return np.exp(np.linspace(math.log(lo), math.log(hi), n))
 
 
+def resample_cycles(x_new, x, n, rate=None):
+    """Cycles N at ln a = ``x_new`` from a curve (x = ln a, N) and, if given, the growth rate
+    da/dN at its points.
+
+    With rates, N between two points follows a local power law in the rate (ln(dN/d ln a)
+    linear in ln a, integrated exactly and scaled to the curve's own ΔN), which is exact for
+    a Paris law with K ∝ √a; without, N is linear in ln a.
+    """
+    x_new = np.asarray(x_new, float)
+    i = np.clip(np.searchsorted(x, x_new, side="right") - 1, 0, x.size - 2)
+    d = x[i + 1] - x[i]
+    t = np.clip(x_new - x[i], 0.0, d)
+    frac = t / d
+    if rate is not None:
+        with np.errstate(divide="ignore", invalid="ignore"):
+            g = np.log(np.exp(x) / rate)
+            b = (g[i + 1] - g[i]) / d
+            ok = np.isfinite(b) & (np.abs(b * d) > 1e-9)
+            pw = np.expm1(b * t) / np.expm1(b * d)
+        frac = np.where(ok, pw, frac)
+    return n[i] + (n[i + 1] - n[i]) * frac
+
+
 def build_table(growth_curve, critical_size, a_min: float, load_factors, toughness_factors,
                 n_a: int = 321) -> CurveTable:
     """Tabulate φ(a) for each load factor and a_c for each (load, toughness) factor pair.
 
     Parameters
     ----------
-    growth_curve : callable (a_start_mm, load_factor) -> (a_mm, cycles)
+    growth_curve : callable (a_start_mm, load_factor) -> (a_mm, cycles[, dadN])
     critical_size : callable (load_factor, toughness_factor) -> a_c [mm]
     a_min : float
         Smallest crack size tabulated [mm]; smaller initial cracks are raised to it.
@@ -113,11 +136,14 @@ def build_table(growth_curve, critical_size, a_min: float, load_factors, toughne
     s = np.asarray(load_factors, float)
     t = np.asarray(toughness_factors, float)
     curves = []
+    rates = []
     for sk in s:
-        a, n = growth_curve(a_min, float(sk))
-        a, n = np.asarray(a, float), np.asarray(n, float)
+        out = growth_curve(a_min, float(sk))
+        a, n = np.asarray(out[0], float), np.asarray(out[1], float)
+        r = np.asarray(out[2], float) if len(out) > 2 else None
         keep = np.concatenate([[True], np.diff(a) > 0])
         a, n = a[keep], n[keep] - n[0]
+        rates.append(None if r is None else r[keep])
         if a.size < 2:
             raise ValueError(f"the growth curve at load factor {sk:g} has no growth from "
                              f"{a_min:g} mm")
@@ -129,7 +155,7 @@ def build_table(growth_curve, critical_size, a_min: float, load_factors, toughne
     grid = la0 + dla * np.arange(n_a)
     logphi = np.empty((s.size, n_a))
     for r, (la, nn) in enumerate(curves):
-        ph = np.interp(grid, la, nn)
+        ph = resample_cycles(grid, la, nn, rates[r])
         beyond = grid > la[-1]
         if beyond.any():  # extend with the last slope in ln a (reached only after failure)
             slope = max((nn[-1] - nn[-2]) / (la[-1] - la[-2]), 1e-300)
