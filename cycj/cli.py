@@ -15,6 +15,8 @@ import click
 COMMANDS = {
     "check": "cycj.commands.check:check",
     "geometries": "cycj.commands.check:geometries",
+    "plan": "cycj.commands.plan:plan",
+    "pod": "cycj.commands.pod:pod",
     "run": "cycj.commands.run:run",
 }
 

@@ -31,8 +31,7 @@ class CurveTable:
     """φ(a) [cycles at the case's C] on a uniform ln a grid, for load factors exp(log_s).
 
     ``logphi`` (n_s, n_a) is ln φ (−inf at the first grid point, where φ = 0); beyond a
-    curve's last computed size it is extended with its last slope (only reached after
-    failure, since the critical size is clamped to ``la_end``).  ``log_acrit`` (n_s, n_t) is
+    curve's last computed size it is extended with its last slope in ln a.  ``log_acrit`` (n_s, n_t) is
     ln a_c at toughness factors exp(log_t).
     """
 
@@ -63,7 +62,8 @@ class CurveTable:
 
     def critical_log_size(self, k, w, toughness_factor):
         """ln a_c per sample, bilinear in (ln load factor, ln toughness factor), clamped to
-        the shorter of the two neighbouring growth curves."""
+        the end of the lower-load (longer) neighbouring growth curve; the higher-load curve is
+        extended past its end with its last slope in ln a (a short stretch near failure)."""
         lt = np.log(np.asarray(toughness_factor, float))
         n_s = self.log_s.size
         k1 = np.minimum(k + 1, n_s - 1)
@@ -73,8 +73,7 @@ class CurveTable:
                        else self.log_acrit[r, 0])
         idx = np.arange(lt.size)
         lac = (1 - w) * rows[k, idx] + w * rows[k1, idx]
-        end = np.where(w > 0, np.minimum(self.la_end[k], self.la_end[k1]), self.la_end[k])
-        return np.minimum(lac, end)
+        return np.minimum(lac, self.la_end[k])
 
     def phi(self, log_a, k, w):
         out = np.empty(np.shape(log_a))
