@@ -5,8 +5,13 @@ import math
 import numpy as np
 import pytest
 
-from cycj.plan.pod import PodCurve, pod_from_a50, pod_from_a90, pod_from_glm, \
-    pod_from_signal_response
+from cycj.plan.pod import (
+    PodCurve,
+    pod_from_a50,
+    pod_from_a90,
+    pod_from_glm,
+    pod_from_signal_response,
+)
 from cycj.plan.pod_fit import fit_hit_miss, fit_signal_response
 
 

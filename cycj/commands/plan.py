@@ -23,7 +23,7 @@ def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
     Writes plan.json, what_if.csv, schedule.csv, plots and report.html.
     """
     from cycj.case import load_case
-    from cycj.outputs import dumps, OutputDir
+    from cycj.outputs import OutputDir, dumps
     from cycj.plan import plan_inspections
     from cycj.plan.write import answer_sentence, write_plan
 

@@ -31,8 +31,8 @@ class CurveTable:
     """φ(a) [cycles at the case's C] on a uniform ln a grid, for load factors exp(log_s).
 
     ``logphi`` (n_s, n_a) is ln φ (−inf at the first grid point, where φ = 0); beyond a
-    curve's last computed size it is extended with its last slope in ln a.  ``log_acrit`` (n_s, n_t) is
-    ln a_c at toughness factors exp(log_t).
+    curve's last computed size it is extended with its last slope in ln a.  ``log_acrit``
+    (n_s, n_t) is ln a_c at toughness factors exp(log_t).
     """
 
     la0: float

@@ -185,8 +185,8 @@ class Runner:
                 total = _add(total, p)
             return total
         c = self.client
-        [fspec] = c.scatter([spec], broadcast=True)
-        [fsch] = c.scatter([(schedules, n_insp)], broadcast=True)
+        [fspec] = c.scatter([spec], broadcast=True, hash=False)
+        [fsch] = c.scatter([(schedules, n_insp)], broadcast=True, hash=False)
         futs = [c.submit(_remote_chunk, fspec, fsch, i, seeds[i], pure=False) for i in idx]
         total = None
         for f in futs:  # in chunk order

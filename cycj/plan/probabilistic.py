@@ -14,8 +14,14 @@ import math
 
 import numpy as np
 
-from cycj.plan.montecarlo import McSpec, Runner, draw_chunk, pack_schedules, summarise, \
-    uniform_schedule
+from cycj.plan.montecarlo import (
+    McSpec,
+    Runner,
+    draw_chunk,
+    pack_schedules,
+    summarise,
+    uniform_schedule,
+)
 
 #: intervals on the first search grid, and per refinement pass (two passes)
 SEARCH_POINTS = 16
