@@ -64,6 +64,13 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
 
     inp = read_inspection(case)
     warnings = []
+    if case.loading.sequence != "none":
+        warnings.append(f"sequence model '{case.loading.sequence}': sample lives are scaled "
+                        "as 1/C from curves at the case's C, which is approximate with "
+                        "retardation")
+    if case.growth.toughness_exponent > 0 and inp.scatter.toughness.scatters:
+        warnings.append("toughness_exponent > 0: growth curves are computed at the largest "
+                        "toughness sampled, so the acceleration near J_c is understated")
     a_crit, criterion = engine.critical_size(case)
     cpb, hpc = engine.rates(case)
     if inp.detectable_size >= a_crit:
