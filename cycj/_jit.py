@@ -45,13 +45,27 @@ def jit(func=None, **options):
     return wrap if func is None else wrap(func)
 
 
-def ufunc(func):
-    """A numpy ufunc (float64 in, float64 out) made from the same scalar source as the kernel."""
-    import numpy as np
+class _LazyUfunc:
+    """Builds the numba ufunc on first call, so importing cycj stays fast."""
 
-    src = getattr(func, "py_func", func)
-    if JIT_DISABLED:
-        return np.vectorize(src, otypes=[float])
-    nargs = src.__code__.co_argcount
-    sig = "float64(" + ",".join(["float64"] * nargs) + ")"
-    return numba.vectorize([sig], cache=True)(src)
+    def __init__(self, src):
+        self.src = src
+        self.built = None
+
+    def __call__(self, *args):
+        if self.built is None:
+            import numpy as np
+
+            if JIT_DISABLED:
+                self.built = np.vectorize(self.src, otypes=[float])
+            else:
+                nargs = self.src.__code__.co_argcount
+                sig = "float64(" + ",".join(["float64"] * nargs) + ")"
+                self.built = numba.vectorize([sig], cache=True)(self.src)
+        return self.built(*args)
+
+
+def ufunc(func):
+    """A numpy ufunc (float64 in, float64 out) made from the same scalar source as the kernel;
+    compiled (or loaded from the cache) on first use."""
+    return _LazyUfunc(getattr(func, "py_func", func))

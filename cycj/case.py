@@ -304,6 +304,11 @@ def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
 def _quantity_kind(unit: str | None) -> str | None:
     if unit is None:
         return None
+    from cycj.units import FAST_UNITS
+
+    if unit.strip() in FAST_UNITS:
+        kind = FAST_UNITS[unit.strip()][0]
+        return kind if kind in ("force", "stress") else None
     ureg = registry()
     try:
         q = ureg.Quantity(1.0, unit.replace("^", "**"))

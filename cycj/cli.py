@@ -14,6 +14,7 @@ import click
 #: command name → "module:function" (each module lives in cycj/commands/)
 COMMANDS = {
     "check": "cycj.commands.check:check",
+    "count": "cycj.commands.count:count",
     "geometries": "cycj.commands.check:geometries",
     "plan": "cycj.commands.plan:plan",
     "pod": "cycj.commands.pod:pod",
@@ -69,6 +70,14 @@ def main(argv=None):
     except (OSError, UnicodeDecodeError) as exc:
         click.echo(f"cycj: error: {exc}", err=True)
         sys.exit(2)
+    except Exception as exc:  # noqa: BLE001 - a bug: one line, traceback on request
+        import os
+
+        if os.environ.get("CYCJ_DEBUG"):
+            raise
+        click.echo(f"cycj: internal error: {type(exc).__name__}: {exc} (set CYCJ_DEBUG=1 for "
+                   "the traceback, and please report it)", err=True)
+        sys.exit(1)
     sys.exit(rv if isinstance(rv, int) else 0)
 
 

@@ -18,8 +18,6 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from cycj._jit import jit
 from cycj.jintegral import fad_option1_scalar, fad_option2_scalar
 from cycj.model_params import (
@@ -39,10 +37,10 @@ from cycj.model_params import (
 
 # end codes (0 = still running)
 RUNNING, END_TOUGHNESS, END_TEARING, END_FAD, END_COLLAPSE, END_SIZE, END_MAX_CYCLES, \
-    END_NO_GROWTH = range(8)
+    END_NO_GROWTH, END_LEAK = range(9)
 END_NAMES = {END_TOUGHNESS: "toughness", END_TEARING: "tearing", END_FAD: "fad",
              END_COLLAPSE: "collapse", END_SIZE: "size-limit", END_MAX_CYCLES: "max-cycles",
-             END_NO_GROWTH: "no-growth"}
+             END_NO_GROWTH: "no-growth", END_LEAK: "leak"}
 
 
 
@@ -71,34 +69,34 @@ def end_check(a, jmax, lr, j_el_max, mp):
 
 
 
-def tearing_margin(geometry, material, s_peak, a, n_points=400):
+def tearing_margin(geometry, s_peak, a, c1, c2, mp, n_points=400):
     """max over Δa of [J_R(Δa) − J(a + Δa)] at the peak nominal stress [kJ/m²].
 
-    Positive: a stable equilibrium exists on the J–R curve (tearing arrests); negative: the
-    crack of size ``a`` [mm] tears unstably under ``s_peak`` [MPa].
+    Positive: a stable equilibrium exists on the J–R curve J_R = C1·(Δa/1 mm)^C2 (tearing
+    arrests); negative: the crack of size ``a`` [mm] tears unstably under ``s_peak`` [MPa].
+    ``mp`` is the model-parameter array (J_max by the reference stress method).
     """
-    from cycj.jintegral import j_max
+    from cycj.kernels import tearing_margin_kernel
 
-    lo, hi = geometry.size_limits
-    span = hi - a
-    if span <= 0:
-        return -math.inf
-    da = np.geomspace(1e-4, span, n_points)
-    j_app = j_max(geometry, material, np.minimum(a + da, hi), s_peak)
-    return float(np.max(material.resistance_curve(da) - j_app))
+    hi = geometry.size_limits[1]
+    return float(tearing_margin_kernel(s_peak, a, hi, c1, c2, geometry.code, geometry.params,
+                                       mp, n_points))
 
 
-def tearing_instability_size(geometry, material, s_peak, a_from, a_to, tol=1e-4):
+def tearing_instability_size(geometry, s_peak, a_from, a_to, c1, c2, mp, tol=1e-4):
     """Smallest crack size in [a_from, a_to] [mm] that is unstable on the J–R curve at
     ``s_peak`` [MPa] (bisection; ``inf`` if the whole range is stable)."""
-    if tearing_margin(geometry, material, s_peak, a_to) >= 0:
+    def margin(a):
+        return tearing_margin(geometry, s_peak, a, c1, c2, mp)
+
+    if margin(a_to) >= 0:
         return math.inf
-    if tearing_margin(geometry, material, s_peak, a_from) < 0:
+    if margin(a_from) < 0:
         return a_from
     lo, hi = a_from, a_to
     while hi - lo > tol * max(hi, 1.0):
         mid = 0.5 * (lo + hi)
-        if tearing_margin(geometry, material, s_peak, mid) < 0:
+        if margin(mid) < 0:
             hi = mid
         else:
             lo = mid

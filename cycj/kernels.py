@@ -1,25 +1,33 @@
 """The compiled cycle stepper and block-growth kernels: numbers only.
 
 Kernels take plain arrays and scalars (no files, no objects).  The model parameters travel in
-one float64 array whose slots are named below; :mod:`cycj.life` fills it from a case.
+one float64 array and the crack state in another; their slots are named in
+:mod:`cycj.model_params`, which :mod:`cycj.life` fills from a case.
 
-Per cycle (S_max, S_min nominal stresses, crack size a):
+Per cycle (S_max, S_min nominal stresses, crack size a, and c for two-dimensional cracks):
   K/S and the limit nominal stress S_L(a) from the geometry kernels;
   x = (S_op − S_min)/ΔS from the closure model, U = 1 − x;
   ΔJ_eff by the chosen j_method (elastic, reference stress on the Masing branch, small crack);
   J_max at S_max by the reference stress method on the peak curve; L_r = S_max/S_L(a);
-  end criteria checked at the start of the cycle; then a += C·ΔJ_eff^m (above threshold),
-  optionally accelerated by 1/(1 − J_max/J_c)^q.
+  end criteria checked at the start of the cycle; the sequence model (Wheeler factor on the
+  rate, or Willenborg's reduced effective stresses) from the plastic zone of K_eq = √(E'J_max);
+  then a += C·ΔJ_eff^m (above threshold), optionally accelerated by 1/(1 − J_max/J_c)^q.
 """
 
 from __future__ import annotations
 
+import math
+
+import numpy as np
+
 from cycj._jit import jit
-from cycj.geometry.dispatch import k_over_s, limit_stress
+from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
 from cycj.growth import opening_fraction, paris_rate
 from cycj.instability import (
+    END_LEAK,
     END_MAX_CYCLES,
     END_NO_GROWTH,
+    END_SIZE,
     RUNNING,
     end_check,
 )
@@ -30,7 +38,9 @@ from cycj.jintegral import (
 )
 from cycj.model_params import (
     ALPHA_NEWMAN,
+    ASPECT_MAX,
     C_LAW,
+    C_LIMIT,
     CLOSURE,
     DJ_TH,
     E_MOD,
@@ -41,25 +51,37 @@ from cycj.model_params import (
     J_METHOD,
     K_CYC,
     K_PEAK,
+    LEAK_SIZE,
     M_LAW,
     N_CYC,
     N_PEAK,
     Q_TOUGH,
+    SEQ_EXPONENT,
+    SEQ_MODEL,
+    SEQ_SHUT_OFF,
     SIGMA_Y,
+    ST_A,
+    ST_A_OL,
+    ST_BLOCKS,
+    ST_C,
+    ST_CYCLES,
+    ST_K_OL,
+    ST_Z_OL,
+    TWO_D,
     U_CONST,
+    ZONE_BETA,
 )
+from cycj.sequence import plastic_zone_size, wheeler_factor, willenborg_reduction
 
 # record columns
-REC_CYCLE, REC_BLOCK, REC_A, REC_DJ, REC_DJ_EQ, REC_JMAX, REC_LR, REC_DADN = range(8)
-N_REC = 8
+REC_CYCLE, REC_BLOCK, REC_A, REC_DJ, REC_DJ_EQ, REC_JMAX, REC_LR, REC_DADN, REC_C = range(9)
+N_REC = 9
 
 
 @jit
-def cycle_driving_force(smax, smin, a, code, gp, mp):
-    """ΔJ_eff [kJ/m²], J_max [kJ/m²], L_r (monotonic), J_el at S_max [kJ/m²] and the clip flag
-    for one cycle at crack size ``a`` [mm]."""
-    kos = k_over_s(code, a, gp)
-    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
+def point_driving_force(smax, smin, a, kos, sl, mp):
+    """ΔJ_eff, J_max, L_r, J_el at S_max [kJ/m²] and the clip flag for one cycle, given the
+    crack-front point's K/S [√mm] and the limit nominal stress S_L [MPa]."""
     ds = smax - smin
     if smax <= 0.0 or ds <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
@@ -84,6 +106,13 @@ def cycle_driving_force(smax, smin, a, code, gp, mp):
 
 
 @jit
+def cycle_driving_force(smax, smin, a, code, gp, mp):
+    """:func:`point_driving_force` at the deepest point of the crack of size ``a`` [mm]."""
+    return point_driving_force(smax, smin, a, k_over_s(code, a, gp),
+                               limit_stress(code, a, gp, mp[SIGMA_Y]), mp)
+
+
+@jit
 def cycle_rate(dj, jmax, mp):
     """da/dN [mm/cycle] for ΔJ_eff and J_max, with the optional toughness acceleration."""
     da = paris_rate(dj, mp[C_LAW], mp[M_LAW], mp[DJ_TH])
@@ -96,15 +125,45 @@ def cycle_rate(dj, jmax, mp):
 
 
 @jit
-def run_cycles(smax, smin, a0, cycles0, block0, n_blocks, max_cycles, code, gp, mp,
-               rec_da, rec, rec_n, acc):
+def sequence_step(smax, smin, a, kos, sl, dj, jmax, mp, st):
+    """Apply the sequence model to one cycle; returns (rate factor, ΔJ_eff) and updates the
+    overload state in ``st`` (a_OL, zone size, K_OL)."""
+    model = int(mp[SEQ_MODEL])
+    if model == 0 or smax <= 0.0:
+        return 1.0, dj
+    k_eq = math.sqrt(mp[E_PRIME] * jmax)
+    r = plastic_zone_size(k_eq, mp[SIGMA_Y], mp[ZONE_BETA])
+    factor = 1.0
+    if model == 1:
+        factor = wheeler_factor(r, a, st[ST_A_OL], st[ST_Z_OL], mp[SEQ_EXPONENT])
+    else:
+        if st[ST_K_OL] >= mp[SEQ_SHUT_OFF] * k_eq and a < st[ST_A_OL] + st[ST_Z_OL]:
+            factor = 0.0
+        else:
+            k_red = willenborg_reduction(st[ST_K_OL], st[ST_A_OL], st[ST_Z_OL], a, k_eq)
+            if k_red > 0.0:
+                s_red = k_red / kos
+                smax_e = smax - s_red
+                smin_e = max(smin - s_red, 0.0)
+                dj = point_driving_force(smax_e, smin_e, a, kos, sl, mp)[0] if smax_e > 0.0 \
+                    else 0.0
+    if a + r >= st[ST_A_OL] + st[ST_Z_OL]:
+        st[ST_A_OL] = a
+        st[ST_Z_OL] = r
+        st[ST_K_OL] = k_eq
+    return factor, dj
+
+
+@jit
+def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, rec_n, acc):
     """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
 
     Parameters
     ----------
     smax, smin : float64 arrays, the block's cycles in the order they act [MPa]
-    a0 : crack size at the start [mm]; cycles0, block0 : counters at the start
+    st : crack state (a, c, cycles, blocks, overload a_OL, zone, K_OL), updated in place
     max_cycles : stop with END_MAX_CYCLES when the total reaches it
+    gp : geometry parameters (a private copy: its half-length slot follows c)
     rec_da : record a row each time the crack has grown by this much [mm]
     rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
     acc : float64 work array (8) carried between calls: [a at last record, cycle at last record,
@@ -112,23 +171,39 @@ def run_cycles(smax, smin, a0, cycles0, block0, n_blocks, max_cycles, code, gp, 
 
     Returns
     -------
-    end code, end value, a, cycles, blocks completed, rows used
+    end code, end value, rows used
     """
     n = smax.shape[0]
-    a = a0
-    cyc = cycles0
-    blk = block0
+    a = st[ST_A]
+    c = st[ST_C]
+    cyc = st[ST_CYCLES]
+    blk = st[ST_BLOCKS]
     m = mp[M_LAW]
+    two_d = mp[TWO_D] > 0.5
+    sy = mp[SIGMA_Y]
+    end = RUNNING
+    val = 0.0
     for _b in range(n_blocks):
         grew = False
         for i in range(n):
-            dj, jmax, lr, jel, clipped = cycle_driving_force(smax[i], smin[i], a, code, gp, mp)
+            if two_d:
+                gp[5] = c
+            kos = k_over_s(code, a, gp)
+            sl = limit_stress(code, a, gp, sy)
+            dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
             acc[7] += clipped
             if smax[i] > 0.0:
                 end, val = end_check(a, jmax, lr, jel, mp)
+                if end == RUNNING and two_d:
+                    end, val = _two_d_check(a, c, mp)
                 if end != RUNNING:
-                    return end, val, a, cyc, blk, rec_n
-            da = cycle_rate(dj, jmax, mp)
+                    break
+            factor, dj = sequence_step(smax[i], smin[i], a, kos, sl, dj, jmax, mp, st)
+            da = cycle_rate(dj, jmax, mp) * factor
+            if two_d:
+                kos_c = k_over_s_surface(code, a, gp)
+                dj_c = point_driving_force(smax[i], smin[i], a, kos_c, sl, mp)[0]
+                c += cycle_rate(dj_c, jmax, mp) * factor
             if da > 0.0:
                 grew = True
             a += da
@@ -139,20 +214,40 @@ def run_cycles(smax, smin, a0, cycles0, block0, n_blocks, max_cycles, code, gp, 
             acc[5] = max(acc[5], jmax)
             acc[6] = max(acc[6], lr)
             if a - acc[0] >= rec_da and rec_n < rec.shape[0]:
-                rec_n = _record(rec, rec_n, cyc, blk, a, m, acc)
+                rec_n = _record(rec, rec_n, cyc, blk, a, c, m, acc)
             if cyc >= max_cycles:
-                return END_MAX_CYCLES, cyc, a, cyc, blk, rec_n
+                end, val = END_MAX_CYCLES, cyc
+                break
+        if end != RUNNING:
+            break
         blk += 1.0
         if not grew:
-            return END_NO_GROWTH, a, a, cyc, blk, rec_n
-    return RUNNING, 0.0, a, cyc, blk, rec_n
+            end, val = END_NO_GROWTH, a
+            break
+    st[ST_A] = a
+    st[ST_C] = c
+    st[ST_CYCLES] = cyc
+    st[ST_BLOCKS] = blk
+    return end, val, rec_n
 
 
 @jit
-def _record(rec, k, cyc, blk, a, m, acc):
+def _two_d_check(a, c, mp):
+    """Leak when the depth reaches the leak size; size limit when the half-length or the aspect
+    ratio leaves the surface-crack solution's range."""
+    if a >= mp[LEAK_SIZE]:
+        return END_LEAK, a
+    if c >= mp[C_LIMIT] or a / c > mp[ASPECT_MAX]:
+        return END_SIZE, c
+    return RUNNING, 0.0
+
+
+@jit
+def _record(rec, k, cyc, blk, a, c, m, acc):
     rec[k, REC_CYCLE] = cyc
     rec[k, REC_BLOCK] = blk
     rec[k, REC_A] = a
+    rec[k, REC_C] = c
     rec[k, REC_DJ] = acc[4]
     rec[k, REC_DJ_EQ] = (acc[2] / acc[3]) ** (1.0 / m) if acc[3] > 0 else 0.0
     rec[k, REC_JMAX] = acc[5]
@@ -169,31 +264,33 @@ def _record(rec, k, cyc, blk, a, m, acc):
 @jit
 def block_growth(smax, smin, a, code, gp, mp):
     """Growth over one block with the crack frozen at ``a`` [mm], and the block's ΔJ_eq
-    (Σ ΔJ^m / n)^(1/m), max J_max and max L_r."""
+    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff."""
     n = smax.shape[0]
     g = 0.0
     s = 0.0
     jmx = 0.0
     lrmx = 0.0
+    djmx = 0.0
     m = mp[M_LAW]
+    kos = k_over_s(code, a, gp)
+    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
     for i in range(n):
-        dj, jmax, lr, jel, clipped = cycle_driving_force(smax[i], smin[i], a, code, gp, mp)
+        dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
         g += cycle_rate(dj, jmax, mp)
         s += dj**m
         jmx = max(jmx, jmax)
         lrmx = max(lrmx, lr)
-    return g, (s / n) ** (1.0 / m), jmx, lrmx
+        djmx = max(djmx, dj)
+    return g, (s / n) ** (1.0 / m), jmx, lrmx, djmx
 
 
 @jit
 def block_growth_table(smax, smin, a_grid, code, gp, mp, out):
-    """Fill ``out[k, 0:4]`` with :func:`block_growth` at every crack size of ``a_grid``."""
+    """Fill ``out[k, 0:5]`` with :func:`block_growth` at every crack size of ``a_grid``."""
     for k in range(a_grid.shape[0]):
-        g, djeq, jmx, lrmx = block_growth(smax, smin, a_grid[k], code, gp, mp)
-        out[k, 0] = g
-        out[k, 1] = djeq
-        out[k, 2] = jmx
-        out[k, 3] = lrmx
+        res = block_growth(smax, smin, a_grid[k], code, gp, mp)
+        for j in range(5):
+            out[k, j] = res[j]
 
 
 @jit
@@ -207,3 +304,20 @@ def first_end(smax_peak, a_grid, code, gp, mp):
         if end != RUNNING:
             return k, end
     return -1, RUNNING
+
+
+@jit
+def tearing_margin_kernel(s_peak, a, a_hi, c1, c2, code, gp, mp, n_points):
+    """max over Δa ∈ [1e-4 mm, a_hi − a] (geometric grid) of J_R(Δa) − J_max(a + Δa) at the
+    peak nominal stress [kJ/m²]; J_R = C1·(Δa/1 mm)^C2.  Negative: unstable tearing."""
+    span = a_hi - a
+    if span <= 0.0:
+        return -np.inf
+    best = -np.inf
+    lo = np.log(1e-4)
+    step = (np.log(span) - lo) / (n_points - 1) if span > 1e-4 else 0.0
+    for k in range(n_points):
+        da = np.exp(lo + step * k) if step > 0.0 else span
+        jmax = cycle_driving_force(s_peak, 0.0, min(a + da, a_hi), code, gp, mp)[1]
+        best = max(best, c1 * da**c2 - jmax)
+    return best

@@ -19,9 +19,13 @@ from cycj.errors import CycjInputError
 from cycj.growth import CLOSURE_CODES
 from cycj.instability import END_NAMES, RUNNING, tearing_instability_size
 from cycj.jintegral import J_METHODS
+from cycj.sequence import SEQUENCE_CODES
 
 #: rows of history aimed at between the initial and the critical crack size
 HISTORY_ROWS = 400
+#: history.csv columns (c_mm only for two-dimensional cracks)
+HISTORY_COLUMNS = ["cycle", "block", "a_mm", "dJ_kJm2", "dJ_eq_kJm2", "Jmax_kJm2", "Lr",
+                   "dadN_mm_per_cycle", "c_mm"]
 #: cycles handed to one compiled call (progress and Ctrl-C between calls)
 CHUNK_CYCLES = 4_000_000
 
@@ -153,14 +157,19 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
     mp[M.CHECK_COLLAPSE] = 1.0 if "collapse" in crit else 0.0
     mp[M.A_LIMIT] = size_limit(case)[0]
     mp[M.A_TEAR] = math.inf
+    seq = SEQUENCE_CODES[ld.sequence]
+    mp[M.SEQ_MODEL] = seq
+    opts = ld.sequence_options
+    mp[M.SEQ_EXPONENT] = float(opts.get("shaping_exponent", 1.0))
+    mp[M.SEQ_SHUT_OFF] = float(opts.get("shut_off_ratio", 3.0))
+    mp[M.ZONE_BETA] = float(opts.get("zone_factor", 6.0 if geo.plane_strain else 2.0))
+    mp[M.TWO_D] = 0.0
+    mp[M.LEAK_SIZE] = mp[M.ASPECT_MAX] = mp[M.C_LIMIT] = math.inf
     if "tearing" in crit and s_peak is not None:
-        from dataclasses import replace
-
         rc = mat.resistance_curve
-        mat_t = replace(mat, resistance_curve=replace(rc, C1=rc.C1 * toughness_scale))
-        mp[M.A_TEAR] = tearing_instability_size(geo, mat_t, s_peak, geo.size_limits[0]
-                                                if geo.size_limits[0] > 0 else 1e-6,
-                                                mp[M.A_LIMIT])
+        a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
+        mp[M.A_TEAR] = tearing_instability_size(geo, s_peak, a_from, mp[M.A_LIMIT],
+                                                rc.C1 * toughness_scale, rc.C2, mp)
     return mp
 
 
@@ -202,8 +211,8 @@ def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, 
         return "cycle", "a sequence model needs the cycle stepper"
     if requested != "auto":
         return requested, "requested"
-    g0 = K.block_growth(loads.smax, loads.smin, a0, case.geometry.code, case.geometry.params,
-                        mp)[0]
+    g0 = K.block_growth(loads.smax, loads.smin, a0, case.geometry.code,
+                        case.geometry.params, mp)[0]
     if g0 <= 0:
         return "cycle", "no growth in the first block"
     if g0 < 0.002 * (a_crit - a0) and g0 < 1e-3 * a0:
@@ -222,7 +231,7 @@ def _block_phase(case, loads, mp, a0, a_crit, max_cycles):
 
     geo = case.geometry
     grid = _grid(a0, a_crit, loads.n)
-    table = np.zeros((grid.size, 4))
+    table = np.zeros((grid.size, 5))
     K.block_growth_table(loads.smax, loads.smin, grid, geo.code, geo.params, mp, table)
     b = blocks_to_grow(grid, table[:, 0])
     finite = np.isfinite(b)
@@ -230,49 +239,37 @@ def _block_phase(case, loads, mp, a0, a_crit, max_cycles):
     b_end = min(b_end, max_cycles / loads.n)
     k0 = max(math.floor(b_end) - 2, 0)
     a_start = crack_after_blocks(grid, b, k0)
-    rows = []
-    for k in np.nonzero(finite & (b <= k0))[0]:
-        g, djeq, jmx, lrmx = table[k]
-        rows.append((b[k] * loads.n, b[k], grid[k], float(np.max(_block_dj(case, loads, mp,
-                                                                            grid[k]))),
-                     djeq, jmx, lrmx, g / loads.n))
+    rows = [(b[k] * loads.n, b[k], grid[k], table[k, 4], table[k, 1], table[k, 2],
+             table[k, 3], table[k, 0] / loads.n)
+            for k in np.nonzero(finite & (b <= k0))[0]]
     return a_start, float(k0), rows
 
 
-def _block_dj(case, loads, mp, a):
-    out = np.empty(loads.n)
-    for i in range(min(loads.n, 1)):
-        out[i] = K.cycle_driving_force(loads.smax[i], loads.smin[i], a, case.geometry.code,
-                                       case.geometry.params, mp)[0]
-    return out[:1]
-
-
-def _stepper(case, loads, mp, a_start, cycles0, block0, max_cycles, rec_da, progress):
+def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
+    """Run the compiled stepper in chunks from ``state`` until an end criterion."""
     geo = case.geometry
+    gp = geo.params.copy()
     rec = np.zeros((HISTORY_ROWS * 3 + 10, K.N_REC))
     acc = np.zeros(8)
-    acc[0], acc[1] = a_start, cycles0
+    acc[0], acc[1] = state[M.ST_A], state[M.ST_CYCLES]
     chunk = max(1, int(CHUNK_CYCLES // loads.n))
-    a, cyc, blk, rec_n = a_start, cycles0, block0, 0
+    rec_n = 0
     rows = []
-    clipped = 0.0
     try:
         while True:
-            end, val, a, cyc, blk, rec_n = K.run_cycles(
-                loads.smax, loads.smin, a, cyc, blk, chunk, max_cycles, geo.code, geo.params,
-                mp, rec_da, rec, rec_n, acc)
+            end, val, rec_n = K.run_cycles(loads.smax, loads.smin, state, chunk, max_cycles,
+                                           geo.code, gp, mp, rec_da, rec, rec_n, acc)
             if rec_n > rec.shape[0] - 5:  # flush and keep recording
                 rows.extend(map(tuple, rec[:rec_n]))
                 rec_n = 0
             if progress is not None:
-                progress(cyc, a)
+                progress(state[M.ST_CYCLES], state[M.ST_A])
             if end != RUNNING:
                 break
     except KeyboardInterrupt:
-        raise LifeInterrupted(cyc, a) from None
-    clipped = acc[7]
+        raise LifeInterrupted(state[M.ST_CYCLES], state[M.ST_A]) from None
     rows.extend(map(tuple, rec[:rec_n]))
-    return end, val, a, cyc, blk, rows, clipped
+    return end, val, rows, acc[7]
 
 
 def predict_life(case: Case, method: str | None = None, progress=None, load_scale: float = 1.0,
@@ -312,20 +309,25 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
     max_cycles = float(case.run.max_cycles)
     rec_da = max((a_crit - a0) / history_rows, 1e-9)
     rows = []
-    a, cyc0, blk0 = a0, 0.0, 0.0
+    state = np.zeros(M.N_STATE)
+    state[M.ST_A] = a0
+    state[M.ST_C] = geo.dims.get("half_length", 0.0)
     if used == "block" and a_crit > a0:
-        a, blk0, rows = _block_phase(case, loads, mp, a0, a_crit, max_cycles)
-        cyc0 = blk0 * loads.n
-    end, val, a_end, cycles, blocks, step_rows, clipped = _stepper(
-        case, loads, mp, a, cyc0, blk0, max_cycles, rec_da, progress)
+        state[M.ST_A], state[M.ST_BLOCKS], rows = _block_phase(case, loads, mp, a0, a_crit,
+                                                               max_cycles)
+        state[M.ST_CYCLES] = state[M.ST_BLOCKS] * loads.n
+        rows = [(*r, state[M.ST_C]) for r in rows]
+    end, val, step_rows, clipped = _stepper(case, loads, mp, state, max_cycles, rec_da,
+                                            progress)
+    a_end, cycles, blocks = state[M.ST_A], state[M.ST_CYCLES], state[M.ST_BLOCKS]
     if clipped:
         warnings.append(f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
                         "cycles (Elber −0.1 ≤ R ≤ 0.7; Newman R ≥ −1, S_max/σ_0 ≤ 0.8)")
-    first = (0.0, 0.0, a0, *_peak_row(case, loads, mp, a0))
-    last = (cycles, blocks, a_end, *_peak_row(case, loads, mp, a_end))
-    hist = pd.DataFrame([first, *rows, *step_rows, last], columns=[
-        "cycle", "block", "a_mm", "dJ_kJm2", "dJ_eq_kJm2", "Jmax_kJm2", "Lr",
-        "dadN_mm_per_cycle"])
+    first = (0.0, 0.0, a0, *_peak_row(case, loads, mp, a0), geo.dims.get("half_length", 0.0))
+    last = (cycles, blocks, a_end, *_peak_row(case, loads, mp, a_end), state[M.ST_C])
+    hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)
+    if not mp[M.TWO_D]:
+        hist = hist.drop(columns="c_mm")
     hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle",
                                                                        kind="stable")
     hist = hist.reset_index(drop=True)
@@ -359,12 +361,9 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
 
 
 def _peak_row(case, loads, mp, a):
-    """(ΔJ max, ΔJ_eq, J_max, L_r, da/dN mean) of the block at crack size a, crack frozen."""
-    g, djeq, jmx, lrmx = K.block_growth(loads.smax, loads.smin, a, case.geometry.code,
-                                        case.geometry.params, mp)
-    djmax = max(K.cycle_driving_force(loads.smax[i], loads.smin[i], a, case.geometry.code,
-                                      case.geometry.params, mp)[0]
-                for i in range(min(loads.n, 2000)))
+    """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) of the block at crack size a, frozen."""
+    g, djeq, jmx, lrmx, djmax = K.block_growth(loads.smax, loads.smin, a, case.geometry.code,
+                                               case.geometry.params, mp)
     return djmax, djeq, jmx, lrmx, g / loads.n
 
 

@@ -63,7 +63,44 @@ def to_internal(value, kind: str, *, key: str = "", source: str | None = None) -
     return out
 
 
+#: common units → (kind, factor to the internal unit); anything else goes through pint.
+#: tests/test_units.py checks every entry against pint.
+FAST_UNITS = {
+    "N": ("force", 1.0), "kN": ("force", 1e3), "MN": ("force", 1e6),
+    "mm": ("length", 1.0), "m": ("length", 1e3), "cm": ("length", 10.0),
+    "in": ("length", 25.4), "um": ("length", 1e-3),
+    "MPa": ("stress", 1.0), "GPa": ("stress", 1e3), "kPa": ("stress", 1e-3),
+    "Pa": ("stress", 1e-6), "bar": ("stress", 0.1), "ksi": ("stress", 6.894757293168361),
+    "kJ/m^2": ("energy_per_area", 1.0), "kJ/m**2": ("energy_per_area", 1.0),
+    "J/m^2": ("energy_per_area", 1e-3), "J/m**2": ("energy_per_area", 1e-3),
+    "N/mm": ("energy_per_area", 1.0),
+    "MPa*m**0.5": ("stress_intensity", MPA_SQRT_M), "MPa*m^0.5": ("stress_intensity",
+                                                                 MPA_SQRT_M),
+    "MPa*sqrt(m)": ("stress_intensity", MPA_SQRT_M), "MPa√m": ("stress_intensity",
+                                                              MPA_SQRT_M),
+    "MPa*mm**0.5": ("stress_intensity", 1.0), "MPa*mm^0.5": ("stress_intensity", 1.0),
+    "h": ("time", 1.0), "s": ("time", 1 / 3600), "min": ("time", 1 / 60),
+    "d": ("time", 24.0), "day": ("time", 24.0), "days": ("time", 24.0),
+}
+
+
+def _fast(text: str, kind: str):
+    parts = text.strip().split(None, 1)
+    if len(parts) != 2 or parts[1] not in FAST_UNITS:
+        return None
+    try:
+        number = float(parts[0])
+    except ValueError:
+        return None
+    k, factor = FAST_UNITS[parts[1]]
+    return number * factor if k == kind else None
+
+
 def _parse(text: str, unit: str, human: str, key: str, source: str | None) -> float:
+    kind = next(k for k, v in INTERNAL.items() if v[0] == unit)
+    fast = _fast(text, kind)
+    if fast is not None:
+        return fast
     import pint
 
     ureg = registry()

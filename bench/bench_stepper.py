@@ -1,0 +1,109 @@
+"""Benchmark of the life engine (ratios measured in one run; not a test).
+
+1. Stepper throughput: C(T), full reference-stress ΔJ on the Masing branch, Newman closure,
+   J_max at peak, end checks, Paris law — cycj's compiled stepper vs a plain C loop of the same
+   arithmetic (bench/stepper_ref.c, gcc -O2), same random block, same number of cycles.
+2. Block mode vs the stepper on a 10⁹-cycle case.
+3. Peak memory and a warm `cycj run` are measured from the shell (see DEVELOPERS.md).
+
+Run: python bench/bench_stepper.py
+"""
+
+import os
+import subprocess
+import sys
+import tempfile
+import time
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE.parent))
+
+from cycj import kernels as K  # noqa: E402
+from cycj import model_params as M  # noqa: E402
+from cycj.case import case_from_dict  # noqa: E402
+from cycj.life import model_array, predict_life  # noqa: E402
+
+
+def ct_case(closure="newman", max_cycles=1e12):
+    return case_from_dict({
+        "material": {"elastic_modulus": "205 GPa", "poisson_ratio": 0.3,
+                     "yield_strength": "340 MPa", "tensile_strength": "510 MPa",
+                     "cyclic_curve": {"strength_coefficient": "880 MPa",
+                                      "hardening_exponent": 0.16},
+                     "monotonic_curve": {"strength_coefficient": "780 MPa",
+                                         "hardening_exponent": 0.19},
+                     "growth": {"C": 2e-7, "m": 1.5, "basis": "effective"}},
+        "geometry": {"shape": "compact-tension", "width": "50 mm", "thickness": "12.5 mm",
+                     "crack_length": "15 mm"},
+        "loading": {"constant": {"max": "6 kN", "min": "0.6 kN"}, "closure": closure},
+        "run": {"criteria": ["collapse", "size-limit"], "max_cycles": max_cycles},
+    })
+
+
+def stepper_vs_c(n_block=200_000, blocks=10):
+    rng = np.random.default_rng(1)
+    case = ct_case()
+    per_force = case.geometry.nominal_stress_per_force()
+    smax = rng.uniform(2e3, 6e3, n_block) * per_force
+    smin = smax * rng.uniform(-0.3, 0.5, n_block)
+    mp = model_array(case)
+    mp[M.J_C] = 1e30
+    geo = case.geometry
+    rec = np.zeros((10, K.N_REC))
+    acc = np.zeros(8)
+
+    def state():
+        st = np.zeros(M.N_STATE)
+        st[M.ST_A] = 15.0
+        return st
+
+    K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
+                 acc)  # compile / load from cache
+    acc[:] = 0
+    st = state()
+    t = time.perf_counter()
+    K.run_cycles(smax, smin, st, blocks, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
+                 acc)
+    t_py = time.perf_counter() - t
+    with tempfile.TemporaryDirectory() as tmp:
+        data = Path(tmp) / "block.bin"
+        np.concatenate([smax, smin]).tofile(data)
+        exe = Path(tmp) / "stepper_ref"
+        subprocess.run(["gcc", "-O2", "-o", str(exe), str(HERE / "stepper_ref.c"), "-lm"],
+                       check=True)
+        t = time.perf_counter()
+        res = subprocess.run([str(exe), str(n_block), str(blocks), str(data), "15.0"],
+                             check=True, capture_output=True, text=True)
+        t_c = time.perf_counter() - t
+    c_cycles, c_a = res.stdout.split()
+    n = n_block * blocks
+    print(f"stepper: {n:.3g} cycles in {t_py:.3f} s = {n / t_py / 1e6:.2f} M cycles/s; "
+          f"a = {st[M.ST_A]:.9f} mm")
+    print(f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = "
+          f"{float(c_a):.9f} mm")
+    print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.8)")
+    return n / t_py
+
+
+def block_vs_stepper(throughput):
+    case = ct_case(closure="none", max_cycles=1e9)
+    law = replace(case.growth, C=2e-12, basis="applied")
+    case = replace(case, growth=law)
+    predict_life(case, method="block")
+    t = time.perf_counter()
+    res = predict_life(case, method="block")
+    tb = time.perf_counter() - t
+    n = res.summary["cycles_to_end"]
+    print(f"block mode: {n:.4g} cycles ({res.summary['end_reason']}) in {tb:.3f} s; the "
+          f"stepper at {throughput / 1e6:.1f} M cycles/s would need {n / throughput:.1f} s "
+          f"→ ratio {n / throughput / tb:.0f}× (targets < 1 s, ≥ 1000×)")
+
+
+if __name__ == "__main__":
+    os.environ.setdefault("MPLBACKEND", "Agg")
+    thr = stepper_vs_c()
+    block_vs_stepper(thr)

@@ -1,0 +1,77 @@
+"""``cycj count``: rainflow-count a load history file."""
+
+from __future__ import annotations
+
+import json
+
+import click
+
+
+@click.command()
+@click.argument("history", type=click.Path(dir_okay=False))
+@click.option("--column", default=None, help="Channel to count (name or 0-based position).")
+@click.option("--gate", default="0", show_default=True,
+              help="Drop reversal pairs smaller than this: a number in the file's unit or a "
+                   "quantity such as '0.2 kN'.")
+@click.option("--unit", default=None, help="Unit of the file's loads (e.g. kN, MPa); loads are "
+              "converted to N or MPa.")
+@click.option("--scale", default=1.0, show_default=True, type=float,
+              help="Factor applied to the loads.")
+@click.option("--repeat", is_flag=True, help="Count the history as a repeating block "
+              "(full cycles only).")
+@click.option("--bins", default=32, show_default=True, type=click.IntRange(2, 1000),
+              help="Bins on each axis of the rainflow matrices.")
+@click.option("--out", "out_dir", default=None, type=click.Path(file_okay=False),
+              help="Folder for cycles.csv, the matrices and the plots.")
+@click.option("--force", is_flag=True, help="Overwrite the files of a non-empty --out folder.")
+@click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
+def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, as_json):
+    """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
+    from cycj.spectrum.rainflow import rainflow_cycles
+    from cycj.spectrum.reading import history_unit, read_history_with_time
+    from cycj.spectrum.summary import count_summary, prepare_output_dir, write_count_outputs
+
+    factor, internal, kind = history_unit(unit, key="--unit")
+    gate_value = _gate(gate, factor * scale, kind)
+    if out_dir is not None:
+        prepare_output_dir(out_dir, force=force, inputs=[history])
+    values, times = read_history_with_time(history, column, factor, scale)
+    cycles = rainflow_cycles(values, gate_value, repeat)
+    summary = {"history": str(history), "column": column, **count_summary(
+        values, cycles, gate_value, repeat, internal)}
+    if out_dir is not None:
+        files = write_count_outputs(out_dir, values, cycles, internal, times, bins)
+        summary["outputs"] = [str(p) for p in files]
+    if as_json:
+        click.echo(json.dumps(summary, indent=2))
+        return
+    u = f" {internal}" if internal else ""
+    click.echo(f"history: {history}")
+    click.echo(f"samples: {summary['samples']}")
+    click.echo(f"reversals: {summary['reversals']}" + (f" (gate {gate_value:g}{u})"
+                                                      if gate_value else ""))
+    if summary["full_cycles"] + summary["half_cycles"] == 0:
+        click.echo("cycles: none (the history is constant or every change is below the gate)")
+    else:
+        click.echo(f"cycles: {summary['cycles']:g} ({summary['full_cycles']} full + "
+                   f"{summary['half_cycles']} half)" + (" [repeating block]" if repeat else ""))
+        click.echo(f"largest range: {summary['largest_range']:.6g}{u}")
+    if out_dir is not None:
+        click.echo(f"wrote {len(summary['outputs'])} files to {out_dir}")
+
+
+def _gate(text: str, factor: float, kind: str | None) -> float:
+    """The gate in the loads' unit: a bare number is in the file's unit (times the factor)."""
+    from cycj.errors import CycjInputError
+    from cycj.units import to_internal
+
+    try:
+        g = float(text) * factor
+    except ValueError:
+        if kind is None:
+            raise CycjInputError("a gate with a unit needs --unit", key="--gate",
+                                 found=text) from None
+        g = to_internal(text, kind, key="--gate")
+    if not g >= 0:
+        raise CycjInputError("the gate must be >= 0", key="--gate", found=text)
+    return g

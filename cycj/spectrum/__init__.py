@@ -1,0 +1,27 @@
+"""Load histories: reading, reversals, rainflow counting, cycles in sequence, statistics,
+generators and plots (issue #3).
+
+Public API::
+
+    read_history(path, column=None, unit_factor=1.0, scale=1.0) -> ndarray
+    read_history_with_time(path, column=None, unit_factor=1.0, scale=1.0, time_column=None)
+    reversals(values, gate=0.0) -> (values, indices)
+    count_cycles(values, gate=0.0, repeat=False) -> DataFrame(range, mean, count, start, end)
+    cycles_in_sequence(values, gate=0.0, order="closing") -> (peak, valley)
+"""
+
+from cycj.spectrum.rainflow import CYCLE_COLUMNS, count_cycles, rainflow_cycles
+from cycj.spectrum.reading import read_history, read_history_with_time
+from cycj.spectrum.reversals import block_reversals, reversals
+from cycj.spectrum.sequence import cycles_in_sequence
+
+__all__ = [
+    "CYCLE_COLUMNS",
+    "block_reversals",
+    "count_cycles",
+    "cycles_in_sequence",
+    "rainflow_cycles",
+    "read_history",
+    "read_history_with_time",
+    "reversals",
+]

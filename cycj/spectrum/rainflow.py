@@ -1,0 +1,168 @@
+"""Rainflow cycle counting to ASTM E1049-85 §5.4.4 (three-point algorithm), numba-compiled."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from cycj._jit import jit
+from cycj.spectrum.reversals import block_reversals, reversals
+
+#: columns of the cycle table returned by :func:`count_cycles`
+CYCLE_COLUMNS = ("range", "mean", "count", "start", "end")
+
+
+@jit
+def _rainflow_kernel(r, closed, first, second, count):
+    """Three-point rainflow count of the reversal values ``r``.
+
+    Writes, per cycle, the positions in ``r`` of its first and second point and its count
+    (1.0 or 0.5) into the preallocated arrays (length ``len(r)``); returns the number of cycles,
+    in the order they were counted.  With ``closed`` the sequence starts and ends on its
+    largest extreme (a repeating block): no point is a start point and every range that closes
+    is a full cycle.
+    """
+    n = r.shape[0]
+    stack = np.empty(n, dtype=np.int64)
+    sp = 0
+    nc = 0
+    for j in range(n):
+        stack[sp] = j
+        sp += 1
+        while sp >= 3:
+            x_rng = abs(r[stack[sp - 1]] - r[stack[sp - 2]])
+            y_rng = abs(r[stack[sp - 2]] - r[stack[sp - 3]])
+            if x_rng < y_rng:
+                break
+            if sp == 3 and not closed:
+                # Y contains the starting point: one-half cycle, discard the first point
+                first[nc] = stack[0]
+                second[nc] = stack[1]
+                count[nc] = 0.5
+                nc += 1
+                stack[0] = stack[1]
+                stack[1] = stack[2]
+                sp = 2
+            else:
+                # one cycle: discard the peak and the valley of Y
+                first[nc] = stack[sp - 3]
+                second[nc] = stack[sp - 2]
+                count[nc] = 1.0
+                nc += 1
+                stack[sp - 3] = stack[sp - 1]
+                sp -= 2
+    # residue: each remaining range counts one-half cycle
+    for m in range(sp - 1):
+        first[nc] = stack[m]
+        second[nc] = stack[m + 1]
+        count[nc] = 0.5
+        nc += 1
+    return nc
+
+
+def rainflow_pairs(peaks_and_valleys: np.ndarray, closed: bool = False):
+    """Positions (first, second) in the reversal array and counts of every rainflow cycle.
+
+    Parameters
+    ----------
+    peaks_and_valleys : numpy.ndarray of float64, shape (m,)
+        Reversals as given by :func:`~cycj.spectrum.reversals.reversals` (or
+        :func:`~cycj.spectrum.reversals.block_reversals` with ``closed=True``).
+    closed : bool
+        The sequence is a closed repeating block starting and ending on its largest extreme.
+
+    Returns
+    -------
+    first, second : numpy.ndarray of int64
+        Positions of the two points of each cycle's range, ``first < second``.
+    count : numpy.ndarray of float64
+        1.0 for a full cycle, 0.5 for a half cycle; the arrays are in counting (closing) order.
+
+    References
+    ----------
+    .. [1] ASTM E1049-85 (reapproved 2017), *Standard Practices for Cycle Counting in Fatigue
+       Analysis*, ASTM International, §5.4.4 (rainflow counting) and §5.4.5 (repeating
+       histories).
+    """
+    r = np.ascontiguousarray(peaks_and_valleys, dtype=np.float64)
+    m = max(r.shape[0], 1)
+    first = np.empty(m, dtype=np.int64)
+    second = np.empty(m, dtype=np.int64)
+    count = np.empty(m, dtype=np.float64)
+    nc = _rainflow_kernel(r, bool(closed), first, second, count)
+    return first[:nc].copy(), second[:nc].copy(), count[:nc].copy()
+
+
+def rainflow_cycles(values, gate: float = 0.0, repeat: bool = False) -> dict:
+    """Rainflow cycles of a load history as plain arrays (the engine of :func:`count_cycles`).
+
+    Returns a dict of numpy arrays ``range, mean, count, start, end`` (in counting order) and
+    ``n_reversals`` (int).  Parameters as in :func:`count_cycles`.
+    """
+    if repeat:
+        v, idx = block_reversals(values, gate)
+    else:
+        v, idx = reversals(values, gate)
+    a, b, c = rainflow_pairs(v, closed=repeat)
+    va, vb = v[a], v[b]
+    n_rev = v.shape[0] - 1 if (repeat and v.shape[0] > 1) else v.shape[0]
+    return {"range": np.abs(vb - va), "mean": 0.5 * (va + vb), "count": c,
+            "start": idx[a], "end": idx[b], "n_reversals": n_rev}
+
+
+def count_cycles(values, gate: float = 0.0, repeat: bool = False):
+    """Count the cycles of a load history by rainflow counting (ASTM E1049-85 §5.4.4).
+
+    The history is reduced to its reversals (with an optional gate, see
+    :func:`~cycj.spectrum.reversals.reversals`) and counted with the three-point algorithm:
+    with X the newest range and Y the one before, while X ≥ Y, Y is one cycle (its two points
+    discarded), or one-half cycle if it contains the starting point (the first point
+    discarded).  The ranges left at the end (the residue) count one-half cycle each.
+
+    With ``repeat=True`` the history is one block of a history that repeats: the count starts
+    at the peak or valley of largest magnitude and the block is closed on it (§5.4.5), so the
+    residue closes into full cycles and every cycle counts 1.
+
+    Parameters
+    ----------
+    values : array_like of float, shape (n,)
+        Load history [N, MPa or any unit; the output carries the same unit].  Must be finite.
+    gate : float, optional
+        Reversal pairs with a range below ``gate`` are dropped first [unit of ``values``].
+    repeat : bool, optional
+        Count the history as a repeating block (full cycles only).  Default False.
+
+    Returns
+    -------
+    pandas.DataFrame
+        One row per cycle, in the order the cycles were counted, with columns
+
+        - ``range`` [unit of values]: max − min of the cycle, ≥ 0;
+        - ``mean`` [unit of values]: (max + min)/2;
+        - ``count``: 1.0 (full cycle) or 0.5 (half cycle);
+        - ``start``, ``end`` (int64): sample indices of the cycle's first and second point
+          (with ``repeat``, an index ``>= n`` means sample ``index - n`` of the next pass).
+
+        A constant history gives an empty table (no cycles).
+
+    Notes
+    -----
+    Every reversal is used exactly once: 2·(full cycles) + (half cycles) = reversals − 1.
+    Compiled with numba; 2·10⁶ samples count in a fraction of a second.
+
+    References
+    ----------
+    .. [1] ASTM E1049-85 (reapproved 2017), *Standard Practices for Cycle Counting in Fatigue
+       Analysis*, ASTM International, §5.4.4 and §5.4.5.
+    .. [2] Matsuishi, M. and Endo, T. (1968), "Fatigue of metals subjected to varying stress",
+       Japan Society of Mechanical Engineers, Fukuoka.
+
+    Examples
+    --------
+    >>> from cycj.spectrum import count_cycles
+    >>> count_cycles([-2, 1, -3, 5, -1, 3, -4, 4, -2])["count"].sum()
+    4.0
+    """
+    import pandas as pd
+
+    res = rainflow_cycles(values, gate, repeat)
+    return pd.DataFrame({k: res[k] for k in CYCLE_COLUMNS})

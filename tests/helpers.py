@@ -1,0 +1,37 @@
+"""Small builders of case dicts for tests (invented data)."""
+
+import copy
+
+BASE = {
+    "title": "test case",
+    "material": {
+        "elastic_modulus": "200 GPa", "poisson_ratio": 0.3, "yield_strength": "350 MPa",
+        "tensile_strength": "500 MPa",
+        "cyclic_curve": {"strength_coefficient": "900 MPa", "hardening_exponent": 0.15},
+        "toughness": {"J_c": "200 kJ/m^2"},
+        "growth": {"law": "paris", "C": 1e-4, "m": 1.6},
+    },
+    "geometry": {"shape": "center-crack-infinite-plate", "crack_length": "1 mm"},
+    "loading": {"constant": {"max": "100 MPa", "min": "0 MPa"}},
+    "analysis": {"j_method": "elastic"},
+    "run": {"criteria": ["size-limit"], "crack_length_limit": "10 mm"},
+}
+
+
+def case_dict(**sections):
+    """BASE with sections replaced or updated: case_dict(material={...}) updates keys."""
+    d = copy.deepcopy(BASE)
+    for name, val in sections.items():
+        if val is None:
+            d.pop(name, None)
+        elif isinstance(val, dict) and isinstance(d.get(name), dict):
+            d[name].update(val)
+        else:
+            d[name] = val
+    return d
+
+
+def make_case(**sections):
+    from cycj.case import case_from_dict
+
+    return case_from_dict(case_dict(**sections), source="<test>")
