@@ -166,3 +166,29 @@ def test_cli_pod_examples(tmp_path):
     bad.write_text("a_mm,ahat\n1.0,0.5\n2.0,x\n")
     r = _cli("pod", str(bad))
     assert r.returncode == 2 and ":3" in r.stderr
+
+
+def test_cracks_below_threshold_are_raised_to_the_growing_size(tmp_path):
+    # ΔK_th = 3 MPa√m: a_th = (3/100)²·1000/π = 0.2865 mm at Δσ = 100 MPa (K = S√(πa),
+    # Tada–Paris–Irwin); smaller initial cracks are treated as a_th (conservative)
+    text = CASE_13.replace('driving_unit = "MPa*m**0.5" }',
+                           'driving_unit = "MPa*m**0.5", threshold = "3 MPa*m**0.5" }')
+    text = text.replace('growth_C = { distribution = "lognormal", sigma = 0.3 }',
+                        'initial_crack = { distribution = "lognormal", median = "0.4 mm", '
+                        'sigma = 0.5 }')
+    p = tmp_path / "thr.toml"
+    p.write_text(text)
+    s = plan_inspections(load_case(p)).summary
+    assert any("do not grow" in w for w in s["warnings"])
+    grow = [w for w in s["warnings"] if "do not grow" in w][0]
+    a_g = float(grow.split("below ")[1].split(" mm")[0])
+    assert a_g == pytest.approx(0.2865, rel=5e-3)
+    # fixed C: failure within 1e6 cycles iff a0 ≥ a*, with N(a* → 10 mm) = 1e6 (closed
+    # form, REFERENCE 13 from memory) and a* above a_th; a0 log-normal (median 0.4, σ 0.5)
+    from scipy.optimize import brentq
+    from scipy.special import ndtr
+
+    a_star = brentq(lambda a: cf.cycles(a, 10.0) - 1e6, a_g, 5.0)
+    p_fail = 1 - ndtr(math.log(a_star / 0.4) / 0.5)
+    no = s["no_inspection"]
+    assert no["pof"] == pytest.approx(p_fail, abs=4 * no["std_error"] + 2e-3)

@@ -88,7 +88,7 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
     loads = factor_grid(sc.load_scale, 7)
     tough = factor_grid(sc.toughness, 9)
     a_min = sc.initial_crack.quantile(1e-7)
-    growth, critical = engine.curve_functions(case, float(tough.max()))
+    growth, critical = engine.curve_functions(case, float(tough.max()), warnings)
     table = build_table(growth, critical, a_min, loads, tough)
     prob = probabilistic_plan(table, inp, scheduler)
     if prob["recommended_interval_cycles"] is None:
