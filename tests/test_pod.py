@@ -88,3 +88,18 @@ def test_signal_response_fit_recovers_parameters_with_censoring():
 def test_hit_miss_needs_hits_and_misses():
     with pytest.raises(ValueError, match="both"):
         fit_hit_miss([1, 2, 3, 4], [1, 1, 1, 1])
+
+
+def test_hit_miss_a90_95_likelihood_ratio_and_delta_agree_for_large_samples():
+    # MIL-HDBK-1823A (2009): LR and Wald bounds converge as n grows; both above a90
+    rng = np.random.default_rng(3)
+    a = np.exp(rng.uniform(math.log(0.5), math.log(8.0), 2000))
+    from scipy.special import expit
+
+    hit = (rng.random(a.size) < expit(-3.0 + 4.0 * np.log(a))).astype(int)
+    fit = fit_hit_miss(a, hit, "logit")
+    lr, dm = fit.extra["a90_95_likelihood_ratio_mm"], fit.extra["a90_95_delta_mm"]
+    assert fit.a90_95 == lr and fit.extra["a90_95_bound"] == "likelihood-ratio"
+    assert lr > fit.curve.a90 and dm > fit.curve.a90
+    assert lr == pytest.approx(dm, rel=0.02)
+    assert fit_hit_miss(a, hit, "logit", bound="delta").a90_95 == dm

@@ -4,8 +4,9 @@
 * signal response: ln â = β0 + β1·ln a + ε, ε ~ N(0, τ²), censored below a recording floor
   and above a saturation level (Tobit regression).
 
-a90/95 is the 95 % one-sided upper confidence bound on a90 from the delta method (Wald) on
-ln a90, with the covariance from the observed information (inverse Hessian of −ln L).
+a90/95 is the 95 % one-sided upper confidence bound on a90: for hit/miss by the profile
+likelihood ratio (default) or the delta method; for â vs a by the delta method (Wald) on ln a90
+with the covariance from the observed information (inverse Hessian of −ln L).
 
 Units: crack sizes in mm; â in the instrument's own unit.
 
@@ -67,7 +68,35 @@ def _hessian(fun, x, h=1e-4):
     return hess
 
 
-def fit_hit_miss(a, hit, link: str = "logit") -> PodFit:
+def _lr_upper_ln_a90(nll, z90: float, b_hat, ln_a90: float, se: float) -> float:
+    """Upper end of the one-sided 95 % likelihood-ratio bound on ln a90 (hit/miss).
+
+    The GLM is re-parameterised by (ln a90, β1): β0 = z90 − β1·ln a90; the profile deviance
+    2(ℓ̂ − ℓ_p) reaches χ²₁(0.90) = 2.7055 at the bound.
+    """
+    from scipy.optimize import brentq, minimize_scalar
+
+    l_hat = nll(b_hat)
+    crit = 2.705543454095404
+
+    def dev(x90):
+        f = lambda lb: nll([z90 - math.exp(lb) * x90, math.exp(lb)])  # noqa: E731
+        lb0 = math.log(b_hat[1])
+        r = minimize_scalar(f, bracket=(lb0 - 0.5, lb0 + 0.5))
+        return 2 * (r.fun - l_hat) - crit
+
+    step = max(se, 1e-3)
+    hi = ln_a90 + 2 * step
+    for _ in range(40):
+        if dev(hi) > 0:
+            break
+        hi += 2 * step
+    else:
+        return math.inf
+    return brentq(dev, ln_a90, hi, xtol=1e-8)
+
+
+def fit_hit_miss(a, hit, link: str = "logit", bound: str = "likelihood-ratio") -> PodFit:
     """Maximum-likelihood hit/miss POD, POD = F(β0 + β1·ln a).
 
     Parameters
@@ -77,11 +106,13 @@ def fit_hit_miss(a, hit, link: str = "logit") -> PodFit:
     hit : array_like of {0, 1}
         1 = found, 0 = missed.
     link : {"logit", "probit"}
+    bound : {"likelihood-ratio", "delta"}
+        How a90/95 is found: the profile likelihood-ratio bound (the handbook's choice for
+        hit/miss) or the delta method, exp(ln a90 + z95·se(ln a90)).  Both are reported.
 
     Returns
     -------
     PodFit
-        With a90/95 = exp(ln a90 + z95·se(ln a90)) by the delta method.
 
     Notes
     -----
@@ -125,11 +156,17 @@ def fit_hit_miss(a, hit, link: str = "logit") -> PodFit:
     ln_a90 = (z - b0) / b1
     grad = np.array([-1.0 / b1, -(z - b0) / b1**2])
     se = math.sqrt(max(float(grad @ cov @ grad), 0.0))
-    a9095 = math.exp(ln_a90 + Z95 * se)
+    a_delta = math.exp(ln_a90 + Z95 * se)
+    a_lr = math.exp(_lr_upper_ln_a90(nll, z, res.x, ln_a90, se))
+    if bound not in ("likelihood-ratio", "delta"):
+        raise ValueError("bound must be 'likelihood-ratio' or 'delta'")
+    a9095 = a_lr if bound == "likelihood-ratio" and math.isfinite(a_lr) else a_delta
     base = pod_from_glm(link, b0, b1)
     curve = PodCurve(base.model, base.mu, base.sigma, 1.0, a9095)
     return PodFit(curve, "hit-miss", link, {"beta0": b0, "beta1": b1}, cov, int(a.size),
-                  a9095, {"se_ln_a90": se, "log_likelihood": -float(res.fun)})
+                  a9095, {"se_ln_a90": se, "log_likelihood": -float(res.fun),
+                          "a90_95_bound": bound if a9095 == a_lr else "delta",
+                          "a90_95_delta_mm": a_delta, "a90_95_likelihood_ratio_mm": a_lr})
 
 
 def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
