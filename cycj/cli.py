@@ -19,6 +19,7 @@ COMMANDS = {
     "plan": "cycj.commands.plan:plan",
     "pod": "cycj.commands.pod:pod",
     "run": "cycj.commands.run:run",
+    "fit": "cycj.commands.fit:fit",
 }
 
 

@@ -165,6 +165,15 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
     mp[M.ZONE_BETA] = float(opts.get("zone_factor", 6.0 if geo.plane_strain else 2.0))
     mp[M.TWO_D] = 0.0
     mp[M.LEAK_SIZE] = mp[M.ASPECT_MAX] = mp[M.C_LIMIT] = math.inf
+    if geo.two_d:
+        from cycj.geometry import _params as GP
+
+        mp[M.TWO_D] = 1.0
+        mp[M.LEAK_SIZE] = geo.size_limits[1]      # a/t = 0.8: end of the K solution → leak
+        mp[M.ASPECT_MAX] = 1.0 if geo.params[GP.BENDING_RATIO] else 2.0
+        mp[M.C_LIMIT] = 0.25 * geo.params[GP.WIDTH]
+        lim = case.run.crack_length_limit
+        mp[M.A_LIMIT] = lim if lim is not None and lim < mp[M.LEAK_SIZE] else math.inf
     if "tearing" in crit and s_peak is not None:
         rc = mat.resistance_curve
         a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
@@ -182,10 +191,11 @@ def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: 
         mp = model_array(case, toughness_scale, s_peak=loads.peak)
     geo = case.geometry
     lo = geo.size_limits[0] if geo.size_limits[0] > 0 else min(geo.crack_length, 1e-3)
-    grid = np.linspace(lo, mp[M.A_LIMIT], 2001)
+    top = min(mp[M.A_LIMIT], mp[M.LEAK_SIZE])
+    grid = np.linspace(lo, top, 2001)
     k, code = K.first_end(loads.peak, grid, geo.code, geo.params, mp)
     if k < 0:
-        return float(mp[M.A_LIMIT]), "size-limit"
+        return float(top), "leak" if top == mp[M.LEAK_SIZE] else "size-limit"
     if k == 0:
         return float(grid[0]), END_NAMES[code]
     a_lo, a_hi = grid[k - 1], grid[k]
@@ -203,6 +213,12 @@ def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: 
 def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, str]:
     """'cycle' or 'block' and why."""
     requested = case.run.method
+    if case.geometry.two_d:
+        if requested == "block":
+            raise CycjInputError("block mode integrates one crack dimension; a surface crack "
+                                 "grows in depth and length", key="run.method", found="block",
+                                 expected="'cycle' or 'auto'")
+        return "cycle", "a two-dimensional crack needs the cycle stepper"
     if case.loading.sequence != "none":
         if requested == "block":
             raise CycjInputError("block mode freezes the crack within a block and cannot carry "

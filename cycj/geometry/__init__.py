@@ -24,6 +24,7 @@ from cycj.geometry import (
     compact_tension,
     edge_crack_plate,
     edge_crack_semi_infinite,
+    surface_crack_plate,
     three_point_bend,
 )
 
@@ -43,6 +44,7 @@ class Shape:
     validity: str
     references: tuple[str, ...]
     optional: dict = field(default_factory=dict)
+    two_d: bool = False
 
 
 SHAPES: dict[str, Shape] = {}
@@ -94,6 +96,17 @@ _register(Shape(
      "Kumar, German & Shih, EPRI NP-1931 (1981): limit load"),
     {"net_thickness": "= thickness", "span": "= 4·width"}))
 
+_register(Shape(
+    "surface-crack-plate", surface_crack_plate.CODE,
+    "semi-elliptical surface crack in a plate, tension and bending", surface_crack_plate,
+    ("width", "thickness", "half_length"), ("force", "stress"),
+    "S = membrane stress P/(B·W); bending stress = bending_ratio·S",
+    "a = depth, c = half_length (both grow)",
+    "0 < a/c ≤ 2 (≤ 1 with bending), a/t < 0.8, c/b < 0.5 (b = W/2)",
+    ("Newman & Raju, Eng. Fract. Mech. 15 (1981) 185 (from memory)",
+     "BS 7910:2013+A1:2015 Annex P: reference stress of a surface flaw (from memory)"),
+    {"bending_ratio": "= 0"}, two_d=True))
+
 #: shapes accepted in ``geometry.shape``
 SHAPE_NAMES = tuple(SHAPES)
 
@@ -114,6 +127,16 @@ class Geometry:
     @property
     def code(self) -> int:
         return self.shape.code
+
+    @property
+    def two_d(self) -> bool:
+        """True for cracks with two growing dimensions (depth a and half-length c)."""
+        return self.shape.two_d
+
+    def k_over_s_surface(self, a):
+        """K/S at the surface point of a two-dimensional crack [√mm] (vectorised)."""
+        self.check_crack(a)
+        return _vectorised("k_over_s_surface")(self.code, np.asarray(a, float), self.params)
 
     @property
     def size_limits(self) -> tuple[float, float]:
@@ -188,7 +211,7 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     if constraint not in ("plane-strain", "plane-stress"):
         raise CycjInputError("unknown constraint", source=source, key=f"{prefix}.constraint",
                              expected="'plane-strain' or 'plane-stress'", found=constraint)
-    vals = {"width": width, "thickness": thickness}
+    vals = {"width": width, "thickness": thickness, "half_length": half_length}
     for k in s.required:
         if not (vals[k] > 0 and math.isfinite(vals[k])):
             raise CycjInputError("must be a positive size", source=source, key=f"{prefix}.{k}",
@@ -208,6 +231,9 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     p[P.SPAN] = sp
     p[P.PLANE_STRAIN] = 1.0 if constraint == "plane-strain" else 0.0
     p[P.HALF_LENGTH], p[P.BENDING_RATIO] = half_length, bending_ratio
+    if s.two_d:
+        _check_surface_crack(crack_length, half_length, width, thickness, bending_ratio,
+                             source, prefix)
     geo = Geometry(s, float(crack_length), p, constraint == "plane-strain",
                    {"width": width, "thickness": thickness, "net_thickness": bn, "span": sp,
                     "half_length": half_length, "bending_ratio": bending_ratio})
@@ -218,3 +244,16 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
                              expected=f"{lo:g} < a ≤ {hi:g} mm ({s.validity})",
                              found=crack_length)
     return geo
+
+
+def _check_surface_crack(a, c, w, t, beta, source, prefix):
+    """Newman–Raju validity at the start: 0 < a/c ≤ 2 (≤ 1 with bending), c/b < 0.5."""
+    aspect_max = 1.0 if beta else 2.0
+    if not c > 0 or not 0 < a / c <= aspect_max:
+        raise CycjInputError("aspect ratio a/c outside the Newman–Raju range", source=source,
+                             key=f"{prefix}.half_length",
+                             expected=f"0 < a/c ≤ {aspect_max:g}", found=c)
+    if not c < 0.25 * w:
+        raise CycjInputError("half-length too large for the plate width (c/b < 0.5)",
+                             source=source, key=f"{prefix}.half_length",
+                             expected=f"c < {0.25 * w:g} mm (W/4)", found=c)

@@ -23,11 +23,15 @@ from cycj.geometry import (
     edge_crack_semi_infinite as _esi,
 )
 from cycj.geometry import (
+    surface_crack_plate as _scp,
+)
+from cycj.geometry import (
     three_point_bend as _seb,
 )
 
-_CCI, _ESI, _MT, _SET, _CT, _SEB = 1, 2, 3, 4, 5, 6
-assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE) == (1, 2, 3, 4, 5, 6)
+_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP = 1, 2, 3, 4, 5, 6, 7
+assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE, _scp.CODE) == (
+    1, 2, 3, 4, 5, 6, 7)
 
 
 @jit
@@ -43,6 +47,8 @@ def k_over_s(code, a, p):
         return _seb.k_over_s(a, p)
     if code == _ESI:
         return _esi.k_over_s(a, p)
+    if code == _SCP:
+        return _scp.k_over_s(a, p)
     return _cci.k_over_s(a, p)
 
 
@@ -59,10 +65,14 @@ def limit_stress(code, a, p, sigma_y):
         return _seb.limit_stress(a, p, sigma_y)
     if code == _ESI:
         return _esi.limit_stress(a, p, sigma_y)
+    if code == _SCP:
+        return _scp.limit_stress(a, p, sigma_y)
     return _cci.limit_stress(a, p, sigma_y)
 
 
 @jit
 def k_over_s_surface(code, a, p):
     """K/S [√mm] at the surface point of a two-dimensional crack (0 for other shapes)."""
+    if code == _SCP:
+        return _scp.k_over_s_surface(a, p)
     return 0.0

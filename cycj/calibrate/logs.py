@@ -1,0 +1,128 @@
+"""Reading fatigue crack growth test logs (CSV) into plain arrays in internal units.
+
+Two layouts (DESIGN.md, "Test logs for calibration"):
+
+* raw loops: ``cycle, load, displacement`` — every recorded cycle a run of samples round its
+  loop (rows of one cycle are contiguous);
+* crack length: ``cycle, crack_length, load_max, load_min`` — crack length measured otherwise.
+
+Column names are matched case-insensitively; units come from the specimen's ``log_units``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from cycj.errors import CycjInputError
+
+RAW_COLUMNS = ("cycle", "load", "displacement")
+CRACK_COLUMNS = ("cycle", "crack_length", "load_max", "load_min")
+
+
+@dataclass
+class RawLog:
+    """Concatenated loop samples; loop i is ``load[starts[i]:ends[i]]`` at ``cycles[i]``."""
+
+    name: str
+    cycles: np.ndarray
+    starts: np.ndarray
+    ends: np.ndarray
+    load: np.ndarray
+    displacement: np.ndarray
+    skipped: list = field(default_factory=list)
+
+
+@dataclass
+class CrackLog:
+    """Crack length readings with the cycle's load extremes."""
+
+    name: str
+    cycles: np.ndarray
+    crack_length: np.ndarray
+    load_max: np.ndarray
+    load_min: np.ndarray
+    skipped: list = field(default_factory=list)
+
+
+def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0):
+    """Read one log file and convert it to N and mm.
+
+    Returns :class:`RawLog` or :class:`CrackLog`.  A missing file, a missing column or a
+    non-numeric value is one :class:`CycjInputError` naming the file (and line).  Loops whose
+    cycle count does not increase are skipped with a reason (listed in ``.skipped``).
+    """
+    import pandas as pd
+
+    path = Path(path)
+    src = str(path)
+    if not path.is_file():
+        raise CycjInputError("log file not found", source=src)
+    try:
+        df = pd.read_csv(path, skipinitialspace=True, comment="#")
+    except (pd.errors.ParserError, pd.errors.EmptyDataError, UnicodeDecodeError) as exc:
+        raise CycjInputError(f"cannot read the CSV ({type(exc).__name__})", source=src) from None
+    df.columns = [str(c).strip().lower() for c in df.columns]
+    cols = set(df.columns)
+    if set(RAW_COLUMNS) <= cols:
+        kind, want = "raw", RAW_COLUMNS
+    elif set(CRACK_COLUMNS) <= cols:
+        kind, want = "crack", CRACK_COLUMNS
+    else:
+        raise CycjInputError("unknown log layout", source=src,
+                             expected="columns " + ", ".join(RAW_COLUMNS) + " or "
+                             + ", ".join(CRACK_COLUMNS), found=", ".join(df.columns))
+    data = {}
+    for c in want:
+        vals = pd.to_numeric(df[c], errors="coerce").to_numpy(float)
+        bad = np.flatnonzero(~np.isfinite(vals))
+        if bad.size and (c == "cycle" or kind == "crack"):
+            raise CycjInputError(f"column '{c}' holds a value that is not a finite number",
+                                 source=src, line=int(bad[0]) + 2, found=str(df[c].iloc[bad[0]]))
+        data[c] = vals
+    name = path.name
+    if kind == "crack":
+        return _crack_log(name, data, crack_factor, load_factor)
+    return _raw_log(name, data, load_factor, displacement_factor)
+
+
+def _crack_log(name, data, crack_factor, load_factor):
+    n = data["cycle"]
+    keep = np.ones(n.size, bool)
+    skipped = []
+    last = -np.inf
+    for i, c in enumerate(n):
+        if c <= last:
+            keep[i] = False
+            skipped.append({"log": name, "cycle": float(c),
+                            "reason": "cycle count does not increase"})
+        else:
+            last = c
+    return CrackLog(name, n[keep], data["crack_length"][keep] * crack_factor,
+                    data["load_max"][keep] * load_factor, data["load_min"][keep] * load_factor,
+                    skipped)
+
+
+def _raw_log(name, data, load_factor, displacement_factor):
+    cyc = data["cycle"]
+    if cyc.size == 0:
+        raise CycjInputError("the log has no rows", source=name)
+    change = np.flatnonzero(np.diff(cyc) != 0) + 1
+    starts = np.concatenate([[0], change])
+    ends = np.concatenate([change, [cyc.size]])
+    run_cycles = cyc[starts]
+    keep = np.ones(starts.size, bool)
+    skipped = []
+    last = -np.inf
+    for i, c in enumerate(run_cycles):
+        if c <= last:
+            keep[i] = False
+            skipped.append({"log": name, "cycle": float(c),
+                            "reason": "cycle count does not increase"})
+        else:
+            last = c
+    return RawLog(name, run_cycles[keep], starts[keep], ends[keep],
+                  data["load"] * load_factor, data["displacement"] * displacement_factor,
+                  skipped)

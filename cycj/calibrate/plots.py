@@ -1,0 +1,81 @@
+"""Figures of a calibration: da/dN vs ΔJ with fit and band, a vs N, one typical loop.
+
+matplotlib is imported inside each function (the command line starts fast).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+
+def _figure():
+    import matplotlib
+
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+
+    return plt.subplots(figsize=(6.4, 4.4))
+
+
+def rate_plot(result):
+    """da/dN [mm/cycle] against ΔJ_eff [kJ/m²], log–log, by log, with the recommended line
+    and the prediction band of the regression."""
+    from cycj.calibrate.fits import prediction_band
+
+    fig, ax = _figure()
+    s = result.summary
+    rates = result.rates
+    meth = s["recommended_fit"] if s["recommended_fit"] != "direct" else "polynomial"
+    sub = rates[(rates["method"] == meth) & (rates["dadN_mm_per_cycle"] > 0)]
+    for name, g in sub.groupby("log"):
+        ax.loglog(g["dJ_eff_kJm2"], g["dadN_mm_per_cycle"], "o", ms=4, label=str(name))
+    lo, hi = s["dJ_range_kJm2"]
+    lo = max(lo, 1e-6)
+    x = np.geomspace(lo, hi, 100)
+    ax.loglog(x, s["C"] * x ** s["m"], "k-",
+              label=f"{s['recommended_fit']}: C={s['C']:.3g}, m={s['m']:.3g}")
+    reg = result.fits.get(meth)
+    if reg is not None:
+        blo, bhi = prediction_band(reg, x)
+        ax.fill_between(x, blo, bhi, color="0.8", alpha=0.6,
+                        label=f"{100 * reg['confidence']:g} % prediction band")
+    if s.get("threshold_kJm2"):
+        ax.axvline(s["threshold_kJm2"], color="r", ls="--", lw=1, label="E647 threshold")
+    ax.set_xlabel("ΔJ_eff [kJ/m²]")
+    ax.set_ylabel("da/dN [mm/cycle]")
+    ax.grid(True, which="both", alpha=0.3)
+    ax.legend(fontsize=8)
+    return fig
+
+
+def crack_plot(result):
+    """Measured crack length against cycles, with the direct fit's integrated curves."""
+    fig, ax = _figure()
+    for c in result.curves:
+        line = ax.plot(c["cycle"], c["a_mm"], ".", ms=3, label=f"{c['log']} measured")[0]
+        ax.plot(c["fit_cycle"], c["fit_a_mm"], "-", color=line.get_color(),
+                label=f"{c['log']} direct fit")
+    ax.set_xlabel("cycles N")
+    ax.set_ylabel("crack length a [mm]")
+    ax.grid(True, alpha=0.3)
+    ax.legend(fontsize=8)
+    return fig
+
+
+def loop_plot(typical):
+    """One recorded loop with its compliance line and opening load."""
+    fig, ax = _figure()
+    p, v = typical["load"], typical["disp"]
+    ax.plot(v, p, ".-", ms=3, lw=0.6, label=f"cycle {typical['cycle']:.0f}")
+    pmax = typical["p_max"]
+    imax = int(np.argmax(p))
+    pp = np.linspace(p.min(), pmax, 20)
+    ax.plot(v[imax] - typical["compliance"] * (pmax - pp), pp, "k--", lw=1,
+            label="compliance line (upper unloading)")
+    ax.axhline(typical["p_open"], color="r", lw=1,
+               label=f"opening load {typical['p_open']:.0f} N (this loop)")
+    ax.set_xlabel("displacement [mm]")
+    ax.set_ylabel("load [N]")
+    ax.grid(True, alpha=0.3)
+    ax.legend(fontsize=8)
+    return fig
