@@ -16,6 +16,8 @@ COMMANDS = {
     "check": "cycj.commands.check:check",
     "count": "cycj.commands.count:count",
     "geometries": "cycj.commands.check:geometries",
+    "plan": "cycj.commands.plan:plan",
+    "pod": "cycj.commands.pod:pod",
     "run": "cycj.commands.run:run",
     "fit": "cycj.commands.fit:fit",
 }

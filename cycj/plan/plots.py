@@ -1,0 +1,117 @@
+"""Plots of an inspection plan and of a POD fit (matplotlib, imported here only)."""
+
+from __future__ import annotations
+
+import numpy as np
+
+
+def _fig(w=6.4, h=4.2):
+    import matplotlib
+
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+
+    return plt.subplots(figsize=(w, h))
+
+
+def pof_vs_interval(summary: dict):
+    """Probability of failure over the design life vs inspection interval, target line."""
+    fig, ax = _fig()
+    srch = summary["search"]
+    x = np.array([r["interval_cycles"] for r in srch])
+    p = np.array([r["pof"] for r in srch])
+    se = np.array([r["std_error"] for r in srch])
+    ax.errorbar(x, p, yerr=se, fmt="o-", ms=3, lw=1, label="searched intervals")
+    wi = summary["what_if"]
+    if wi:
+        ax.errorbar([r["interval_cycles"] for r in wi], [r["pof"] for r in wi],
+                    yerr=[r["std_error"] for r in wi], fmt="s", ms=6, label="what-if intervals")
+    ax.axhline(summary["target_pof"], color="C3", ls="--", label="target")
+    ax.axhline(summary["no_inspection"]["pof"], color="0.5", ls=":", label="no inspection")
+    rec = summary["recommended_interval_cycles"]
+    if rec is not None and summary.get("inspection_needed", True):
+        ax.axvline(rec, color="C2", ls="-.", label=f"recommended {rec:.3g}")
+    ax.set_xscale("log")
+    if np.any(p > 0):
+        ax.set_yscale("log")
+        ax.set_ylim(bottom=max(min(summary["target_pof"] / 10, p[p > 0].min() / 2), 1e-9))
+    ax.set_xlabel("inspection interval [cycles]")
+    ax.set_ylabel("probability of failure over the design life")
+    ax.legend(fontsize=8)
+    ax.grid(True, which="both", alpha=0.3)
+    return fig
+
+
+def cumulative_pof(summary: dict):
+    """Cumulative probability of failure vs cycles, without and with inspections."""
+    fig, ax = _fig()
+    cum = summary["cumulative_pof"]
+    n = np.asarray(cum["cycles"])
+    for k, v in cum.items():
+        if k == "cycles":
+            continue
+        ax.plot(n, v, label=k.replace("_", " "))
+    ax.axhline(summary["target_pof"], color="C3", ls="--", lw=1, label="target")
+    ax.set_yscale("symlog", linthresh=max(summary["target_pof"] / 10, 1e-8))
+    ax.set_ylim(bottom=0.0)
+    ax.set_xlabel("cycles")
+    ax.set_ylabel("cumulative probability of failure")
+    ax.legend(fontsize=8)
+    ax.grid(True, alpha=0.3)
+    return fig
+
+
+def envelope(curves: dict, summary: dict):
+    """Crack size vs cycles: Monte Carlo quantiles without inspection, and the deterministic
+    curve from the detectable size with the deterministic inspections marked."""
+    fig, ax = _fig()
+    env = curves["envelope"]
+    n = np.asarray(env["cycles"])
+    ax.fill_between(n, env["a_p05_mm"], env["a_p95_mm"], alpha=0.25,
+                    label="5–95 % of samples (no inspection)")
+    ax.plot(n, env["a_p50_mm"], lw=1.5, label="median sample")
+    det = curves["deterministic"]
+    ax.plot(det["cycles"], det["a_mm"], "k-", lw=1, label="deterministic, from detectable")
+    d = summary["deterministic"]
+    for i, row in enumerate(d["schedule"]):
+        ax.axvline(row["cycle"], color="C2", lw=0.8, ls=":",
+                   label="deterministic inspections" if i == 0 else None)
+    ax.axhline(d["critical_crack_length_mm"], color="C3", ls="--", lw=1, label="critical")
+    ax.axhline(d["detectable_size_mm"], color="0.4", ls="-.", lw=1, label="detectable")
+    ax.set_yscale("log")
+    ax.set_xlim(0, summary["design_life_cycles"])
+    ax.set_xlabel("cycles")
+    ax.set_ylabel("crack size a [mm]")
+    ax.legend(fontsize=7)
+    ax.grid(True, which="both", alpha=0.3)
+    return fig
+
+
+def pod_plot(fit, a, y, kind: str):
+    """Data and fitted POD (hit/miss) or â vs a with the regression line (signal response)."""
+    fig, ax = _fig()
+    c = fit.curve
+    grid = np.geomspace(min(np.min(a), c.a50 / 5), max(np.max(a), c.a90 * 2), 200)
+    if kind == "hit-miss":
+        ax.plot(a, y, "o", ms=3, alpha=0.5, label="hit (1) / miss (0)")
+        ax.plot(grid, c(grid), "C1-", label=f"fitted POD ({fit.link})")
+        ax.set_ylabel("POD")
+    else:
+        ax2 = ax.twinx()
+        ax.plot(a, y, "o", ms=3, alpha=0.5, label="â")
+        p = fit.params
+        ax.plot(grid, np.exp(p["beta0"] + p["beta1"] * np.log(grid)), "k-", lw=1,
+                label="ln â regression")
+        ax.axhline(p["decision"], color="C3", ls="--", lw=1, label="decision â")
+        ax.set_yscale("log")
+        ax.set_ylabel("signal â")
+        ax2.plot(grid, c(grid), "C1-", label="POD")
+        ax2.set_ylabel("POD")
+        ax2.set_ylim(0, 1.02)
+    ax.axvline(c.a90, color="C2", ls=":", label=f"a90 = {c.a90:.3g} mm")
+    ax.axvline(fit.a90_95, color="C2", ls="--", label=f"a90/95 = {fit.a90_95:.3g} mm")
+    ax.set_xscale("log")
+    ax.set_xlabel("crack size a [mm]")
+    ax.legend(fontsize=8, loc="center right")
+    ax.grid(True, which="both", alpha=0.3)
+    return fig
