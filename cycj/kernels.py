@@ -101,7 +101,10 @@ def point_driving_force(smax, smin, a, kos, sl, mp):
     kmax = smax * kos
     j_el_max = kmax * kmax / mp[E_PRIME]
     lr = smax / sl
-    jmax = j_peak_scalar(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+    if jm == 0:   # the LEFM comparison: J_max = K_max²/E'
+        jmax = j_el_max
+    else:
+        jmax = j_peak_scalar(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
     return dj, jmax, lr, j_el_max, clipped
 
 
