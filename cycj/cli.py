@@ -65,8 +65,10 @@ def main(argv=None):
     except (CycjInputError, ValidityRangeError) as exc:
         click.echo(f"cycj: error: {exc}", err=True)
         sys.exit(2)
-    except KeyboardInterrupt:
-        click.echo("cycj: stopped by the user (Ctrl-C); no partial outputs were kept", err=True)
+    except KeyboardInterrupt as exc:
+        where = f": {exc}" if str(exc) else ""
+        click.echo(f"cycj: stopped by the user (Ctrl-C){where}; no partial outputs were kept",
+                   err=True)
         sys.exit(130)
     except (OSError, UnicodeDecodeError) as exc:
         click.echo(f"cycj: error: {exc}", err=True)

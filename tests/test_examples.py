@@ -43,3 +43,12 @@ def test_random_spectra_block_agrees_with_cycle_stepper(tmp_path, seed):
     b = predict_life(case, method="block").summary
     assert c["end_reason"] == b["end_reason"] == "size-limit"
     assert b["cycles_to_end"] == pytest.approx(c["cycles_to_end"], rel=5e-3)
+
+
+@pytest.mark.parametrize("name,end", [("weld_toe_surface_crack.toml", "leak"),
+                                      ("pipeline_axial_crack.toml", "fad"),
+                                      ("lug_tabulated.toml", "size-limit")])
+def test_geometry_reach_examples_run(name, end):
+    res = predict_life(load_case(EXAMPLES / name))
+    assert res.summary["end_reason"] == end
+    assert res.summary["cycles_to_end"] > 1000
