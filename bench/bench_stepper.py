@@ -64,21 +64,23 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
                  acc)  # compile / load from cache
     acc[:] = 0
-    st = state()
-    t = time.perf_counter()
-    K.run_cycles(smax, smin, st, blocks, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
-                 acc)
-    t_py = time.perf_counter() - t
+    t_py = t_c = float("inf")
     with tempfile.TemporaryDirectory() as tmp:
         data = Path(tmp) / "block.bin"
         np.concatenate([smax, smin]).tofile(data)
         exe = Path(tmp) / "stepper_ref"
         subprocess.run(["gcc", "-O2", "-o", str(exe), str(HERE / "stepper_ref.c"), "-lm"],
                        check=True)
-        t = time.perf_counter()
-        res = subprocess.run([str(exe), str(n_block), str(blocks), str(data), "15.0"],
-                             check=True, capture_output=True, text=True)
-        t_c = time.perf_counter() - t
+        for _ in range(3):  # alternate, keep the best of three of each (noisy shared machine)
+            st = state()
+            t = time.perf_counter()
+            K.run_cycles(smax, smin, st, blocks, 1e18, geo.code, geo.params.copy(), mp, 1e9,
+                         rec, 0, acc)
+            t_py = min(t_py, time.perf_counter() - t)
+            t = time.perf_counter()
+            res = subprocess.run([str(exe), str(n_block), str(blocks), str(data), "15.0"],
+                                 check=True, capture_output=True, text=True)
+            t_c = min(t_c, time.perf_counter() - t)
     c_cycles, c_a = res.stdout.split()
     n = n_block * blocks
     print(f"stepper: {n:.3g} cycles in {t_py:.3f} s = {n / t_py / 1e6:.2f} M cycles/s; "
@@ -86,6 +88,20 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     print(f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = "
           f"{float(c_a):.9f} mm")
     print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.8)")
+    for name, code in (("Wheeler", 1), ("Willenborg", 2)):
+        mp_s = mp.copy()
+        mp_s[M.SEQ_MODEL], mp_s[M.SEQ_EXPONENT], mp_s[M.SEQ_SHUT_OFF] = code, 1.3, 3.0
+        mp_s[M.ZONE_BETA] = 6.0
+        K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp_s, 1e9, rec,
+                     0, acc)
+        t_s = float("inf")
+        for _ in range(3):
+            t = time.perf_counter()
+            K.run_cycles(smax, smin, state(), blocks, 1e18, geo.code, geo.params.copy(), mp_s,
+                         1e9, rec, 0, acc)
+            t_s = min(t_s, time.perf_counter() - t)
+        print(f"with {name}: {n / t_s / 1e6:.2f} M cycles/s; throughput ratio to no sequence "
+              f"model = {t_py / t_s:.2f} (target ≥ 0.5)")
     return n / t_py
 
 

@@ -22,7 +22,7 @@ import numpy as np
 
 from cycj._jit import jit
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
-from cycj.growth import opening_fraction, paris_rate
+from cycj.growth import opening_fraction
 from cycj.instability import (
     END_LEAK,
     END_MAX_CYCLES,
@@ -118,7 +118,13 @@ def cycle_driving_force(smax, smin, a, code, gp, mp):
 @jit
 def cycle_rate(dj, jmax, mp):
     """da/dN [mm/cycle] for ΔJ_eff and J_max, with the optional toughness acceleration."""
-    da = paris_rate(dj, mp[C_LAW], mp[M_LAW], mp[DJ_TH])
+    return rate_from_power(dj, dj ** mp[M_LAW] if dj > 0.0 else 0.0, jmax, mp)
+
+
+@jit
+def rate_from_power(dj, djm, jmax, mp):
+    """:func:`cycle_rate` given ΔJ^m already computed (the stepper needs it for ΔJ_eq too)."""
+    da = mp[C_LAW] * djm if dj > mp[DJ_TH] and dj > 0.0 else 0.0
     q = mp[Q_TOUGH]
     if q > 0.0 and da > 0.0:
         ratio = jmax / mp[J_C]
@@ -183,7 +189,11 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
     blk = st[ST_BLOCKS]
     m = mp[M_LAW]
     two_d = mp[TWO_D] > 0.5
+    sequence = mp[SEQ_MODEL] > 0.5
     sy = mp[SIGMA_Y]
+    # accumulators kept in registers, written back to ``acc`` at records and at the end
+    a_rec, cyc_rec, sum_djm, n_acc = acc[0], acc[1], acc[2], acc[3]
+    max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
     end = RUNNING
     val = 0.0
     for _b in range(n_blocks):
@@ -194,15 +204,18 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
             kos = k_over_s(code, a, gp)
             sl = limit_stress(code, a, gp, sy)
             dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
-            acc[7] += clipped
+            n_clipped += clipped
             if smax[i] > 0.0:
                 end, val = end_check(a, jmax, lr, jel, mp)
                 if end == RUNNING and two_d:
                     end, val = _two_d_check(a, c, mp)
                 if end != RUNNING:
                     break
-            factor, dj = sequence_step(smax[i], smin[i], a, kos, sl, dj, jmax, mp, st)
-            da = cycle_rate(dj, jmax, mp) * factor
+            factor = 1.0
+            if sequence:
+                factor, dj = sequence_step(smax[i], smin[i], a, kos, sl, dj, jmax, mp, st)
+            djm = dj**m if dj > 0.0 else 0.0
+            da = rate_from_power(dj, djm, jmax, mp) * factor
             if two_d:
                 kos_c = k_over_s_surface(code, a, gp)
                 dj_c = point_driving_force(smax[i], smin[i], a, kos_c, sl, mp)[0]
@@ -211,13 +224,24 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
                 grew = True
             a += da
             cyc += 1.0
-            acc[2] += dj**m
-            acc[3] += 1.0
-            acc[4] = max(acc[4], dj)
-            acc[5] = max(acc[5], jmax)
-            acc[6] = max(acc[6], lr)
-            if a - acc[0] >= rec_da and rec_n < rec.shape[0]:
-                rec_n = _record(rec, rec_n, cyc, blk, a, c, m, acc)
+            sum_djm += djm
+            n_acc += 1.0
+            max_dj = max(max_dj, dj)
+            max_jmax = max(max_jmax, jmax)
+            max_lr = max(max_lr, lr)
+            if a - a_rec >= rec_da and rec_n < rec.shape[0]:
+                rec[rec_n, REC_CYCLE] = cyc
+                rec[rec_n, REC_BLOCK] = blk
+                rec[rec_n, REC_A] = a
+                rec[rec_n, REC_C] = c
+                rec[rec_n, REC_DJ] = max_dj
+                rec[rec_n, REC_DJ_EQ] = (sum_djm / n_acc) ** (1.0 / m)
+                rec[rec_n, REC_JMAX] = max_jmax
+                rec[rec_n, REC_LR] = max_lr
+                rec[rec_n, REC_DADN] = (a - a_rec) / (cyc - cyc_rec)
+                rec_n += 1
+                a_rec, cyc_rec = a, cyc
+                sum_djm = n_acc = max_dj = max_jmax = max_lr = 0.0
             if cyc >= max_cycles:
                 end, val = END_MAX_CYCLES, cyc
                 break
@@ -231,6 +255,8 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
     st[ST_C] = c
     st[ST_CYCLES] = cyc
     st[ST_BLOCKS] = blk
+    acc[0], acc[1], acc[2], acc[3] = a_rec, cyc_rec, sum_djm, n_acc
+    acc[4], acc[5], acc[6], acc[7] = max_dj, max_jmax, max_lr, n_clipped
     return end, val, rec_n
 
 
@@ -243,25 +269,6 @@ def _two_d_check(a, c, mp):
     if c >= mp[C_LIMIT] or a / c > mp[ASPECT_MAX]:
         return END_SIZE, c
     return RUNNING, 0.0
-
-
-@jit
-def _record(rec, k, cyc, blk, a, c, m, acc):
-    rec[k, REC_CYCLE] = cyc
-    rec[k, REC_BLOCK] = blk
-    rec[k, REC_A] = a
-    rec[k, REC_C] = c
-    rec[k, REC_DJ] = acc[4]
-    rec[k, REC_DJ_EQ] = (acc[2] / acc[3]) ** (1.0 / m) if acc[3] > 0 else 0.0
-    rec[k, REC_JMAX] = acc[5]
-    rec[k, REC_LR] = acc[6]
-    dn = cyc - acc[1]
-    rec[k, REC_DADN] = (a - acc[0]) / dn if dn > 0 else 0.0
-    acc[0] = a
-    acc[1] = cyc
-    for j in range(2, 7):
-        acc[j] = 0.0
-    return k + 1
 
 
 @jit
@@ -279,8 +286,9 @@ def block_growth(smax, smin, a, code, gp, mp):
     sl = limit_stress(code, a, gp, mp[SIGMA_Y])
     for i in range(n):
         dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
-        g += cycle_rate(dj, jmax, mp)
-        s += dj**m
+        djm = dj**m if dj > 0.0 else 0.0
+        g += rate_from_power(dj, djm, jmax, mp)
+        s += djm
         jmx = max(jmx, jmax)
         lrmx = max(lrmx, lr)
         djmx = max(djmx, dj)
