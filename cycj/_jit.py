@@ -51,7 +51,7 @@ def jit(func=None, **options):
     def wrap(f):
         if JIT_DISABLED:
             return f
-        opts = {"cache": True, "nogil": True}
+        opts = {"cache": True, "nogil": True, "error_model": "numpy"}
         opts.update(options)
         return numba.njit(**opts)(f)
 

@@ -98,11 +98,17 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
 
 
 @jit
-def paris_rate(dj, c, m, threshold):
-    """da/dN = C·ΔJ^m [mm/cycle] above the threshold ΔJ_th, else 0."""
+def paris_rate_from_power(dj, djm, c, threshold):
+    """da/dN = C·ΔJ^m [mm/cycle] given ``djm`` = ΔJ^m, above the threshold ΔJ_th, else 0."""
     if dj <= threshold or dj <= 0.0:
         return 0.0
-    return c * dj**m
+    return c * djm
+
+
+@jit
+def paris_rate(dj, c, m, threshold):
+    """da/dN = C·ΔJ^m [mm/cycle] above the threshold ΔJ_th, else 0."""
+    return paris_rate_from_power(dj, dj**m if dj > 0.0 else 0.0, c, threshold)
 
 
 # ------------------------------------------------------------------ vectorised, checked twins

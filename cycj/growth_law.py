@@ -35,8 +35,10 @@ class GrowthLaw:
         """da/dN [mm/cycle] for ΔJ [kJ/m²] (vectorised; no acceleration term)."""
         import numpy as np
 
-        dj = np.asarray(delta_j, float)
-        return np.where(dj > self.threshold, self.C * np.maximum(dj, 0.0) ** self.m, 0.0)
+        from cycj.growth import paris_rate
+
+        return np.vectorize(paris_rate, otypes=[float])(np.asarray(delta_j, float), self.C,
+                                                        self.m, self.threshold)
 
 
 def from_delta_k(C_k: float, m_k: float, e_prime: float, threshold_k: float = 0.0,

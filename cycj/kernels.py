@@ -22,7 +22,7 @@ import numpy as np
 
 from cycj._jit import jit
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
-from cycj.growth import opening_fraction
+from cycj.growth import opening_fraction, paris_rate_from_power
 from cycj.instability import (
     END_LEAK,
     END_MAX_CYCLES,
@@ -79,33 +79,42 @@ N_REC = 9
 
 
 @jit
-def point_driving_force(smax, smin, a, kos, sl, mp):
-    """ΔJ_eff, J_max, L_r, J_el at S_max [kJ/m²] and the clip flag for one cycle, given the
-    crack-front point's K/S [√mm] and the limit nominal stress S_L [MPa]."""
-    ds = smax - smin
-    if smax <= 0.0 or ds <= 0.0:
+def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
+    """ΔJ_eff, J_max, L_r, J_el at peak [kJ/m²] and the clip flag for one cycle from the
+    crack-front point's K_max, K_min [MPa√mm] (secondary stresses included), the primary
+    L_r at the peak and over the range, and the nominal stress range ``ds`` [MPa] (used only by
+    the small-crack estimate)."""
+    dk = kmax - kmin
+    if kmax <= 0.0 or dk <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
-    x, clipped = opening_fraction(int(mp[CLOSURE]), smax, smin, smax / (sl * mp[FLOW_RATIO]),
+    x, clipped = opening_fraction(int(mp[CLOSURE]), kmax, kmin, lr_max / mp[FLOW_RATIO],
                                   mp[U_CONST], mp[ALPHA_NEWMAN], mp[INCLUDE_COMP])
     u = 1.0 - x
-    dk = ds * kos
     dj_el = dk * dk / mp[E_PRIME]
     jm = int(mp[J_METHOD])
     if jm == 1:
-        dj = reference_stress_delta_j_scalar(dj_el, ds * mp[SIGMA_Y] / sl, mp[E_MOD], mp[K_CYC],
-                                             mp[N_CYC], u)
+        dj = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
+                                             mp[K_CYC], mp[N_CYC], u)
     elif jm == 2:
         dj = small_crack_delta_j_scalar(a, ds, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
     else:
         dj = u * u * dj_el
-    kmax = smax * kos
     j_el_max = kmax * kmax / mp[E_PRIME]
-    lr = smax / sl
     if jm == 0:   # the LEFM comparison: J_max = K_max²/E'
         jmax = j_el_max
     else:
-        jmax = j_peak_scalar(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
-    return dj, jmax, lr, j_el_max, clipped
+        jmax = j_peak_scalar(j_el_max, lr_max, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+    return dj, jmax, lr_max, j_el_max, clipped
+
+
+@jit
+def point_driving_force(smax, smin, a, kos, sl, mp):
+    """:func:`k_driving_force` for nominal stresses S_max, S_min [MPa] at a crack-front point
+    with K/S = ``kos`` [√mm] and limit nominal stress S_L = ``sl`` [MPa]."""
+    if smax <= 0.0:
+        return 0.0, 0.0, 0.0, 0.0, 0
+    return k_driving_force(smax * kos, smin * kos, smax / sl, (smax - smin) / sl, smax - smin,
+                           a, mp)
 
 
 @jit
@@ -124,7 +133,7 @@ def cycle_rate(dj, jmax, mp):
 @jit
 def rate_from_power(dj, djm, jmax, mp):
     """:func:`cycle_rate` given ΔJ^m already computed (the stepper needs it for ΔJ_eq too)."""
-    da = mp[C_LAW] * djm if dj > mp[DJ_TH] and dj > 0.0 else 0.0
+    da = paris_rate_from_power(dj, djm, mp[C_LAW], mp[DJ_TH])
     q = mp[Q_TOUGH]
     if q > 0.0 and da > 0.0:
         ratio = jmax / mp[J_C]
