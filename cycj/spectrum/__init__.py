@@ -13,12 +13,13 @@ Public API::
 from cycj.spectrum.rainflow import CYCLE_COLUMNS, count_cycles, rainflow_cycles
 from cycj.spectrum.reading import read_history, read_history_with_time
 from cycj.spectrum.reversals import block_reversals, reversals
-from cycj.spectrum.sequence import cycles_in_sequence
+from cycj.spectrum.sequence import cycle_indices_in_sequence, cycles_in_sequence
 
 __all__ = [
     "CYCLE_COLUMNS",
     "block_reversals",
     "count_cycles",
+    "cycle_indices_in_sequence",
     "cycles_in_sequence",
     "rainflow_cycles",
     "read_history",

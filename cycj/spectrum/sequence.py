@@ -59,19 +59,39 @@ def cycles_in_sequence(values, gate: float = 0.0,
     .. [2] Wheeler, O. E. (1972), "Spectrum loading and crack growth", *J. Basic Eng.* 94,
        181–186 (why load order matters with a sequence model).
     """
+    x = np.asarray(values, dtype=float)
+    peak_idx, valley_idx = cycle_indices_in_sequence(x, gate, order)
+    return x[peak_idx], x[valley_idx]
+
+
+def cycle_indices_in_sequence(values, gate: float = 0.0,
+                              order: str = "closing") -> tuple[np.ndarray, np.ndarray]:
+    """Sample indices (within one pass) of the peak and the valley of every cycle, in the
+    order of :func:`cycles_in_sequence`.
+
+    Used when several load channels are combined: cycles are identified on the combined
+    signal and each channel's values are taken at the cycle's peak and valley samples.
+
+    Returns
+    -------
+    peak_index, valley_index : numpy.ndarray of int64, shape (k,), each in [0, n)
+    """
     if order not in ORDERS:
         raise ValueError(f"unknown cycle order {order!r}; known: {', '.join(ORDERS)}")
+    n = np.asarray(values).shape[0]
     v, idx = block_reversals(values, gate)
     if v.shape[0] < 3:
-        return np.empty(0), np.empty(0)
+        return np.empty(0, dtype=np.int64), np.empty(0, dtype=np.int64)
     if order == "closing":
         a, b, _ = rainflow_pairs(v, closed=True)
-        va, vb = v[a], v[b]
-        return np.maximum(va, vb), np.minimum(va, vb)
+        a_is_peak = v[a] >= v[b]
+        peak = np.where(a_is_peak, idx[a], idx[b]) % n
+        valley = np.where(a_is_peak, idx[b], idx[a]) % n
+        return peak.astype(np.int64), valley.astype(np.int64)
     # reversal order: drop the closing duplicate, roll back into time order, pair valley → peak
-    ring, ring_idx = v[:-1], idx[:-1]
-    n = np.asarray(values).shape[0]
-    ring = np.roll(ring, -int(np.argmin(ring_idx % n)))
+    ring, ring_idx = v[:-1], idx[:-1] % n
+    shift = -int(np.argmin(ring_idx))
+    ring, ring_idx = np.roll(ring, shift), np.roll(ring_idx, shift)
     if ring[0] > ring[1]:  # the first reversal in time is a peak: its valley came before it
-        ring = np.roll(ring, 1)
-    return ring[1::2].copy(), ring[0::2].copy()
+        ring, ring_idx = np.roll(ring, 1), np.roll(ring_idx, 1)
+    return ring_idx[1::2].astype(np.int64), ring_idx[0::2].astype(np.int64)
