@@ -51,6 +51,8 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     smax = rng.uniform(2e3, 6e3, n_block) * per_force
     smin = smax * rng.uniform(-0.3, 0.5, n_block)
     mp = model_array(case)
+    lmax, lmin = smax[:, None].copy(), smin[:, None].copy()
+    ct = np.zeros((1, 2))
     mp[M.J_C] = 1e30
     geo = case.geometry
     rec = np.zeros((10, K.N_REC))
@@ -61,7 +63,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
         st[M.ST_A] = 15.0
         return st
 
-    K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp, 1e9, rec, 0,
+    K.run_cycles(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9, rec, 0,
                  acc)  # compile / load from cache
     acc[:] = 0
     t_py = t_c = float("inf")
@@ -74,7 +76,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
         for _ in range(3):  # alternate, keep the best of three of each (noisy shared machine)
             st = state()
             t = time.perf_counter()
-            K.run_cycles(smax, smin, st, blocks, 1e18, geo.code, geo.params.copy(), mp, 1e9,
+            K.run_cycles(lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9,
                          rec, 0, acc)
             t_py = min(t_py, time.perf_counter() - t)
             t = time.perf_counter()
@@ -92,13 +94,13 @@ def stepper_vs_c(n_block=200_000, blocks=10):
         mp_s = mp.copy()
         mp_s[M.SEQ_MODEL], mp_s[M.SEQ_EXPONENT], mp_s[M.SEQ_SHUT_OFF] = code, 1.3, 3.0
         mp_s[M.ZONE_BETA] = 6.0
-        K.run_cycles(smax, smin, state(), 1, 1e18, geo.code, geo.params.copy(), mp_s, 1e9, rec,
+        K.run_cycles(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp_s, 1e9, rec,
                      0, acc)
         t_s = float("inf")
         for _ in range(3):
             t = time.perf_counter()
-            K.run_cycles(smax, smin, state(), blocks, 1e18, geo.code, geo.params.copy(), mp_s,
-                         1e9, rec, 0, acc)
+            K.run_cycles(lmax, lmin, state(), blocks, 1e18, geo.code, geo.params.copy(), ct,
+                         mp_s, 1e9, rec, 0, acc)
             t_s = min(t_s, time.perf_counter() - t)
         print(f"with {name}: {n / t_s / 1e6:.2f} M cycles/s; throughput ratio to no sequence "
               f"model = {t_py / t_s:.2f} (target ≥ 0.5)")

@@ -69,25 +69,26 @@ def end_check(a, jmax, lr, j_el_max, mp):
 
 
 
-def tearing_margin(geometry, s_peak, a, c1, c2, mp, n_points=400):
-    """max over Δa of [J_R(Δa) − J(a + Δa)] at the peak nominal stress [kJ/m²].
+def tearing_margin(geometry, loads, a, c1, c2, mp, n_points=400):
+    """max over Δa of [J_R(Δa) − J(a + Δa)] under the history's peak load [kJ/m²].
 
     Positive: a stable equilibrium exists on the J–R curve J_R = C1·(Δa/1 mm)^C2 (tearing
-    arrests); negative: the crack of size ``a`` [mm] tears unstably under ``s_peak`` [MPa].
-    ``mp`` is the model-parameter array (J_max by the reference stress method).
+    arrests); negative: the crack of size ``a`` [mm] tears unstably.  ``loads`` is the block
+    (:class:`cycj.life.BlockLoads`), ``mp`` the model-parameter array (J_max by the reference
+    stress method).
     """
     from cycj.kernels import tearing_margin_kernel
 
     hi = geometry.size_limits[1]
-    return float(tearing_margin_kernel(s_peak, a, hi, c1, c2, geometry.code, geometry.params,
-                                       mp, n_points))
+    return float(tearing_margin_kernel(loads.lmax, loads.i_peak, a, hi, c1, c2, geometry.code,
+                                       geometry.params, loads.ct, mp, n_points))
 
 
-def tearing_instability_size(geometry, s_peak, a_from, a_to, c1, c2, mp, tol=1e-4):
-    """Smallest crack size in [a_from, a_to] [mm] that is unstable on the J–R curve at
-    ``s_peak`` [MPa] (bisection; ``inf`` if the whole range is stable)."""
+def tearing_instability_size(geometry, loads, a_from, a_to, c1, c2, mp, tol=1e-4):
+    """Smallest crack size in [a_from, a_to] [mm] that is unstable on the J–R curve under the
+    history's peak load (bisection; ``inf`` if the whole range is stable)."""
     def margin(a):
-        return tearing_margin(geometry, s_peak, a, c1, c2, mp)
+        return tearing_margin(geometry, loads, a, c1, c2, mp)
 
     if margin(a_to) >= 0:
         return math.inf

@@ -21,6 +21,7 @@ import math
 import numpy as np
 
 from cycj._jit import jit
+from cycj.channels import channel_k
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
 from cycj.growth import opening_fraction, paris_rate_from_power
 from cycj.instability import (
@@ -41,6 +42,7 @@ from cycj.model_params import (
     ASPECT_MAX,
     C_LAW,
     C_LIMIT,
+    CH_MODE,
     CLOSURE,
     DJ_TH,
     E_MOD,
@@ -108,20 +110,26 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
 
 
 @jit
-def point_driving_force(smax, smin, a, kos, sl, mp):
-    """:func:`k_driving_force` for nominal stresses S_max, S_min [MPa] at a crack-front point
-    with K/S = ``kos`` [√mm] and limit nominal stress S_L = ``sl`` [MPa]."""
-    if smax <= 0.0:
-        return 0.0, 0.0, 0.0, 0.0, 0
-    return k_driving_force(smax * kos, smin * kos, smax / sl, (smax - smin) / sl, smax - smin,
-                           a, mp)
+def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
+    """K_max, K_min [MPa√mm], primary L_r at the peak and over the range, and the nominal
+    stress range [MPa] of cycle ``i`` at crack size ``a`` [mm] (deepest point).
+
+    One channel (``lmax[:, 0]`` nominal stresses) with the shape's own K solution, or several
+    channels (and a residual stress) from the tables ``ct`` (:mod:`cycj.channels`)."""
+    if mp[CH_MODE] > 0.5:
+        return channel_k(lmax, lmin, i, a, ct, mp)
+    kos = k_over_s(code, a, gp)
+    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
+    s1 = lmax[i, 0]
+    s0 = lmin[i, 0]
+    return s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0
 
 
 @jit
-def cycle_driving_force(smax, smin, a, code, gp, mp):
-    """:func:`point_driving_force` at the deepest point of the crack of size ``a`` [mm]."""
-    return point_driving_force(smax, smin, a, k_over_s(code, a, gp),
-                               limit_stress(code, a, gp, mp[SIGMA_Y]), mp)
+def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
+    """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm]."""
+    kmax, kmin, lr_max, lr_range, ds = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+    return k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
 
 
 @jit
@@ -143,28 +151,29 @@ def rate_from_power(dj, djm, jmax, mp):
 
 
 @jit
-def sequence_step(smax, smin, a, kos, sl, dj, jmax, mp, st):
+def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
     """Apply the sequence model to one cycle; returns (rate factor, ΔJ_eff) and updates the
     overload state in ``st`` (a_OL, zone size, K_OL)."""
-    model = int(mp[SEQ_MODEL])
-    if model == 0 or smax <= 0.0:
+    if kmax <= 0.0:
         return 1.0, dj
     k_eq = math.sqrt(mp[E_PRIME] * jmax)
     r = plastic_zone_size(k_eq, mp[SIGMA_Y], mp[ZONE_BETA])
     factor = 1.0
-    if model == 1:
+    if int(mp[SEQ_MODEL]) == 1:
         factor = wheeler_factor(r, a, st[ST_A_OL], st[ST_Z_OL], mp[SEQ_EXPONENT])
+    elif st[ST_K_OL] >= mp[SEQ_SHUT_OFF] * k_eq and a < st[ST_A_OL] + st[ST_Z_OL]:
+        factor = 0.0
     else:
-        if st[ST_K_OL] >= mp[SEQ_SHUT_OFF] * k_eq and a < st[ST_A_OL] + st[ST_Z_OL]:
-            factor = 0.0
-        else:
-            k_red = willenborg_reduction(st[ST_K_OL], st[ST_A_OL], st[ST_Z_OL], a, k_eq)
-            if k_red > 0.0:
-                s_red = k_red / kos
-                smax_e = smax - s_red
-                smin_e = max(smin - s_red, 0.0)
-                dj = point_driving_force(smax_e, smin_e, a, kos, sl, mp)[0] if smax_e > 0.0 \
-                    else 0.0
+        k_red = willenborg_reduction(st[ST_K_OL], st[ST_A_OL], st[ST_Z_OL], a, k_eq)
+        if k_red > 0.0:
+            kmax_e = kmax - k_red
+            kmin_e = max(kmin - k_red, 0.0)
+            dj = 0.0
+            if kmax_e > kmin_e:
+                dk = kmax - kmin
+                scale = (kmax_e - kmin_e) / dk
+                dj = k_driving_force(kmax_e, kmin_e, lr_max * kmax_e / kmax, lr_range * scale,
+                                     ds * scale, a, mp)[0]
     if a + r >= st[ST_A_OL] + st[ST_Z_OL]:
         st[ST_A_OL] = a
         st[ST_Z_OL] = r
@@ -173,15 +182,18 @@ def sequence_step(smax, smin, a, kos, sl, dj, jmax, mp, st):
 
 
 @jit
-def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, rec_n, acc):
+def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n,
+               acc):
     """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
 
     Parameters
     ----------
-    smax, smin : float64 arrays, the block's cycles in the order they act [MPa]
+    lmax, lmin : float64 arrays (cycles × channels), the block's cycles in the order they act
+        (nominal stress [MPa] for one channel; channel values with load channels)
     st : crack state (a, c, cycles, blocks, overload a_OL, zone, K_OL), updated in place
     max_cycles : stop with END_MAX_CYCLES when the total reaches it
     gp : geometry parameters (a private copy: its half-length slot follows c)
+    ct : K tables of the load channels (:mod:`cycj.channels`); unused with one channel
     rec_da : record a row each time the crack has grown by this much [mm]
     rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
     acc : float64 work array (8) carried between calls: [a at last record, cycle at last record,
@@ -191,7 +203,7 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
     -------
     end code, end value, rows used
     """
-    n = smax.shape[0]
+    n = lmax.shape[0]
     a = st[ST_A]
     c = st[ST_C]
     cyc = st[ST_CYCLES]
@@ -199,7 +211,6 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
     m = mp[M_LAW]
     two_d = mp[TWO_D] > 0.5
     sequence = mp[SEQ_MODEL] > 0.5
-    sy = mp[SIGMA_Y]
     # accumulators kept in registers, written back to ``acc`` at records and at the end
     a_rec, cyc_rec, sum_djm, n_acc = acc[0], acc[1], acc[2], acc[3]
     max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
@@ -210,11 +221,11 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
         for i in range(n):
             if two_d:
                 gp[5] = c
-            kos = k_over_s(code, a, gp)
-            sl = limit_stress(code, a, gp, sy)
-            dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
+            kmax, kmin, lr_max, lr_range, ds = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+            dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
+                                                         mp)
             n_clipped += clipped
-            if smax[i] > 0.0:
+            if kmax > 0.0:
                 end, val = end_check(a, jmax, lr, jel, mp)
                 if end == RUNNING and two_d:
                     end, val = _two_d_check(a, c, mp)
@@ -222,12 +233,13 @@ def run_cycles(smax, smin, st, n_blocks, max_cycles, code, gp, mp, rec_da, rec, 
                     break
             factor = 1.0
             if sequence:
-                factor, dj = sequence_step(smax[i], smin[i], a, kos, sl, dj, jmax, mp, st)
+                factor, dj = sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st)
             djm = dj**m if dj > 0.0 else 0.0
             da = rate_from_power(dj, djm, jmax, mp) * factor
             if two_d:
                 kos_c = k_over_s_surface(code, a, gp)
-                dj_c = point_driving_force(smax[i], smin[i], a, kos_c, sl, mp)[0]
+                dj_c = k_driving_force(lmax[i, 0] * kos_c, lmin[i, 0] * kos_c, lr_max, lr_range,
+                                       ds, a, mp)[0]
                 c += cycle_rate(dj_c, jmax, mp) * factor
             if da > 0.0:
                 grew = True
@@ -281,20 +293,18 @@ def _two_d_check(a, c, mp):
 
 
 @jit
-def block_growth(smax, smin, a, code, gp, mp):
+def block_growth(lmax, lmin, a, code, gp, ct, mp):
     """Growth over one block with the crack frozen at ``a`` [mm], and the block's ΔJ_eq
     (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff."""
-    n = smax.shape[0]
+    n = lmax.shape[0]
     g = 0.0
     s = 0.0
     jmx = 0.0
     lrmx = 0.0
     djmx = 0.0
     m = mp[M_LAW]
-    kos = k_over_s(code, a, gp)
-    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
     for i in range(n):
-        dj, jmax, lr, jel, clipped = point_driving_force(smax[i], smin[i], a, kos, sl, mp)
+        dj, jmax, lr, jel, clipped = cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp)
         djm = dj**m if dj > 0.0 else 0.0
         g += rate_from_power(dj, djm, jmax, mp)
         s += djm
@@ -305,21 +315,29 @@ def block_growth(smax, smin, a, code, gp, mp):
 
 
 @jit
-def block_growth_table(smax, smin, a_grid, code, gp, mp, out):
+def block_growth_table(lmax, lmin, a_grid, code, gp, ct, mp, out):
     """Fill ``out[k, 0:5]`` with :func:`block_growth` at every crack size of ``a_grid``."""
     for k in range(a_grid.shape[0]):
-        res = block_growth(smax, smin, a_grid[k], code, gp, mp)
+        res = block_growth(lmax, lmin, a_grid[k], code, gp, ct, mp)
         for j in range(5):
             out[k, j] = res[j]
 
 
 @jit
-def first_end(smax_peak, a_grid, code, gp, mp):
+def peak_state(lmax, i_peak, a, code, gp, ct, mp):
+    """ΔJ, J_max, L_r, J_el at peak and clip flag under the block's peak cycle ``i_peak``
+    loaded from zero (the history's peak load) at crack size ``a``."""
+    return cycle_driving_force(lmax, 0.0 * lmax, i_peak, a, code, gp, ct, mp)
+
+
+@jit
+def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
     """Index of the first crack size in ``a_grid`` at which an end criterion trips under the
-    peak nominal stress ``smax_peak`` (−1 if none), and its end code."""
+    history's peak load (−1 if none), and its end code."""
+    zeros = 0.0 * lmax
     for k in range(a_grid.shape[0]):
-        dj, jmax, lr, jel, clipped = cycle_driving_force(smax_peak, 0.0, a_grid[k], code, gp,
-                                                         mp)
+        dj, jmax, lr, jel, clipped = cycle_driving_force(lmax, zeros, i_peak, a_grid[k], code,
+                                                         gp, ct, mp)
         end, val = end_check(a_grid[k], jmax, lr, jel, mp)
         if end != RUNNING:
             return k, end
@@ -327,17 +345,19 @@ def first_end(smax_peak, a_grid, code, gp, mp):
 
 
 @jit
-def tearing_margin_kernel(s_peak, a, a_hi, c1, c2, code, gp, mp, n_points):
-    """max over Δa ∈ [1e-4 mm, a_hi − a] (geometric grid) of J_R(Δa) − J_max(a + Δa) at the
-    peak nominal stress [kJ/m²]; J_R = C1·(Δa/1 mm)^C2.  Negative: unstable tearing."""
+def tearing_margin_kernel(lmax, i_peak, a, a_hi, c1, c2, code, gp, ct, mp, n_points):
+    """max over Δa ∈ [1e-4 mm, a_hi − a] (geometric grid) of J_R(Δa) − J_max(a + Δa) under the
+    history's peak load [kJ/m²]; J_R = C1·(Δa/1 mm)^C2.  Negative: unstable tearing."""
     span = a_hi - a
     if span <= 0.0:
         return -np.inf
+    zeros = 0.0 * lmax
     best = -np.inf
     lo = np.log(1e-4)
     step = (np.log(span) - lo) / (n_points - 1) if span > 1e-4 else 0.0
     for k in range(n_points):
         da = np.exp(lo + step * k) if step > 0.0 else span
-        jmax = cycle_driving_force(s_peak, 0.0, min(a + da, a_hi), code, gp, mp)[1]
+        jmax = cycle_driving_force(lmax, zeros, i_peak, min(a + da, a_hi), code, gp, ct,
+                                   mp)[1]
         best = max(best, c1 * da**c2 - jmax)
     return best

@@ -40,21 +40,38 @@ class LifeInterrupted(KeyboardInterrupt):
 
 @dataclass
 class BlockLoads:
-    """One block of the repeated history as nominal-stress cycles [MPa], in stepper order."""
+    """One block of the repeated history as cycles in stepper order.
 
-    smax: np.ndarray
-    smin: np.ndarray
+    ``lmax``, ``lmin``: arrays (cycles × channels): nominal stresses [MPa] for one channel, or
+    the channels' values at each cycle's peak and valley; ``ct``: the channels' K tables (a
+    dummy for one channel); ``i_peak``: the cycle carrying the history's peak load.
+    """
+
+    lmax: np.ndarray
+    lmin: np.ndarray
     order: str
     hours_per_block: float | None = None
     samples: int = 0
+    ct: np.ndarray = field(default_factory=lambda: np.zeros((1, 2)))
+    i_peak: int = 0
+    channel_slots: dict = field(default_factory=dict)
 
     @property
     def n(self) -> int:
-        return int(self.smax.size)
+        return int(self.lmax.shape[0])
+
+    @property
+    def smax(self) -> np.ndarray:
+        return self.lmax[:, 0]
+
+    @property
+    def smin(self) -> np.ndarray:
+        return self.lmin[:, 0]
 
     @property
     def peak(self) -> float:
-        return float(self.smax.max())
+        """Peak nominal stress [MPa] (first channel's value at the peak cycle)."""
+        return float(self.lmax[self.i_peak, 0])
 
 
 @dataclass
@@ -104,8 +121,9 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
     if not np.any(smax > 0):
         raise CycjInputError("no cycle reaches a tensile load: the crack cannot grow",
                              source=str(case.path), key="loading")
-    return BlockLoads(np.ascontiguousarray(smax, float), np.ascontiguousarray(smin, float),
-                      order, ld.duration_h, samples)
+    return BlockLoads(np.ascontiguousarray(smax[:, None], float),
+                      np.ascontiguousarray(smin[:, None], float), order, ld.duration_h,
+                      samples, i_peak=int(np.argmax(smax)))
 
 
 def block_info(case: Case) -> tuple[int, float | None]:
@@ -127,7 +145,7 @@ def size_limit(case: Case) -> tuple[float, str]:
 
 
 def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 1.0,
-                s_peak: float | None = None) -> np.ndarray:
+                loads: BlockLoads | None = None) -> np.ndarray:
     """Fill the compiled kernels' model-parameter array from a case (see cycj.model_params)."""
     mat, geo, law, ld = case.material, case.geometry, case.growth, case.loading
     mp = np.zeros(M.N_MP)
@@ -176,12 +194,20 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
         mp[M.C_LIMIT] = 0.25 * geo.params[GP.WIDTH]
         lim = case.run.crack_length_limit
         mp[M.A_LIMIT] = lim if lim is not None and lim < mp[M.LEAK_SIZE] else math.inf
-    if "tearing" in crit and s_peak is not None:
+    if loads is not None and loads.ct.shape[0] > 1:
+        _channel_params(case, loads, mp)
+    if "tearing" in crit and loads is not None:
         rc = mat.resistance_curve
         a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
-        mp[M.A_TEAR] = tearing_instability_size(geo, s_peak, a_from, mp[M.A_LIMIT],
+        mp[M.A_TEAR] = tearing_instability_size(geo, loads, a_from, mp[M.A_LIMIT],
                                                 rc.C1 * toughness_scale, rc.C2, mp)
     return mp
+
+
+def _channel_params(case, loads, mp):
+    """Channel slots of the model array (filled in with load channels)."""
+    for key, val in loads.channel_slots.items():
+        mp[key] = val
 
 
 def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: float = 1.0,
@@ -190,12 +216,12 @@ def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: 
     and the criterion's name."""
     loads = loads or block_loads(case, load_scale)
     if mp is None:
-        mp = model_array(case, toughness_scale, s_peak=loads.peak)
+        mp = model_array(case, toughness_scale, loads=loads)
     geo = case.geometry
     lo = geo.size_limits[0] if geo.size_limits[0] > 0 else min(geo.crack_length, 1e-3)
     top = min(mp[M.A_LIMIT], mp[M.LEAK_SIZE])
     grid = np.linspace(lo, top, 2001)
-    k, code = K.first_end(loads.peak, grid, geo.code, geo.params, mp)
+    k, code = K.first_end(loads.lmax, loads.i_peak, grid, geo.code, geo.params, loads.ct, mp)
     if k < 0:
         return float(top), "leak" if top == mp[M.LEAK_SIZE] else "size-limit"
     if k == 0:
@@ -203,7 +229,8 @@ def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: 
     a_lo, a_hi = grid[k - 1], grid[k]
     for _ in range(60):
         mid = 0.5 * (a_lo + a_hi)
-        kk, c = K.first_end(loads.peak, np.array([mid]), geo.code, geo.params, mp)
+        kk, c = K.first_end(loads.lmax, loads.i_peak, np.array([mid]), geo.code, geo.params,
+                            loads.ct, mp)
         if kk == 0:
             a_hi, code = mid, c
         else:
@@ -229,8 +256,8 @@ def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, 
         return "cycle", "a sequence model needs the cycle stepper"
     if requested != "auto":
         return requested, "requested"
-    g0 = K.block_growth(loads.smax, loads.smin, a0, case.geometry.code,
-                        case.geometry.params, mp)[0]
+    g0 = K.block_growth(loads.lmax, loads.lmin, a0, case.geometry.code,
+                        case.geometry.params, loads.ct, mp)[0]
     if g0 <= 0:
         return "cycle", "no growth in the first block"
     if g0 < 0.002 * (a_crit - a0) and g0 < 1e-3 * a0:
@@ -250,7 +277,8 @@ def _block_phase(case, loads, mp, a0, a_crit, max_cycles):
     geo = case.geometry
     grid = _grid(a0, a_crit, loads.n)
     table = np.zeros((grid.size, 5))
-    K.block_growth_table(loads.smax, loads.smin, grid, geo.code, geo.params, mp, table)
+    K.block_growth_table(loads.lmax, loads.lmin, grid, geo.code, geo.params, loads.ct, mp,
+                         table)
     b = blocks_to_grow(grid, table[:, 0])
     finite = np.isfinite(b)
     b_end = b[finite][-1] if finite.any() else 0.0
@@ -275,8 +303,8 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     rows = []
     try:
         while True:
-            end, val, rec_n = K.run_cycles(loads.smax, loads.smin, state, chunk, max_cycles,
-                                           geo.code, gp, mp, rec_da, rec, rec_n, acc)
+            end, val, rec_n = K.run_cycles(loads.lmax, loads.lmin, state, chunk, max_cycles,
+                                           geo.code, gp, loads.ct, mp, rec_da, rec, rec_n, acc)
             if rec_n > rec.shape[0] - 5:  # flush and keep recording
                 rows.extend(map(tuple, rec[:rec_n]))
                 rec_n = 0
@@ -317,7 +345,7 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
 
         case = replace(case, run=replace(case.run, method=method))
     loads = block_loads(case, load_scale)
-    mp = model_array(case, s_peak=loads.peak)
+    mp = model_array(case, loads=loads)
     geo = case.geometry
     a0 = geo.crack_length if a_start_mm is None else float(a_start_mm)
     geo.check_crack(a0, "initial crack")
@@ -380,15 +408,15 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
 
 def _peak_row(case, loads, mp, a):
     """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) of the block at crack size a, frozen."""
-    g, djeq, jmx, lrmx, djmax = K.block_growth(loads.smax, loads.smin, a, case.geometry.code,
-                                               case.geometry.params, mp)
+    g, djeq, jmx, lrmx, djmax = K.block_growth(loads.lmax, loads.lmin, a, case.geometry.code,
+                                               case.geometry.params, loads.ct, mp)
     return djmax, djeq, jmx, lrmx, g / loads.n
 
 
 def _end_values(case, loads, mp, reason, val, a_end, cycles):
     geo = case.geometry
-    dj, jmax, lr, jel, _ = K.cycle_driving_force(loads.peak, 0.0, a_end, geo.code, geo.params,
-                                                 mp)
+    dj, jmax, lr, jel, _ = K.peak_state(loads.lmax, loads.i_peak, a_end, geo.code, geo.params,
+                                        loads.ct, mp)
     out = {"a_mm": float(a_end), "cycles": float(cycles),
            "Jmax_at_peak_kJm2": float(jmax), "Lr_at_peak": float(lr)}
     if reason == "toughness":
@@ -417,15 +445,15 @@ def _input_warnings(case, loads, mp, a0, a_crit):
     lo, hi = geo.size_limits
     if hi < math.inf and a0 > lo + 0.95 * (hi - lo):
         w.append(f"initial crack {a0:g} mm is near the upper end of the K solution's range")
-    dj, jmax, lr, jel, _ = K.cycle_driving_force(loads.peak, 0.0, a0, geo.code, geo.params, mp)
+    dj, jmax, lr, jel, _ = K.peak_state(loads.lmax, loads.i_peak, a0, geo.code, geo.params,
+                                        loads.ct, mp)
     if lr > 0.8 * mat.lr_max:
         w.append(f"L_r = {lr:.3g} at the first peak: close to plastic collapse "
                  f"(L_r,max = {mat.lr_max:.3g})")
     if a_crit <= a0:
         w.append("the initial crack is already critical under the history's peak load")
     if case.analysis.j_method == "reference-stress" and jel > 0:
-        dj_el = (loads.peak * geo.k_over_s(a0)) ** 2 / mp[M.E_PRIME]
-        if jmax > 3 * dj_el:
+        if jmax > 3 * jel:
             w.append("the plastic part of J at peak load is large (J_max > 3·J_el): check "
                      "the cyclic and monotonic curves")
     if mat.monotonic_curve is None:
