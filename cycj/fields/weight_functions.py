@@ -194,7 +194,7 @@ def _gauss(n_points):
     return 0.5 * (s + 1.0), 0.5 * w
 
 
-def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64):
+def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64, breakpoints=()):
     """K [MPa√mm] of a stress profile by the Glinka–Shen weight function, for many a at once.
 
     Parameters
@@ -208,6 +208,9 @@ def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64):
     point : {"deepest", "surface"}
     n_points : int
         Gauss–Legendre points in s (exact for polynomial profiles of degree ≤ n_points − 2).
+    breakpoints : sequence of float
+        Depths x [mm] where σ has a kink (table points); the s-range is split there and each
+        piece gets ``n_points`` points, so piecewise-polynomial profiles integrate exactly.
 
     Returns
     -------
@@ -228,7 +231,9 @@ def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64):
     a = _positive("a", a)
     m = np.broadcast_to(np.asarray(m, float), a.shape + (3,))
     s, w = _gauss(int(n_points))
-    poly = (1.0 + m[..., 0, None] * s + m[..., 1, None] * s**2 + m[..., 2, None] * s**3)
+    s, w = _split(a, np.asarray(breakpoints, float), s, w, point)
+    m = m[..., None, :]
+    poly = (1.0 + m[..., 0] * s + m[..., 1] * s**2 + m[..., 2] * s**3)
     if point == DEEPEST:
         x = a[..., None] * (1.0 - s * s)
         lead = 2.0 * np.sqrt(2.0 * a / math.pi)
@@ -237,6 +242,20 @@ def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64):
         lead = 4.0 * np.sqrt(a / math.pi)
     sig = np.broadcast_to(np.asarray(stress(x), float), x.shape)
     return lead * np.sum(sig * poly * w, axis=-1)
+
+
+def _split(a, breakpoints, s, w, point):
+    """Gauss nodes and weights in s, shape ``a.shape + (n,)``, split at the kinks of σ."""
+    if breakpoints.size == 0:
+        shape = a.shape + s.shape
+        return np.broadcast_to(s, shape), np.broadcast_to(w, shape)
+    r = np.clip(breakpoints / a[..., None], 0.0, 1.0)
+    sk = np.sqrt(1.0 - r) if point == DEEPEST else np.sqrt(r)
+    ends = np.broadcast_to([0.0, 1.0], a.shape + (2,))
+    edges = np.sort(np.concatenate([ends, sk], axis=-1), axis=-1)
+    lo, width = edges[..., :-1, None], np.diff(edges, axis=-1)[..., None]
+    nodes = (lo + width * s).reshape(a.shape + (-1,))
+    return nodes, (width * w).reshape(a.shape + (-1,))
 
 
 def glinka_shen_influence(m, order=3, point=DEEPEST):
@@ -386,13 +405,15 @@ def surface_crack_references(a, c, thickness, width=0.0, point=DEEPEST):
 
 # --------------------------------------------------------------------------- geometry wrappers
 def _stress_of_x(stress, depth):
+    """σ(x [mm]) and the depths of its kinks [mm] (table points)."""
     if isinstance(stress, StressProfile):
         if depth is None:
             raise ValidityRangeError("a StressProfile in x/t needs a section depth")
-        return stress.along(depth)
+        kinks = np.asarray(stress.x_over_t, float) * depth if stress.kind == "table" else ()
+        return stress.along(depth), kinks
     if not callable(stress):
         raise TypeError("stress must be a StressProfile or a callable σ(x [mm]) → MPa")
-    return stress
+    return stress, ()
 
 
 def edge_crack_plate_k(a, width, stress, n_points=64):
@@ -415,7 +436,8 @@ def edge_crack_plate_k(a, width, stress, n_points=64):
     """
     y0, y1 = edge_crack_plate_references(a, width)
     m = glinka_shen_coefficients(y0, y1, DEEPEST)
-    return glinka_shen_k(a, _stress_of_x(stress, float(width)), m, DEEPEST, n_points)
+    fn, kinks = _stress_of_x(stress, float(width))
+    return glinka_shen_k(a, fn, m, DEEPEST, n_points, kinks)
 
 
 def edge_crack_semi_infinite_k(a, stress, n_points=64):
@@ -440,7 +462,8 @@ def edge_crack_semi_infinite_k(a, stress, n_points=64):
     """
     a = _positive("a", a)
     m = glinka_shen_coefficients(FREE_SURFACE, HALF_PLANE_LINEAR, DEEPEST)
-    return glinka_shen_k(a, _stress_of_x(stress, None), m, DEEPEST, n_points)
+    fn, kinks = _stress_of_x(stress, None)
+    return glinka_shen_k(a, fn, m, DEEPEST, n_points, kinks)
 
 
 def surface_crack_k(a, c, thickness, stress, width=0.0, point=DEEPEST, n_points=64):
@@ -466,7 +489,8 @@ def surface_crack_k(a, c, thickness, stress, width=0.0, point=DEEPEST, n_points=
     y0, y1, _ = surface_crack_references(a, c, thickness, width, point)
     m = glinka_shen_coefficients(y0, y1, point)
     a = np.broadcast_to(np.asarray(a, float), y0.shape)
-    return glinka_shen_k(a, _stress_of_x(stress, float(thickness)), m, point, n_points)
+    fn, kinks = _stress_of_x(stress, float(thickness))
+    return glinka_shen_k(a, fn, m, point, n_points, kinks)
 
 
 def surface_crack_influence_coefficients(a, c, thickness, width=0.0, point=DEEPEST, order=3):
