@@ -79,6 +79,7 @@ class Case:
     inspection: dict | None = None
     raw: dict = field(default_factory=dict, repr=False)
     toughness_source: str = "J_c"
+    fields: object | None = None   # cycj.fields.inputs.FieldSpec (stress fields, channels)
 
     @property
     def sha256(self) -> str | None:
@@ -174,8 +175,34 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
         if crit == "fad" and material.J_c is None:
             raise CycjInputError("criterion 'fad' needs a toughness (J_c or K_c)",
                                  source=source, key="run.criteria")
+    fields = _fields(raw, source, base or Path("."), geometry, loading)
     return Case(title, material, geometry, growth, loading, analysis, run, path, inspection,
-                raw, jc_note)
+                raw, jc_note, fields)
+
+
+#: shapes whose stress-field (weight-function) solutions are wired into the life engine
+FIELD_SHAPES = ("edge-crack-plate",)
+
+
+def _fields(raw, source, base, geometry, loading):
+    from cycj.fields.inputs import read_fields
+
+    spec = read_fields(raw.get("geometry", {}), raw.get("loading", {}).get("channels"),
+                       source, base)
+    if spec is None:
+        return None
+    if geometry.shape.name not in FIELD_SHAPES:
+        raise CycjInputError("stress profiles, residual stress and load channels are "
+                             f"available for {', '.join(FIELD_SHAPES)}", source=source,
+                             key="geometry.shape", found=geometry.shape.name)
+    if not spec.channels and loading.quantity != "stress":
+        raise CycjInputError("with stress fields the loads are stresses (MPa)",
+                             source=source, key="loading.quantity",
+                             expected="'stress'", found=loading.quantity)
+    if spec.channels and loading.history is None:
+        raise CycjInputError("load channels read their columns from loading.history",
+                             source=source, key="loading.history")
+    return spec
 
 
 def _geometry(t: Table, base: Path) -> Geometry:
@@ -185,6 +212,7 @@ def _geometry(t: Table, base: Path) -> Geometry:
         v = t.quantity(k, "length", positive=True)
         if v is not None:
             kw[k] = v
+    t.known |= {"stress_profile", "residual_stress"}   # read by cycj.fields.inputs
     br = t.number("bending_ratio")
     if br is not None:
         kw["bending_ratio"] = br
@@ -389,6 +417,7 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
             raise t.error("history", "history file not found", found=str(history))
     closure = _closure(t)
     comp = t.choice("compressive_part", ("ignore", "include"), default="ignore")
+    t.known.add("channels")   # read by cycj.fields.inputs
     seq_raw = t.get("sequence", "none")
     seq_opts: dict = {}
     if isinstance(seq_raw, dict):

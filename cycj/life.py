@@ -99,6 +99,11 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
                  "pressure": case.geometry.nominal_stress_per_pressure}.get(
         ld.quantity, lambda: 1.0)()
     order = "closing" if ld.sequence == "none" else "reversal"
+    if case.fields is not None:
+        from cycj.channels import channel_block
+
+        lmax, lmin, ct, i_peak, slots, samples, _ = channel_block(case, load_scale, order)
+        return BlockLoads(lmax, lmin, order, ld.duration_h, samples, ct, i_peak, slots)
     if ld.constant is not None:
         smax = np.array([ld.constant[0] * per_force])
         smin = np.array([ld.constant[1] * per_force])

@@ -1,0 +1,82 @@
+"""Stress fields in the life engine: weight-function K of a profile, several load channels,
+residual stress (issue: real stress fields)."""
+
+import numpy as np
+import pytest
+
+from cycj.case import case_from_dict
+from cycj.errors import CycjInputError
+from cycj.life import predict_life
+from tests.helpers import case_dict
+
+GEO = {"shape": "edge-crack-plate", "width": "40 mm", "thickness": "10 mm",
+       "crack_length": "2 mm"}
+RUN = {"criteria": ["size-limit"], "crack_length_limit": "20 mm"}
+
+
+def _case(tmp_path=None, geometry=None, loading=None, analysis=None, material=None):
+    d = case_dict(geometry={**GEO, **(geometry or {})}, run=RUN,
+                  loading=loading or {"constant": {"max": "120 MPa", "min": "12 MPa"}},
+                  analysis=analysis or {"j_method": "elastic"})
+    if material:
+        d["material"].update(material)
+    if "history" in d["loading"]:
+        d["loading"].pop("constant", None)
+    return case_from_dict(d, base=tmp_path)
+
+
+def test_uniform_profile_reproduces_shape_solution():
+    # Glinka–Shen with Tada's SE(T) as reference reproduces the shape's own K (Tada 1973), so
+    # the LEFM life is the same as with the edge-crack-plate formula
+    plain = predict_life(_case()).summary["cycles_to_end"]
+    prof = predict_life(_case(geometry={"stress_profile": {
+        "kind": "polynomial", "coefficients": [1.0]}})).summary["cycles_to_end"]
+    assert prof == pytest.approx(plain, rel=2e-3)
+
+
+def test_bending_profile_grows_slower_than_membrane():
+    # a through-wall bending profile σ(1 − 2x/t) falls off with depth (BS 7910 linearisation)
+    mem = predict_life(_case()).summary["cycles_to_end"]
+    bend = predict_life(_case(geometry={"stress_profile": {
+        "kind": "polynomial", "coefficients": [1.0, -2.0]}}))
+    assert bend.summary["cycles_to_end"] > 1.3 * mem
+
+
+def test_two_channels_with_same_profile_equal_their_sum(tmp_path):
+    # superposition: channels with the same profile act as one carrying their sum
+    rng = np.random.default_rng(3)
+    p = 60 + 40 * rng.random(300)
+    q = 20 * rng.random(300)
+    np.savetxt(tmp_path / "h.csv", np.column_stack([p, q, p + q]), delimiter=",",
+               header="p,q,total", comments="")
+    uniform = {"kind": "polynomial", "coefficients": [1.0]}
+    two = _case(tmp_path, loading={"history": "h.csv", "quantity": "stress", "channels": [
+        {"name": "p", "column": "p", "unit": "MPa", "stress_profile": uniform},
+        {"name": "q", "column": "q", "unit": "MPa", "stress_profile": uniform}]})
+    one = _case(tmp_path, loading={"history": "h.csv", "column": "total", "unit": "MPa"},
+                geometry={"stress_profile": uniform})
+    n2 = predict_life(two, method="cycle").summary["cycles_to_end"]
+    n1 = predict_life(one, method="cycle").summary["cycles_to_end"]
+    assert n2 == pytest.approx(n1, rel=1e-9)
+
+
+def test_residual_stress_raises_r_shortens_life_and_leaves_lr():
+    # a tensile residual stress raises K_min and R; with closure (Newman 1984) more of the
+    # range is open, so the crack grows faster (BS 7910 §7.3: secondary stress in K only);
+    # L_r is from the primary load alone (R6 II.2)
+    law = {"growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}}
+    kw = {"loading": {"constant": {"max": "120 MPa", "min": "12 MPa"}, "closure": "newman"},
+          "analysis": {"j_method": "reference-stress"}, "material": law}
+    base = predict_life(_case(geometry={"stress_profile": {
+        "kind": "polynomial", "coefficients": [1.0]}}, **kw))
+    res = predict_life(_case(geometry={"residual_stress": {"uniform": "150 MPa"}}, **kw))
+    assert res.summary["cycles_to_end"] < 0.9 * base.summary["cycles_to_end"]
+    assert res.history["Lr"].iloc[0] == pytest.approx(base.history["Lr"].iloc[0], rel=1e-12)
+
+
+def test_fields_refused_for_other_shapes():
+    d = case_dict(geometry={"shape": "compact-tension", "width": "50 mm", "thickness": "10 mm",
+                            "crack_length": "15 mm", "residual_stress": {"uniform": "100 MPa"}},
+                  run={"crack_length_limit": "40 mm"})
+    with pytest.raises(CycjInputError, match="available for edge-crack-plate"):
+        case_from_dict(d)
