@@ -159,6 +159,9 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
         raise CycjInputError(f"j_method '{analysis.j_method}' needs the cyclic curve",
                              source=source, key="material.cyclic_curve",
                              expected="{ strength_coefficient = ..., hardening_exponent = ... }")
+    if analysis.j_method == "notch" and geometry.notch is None:
+        raise CycjInputError("j_method 'notch' needs [geometry] notch = { kt, depth } (or the "
+                             "crack-at-hole shape)", source=source, key="analysis.j_method")
     if analysis.j_method == "small-crack" and geometry.shape.name not in (
             "edge-crack-semi-infinite", "center-crack-infinite-plate"):
         raise CycjInputError("the small-crack estimate is for a small crack in a smooth "
@@ -208,11 +211,23 @@ def _fields(raw, source, base, geometry, loading):
 def _geometry(t: Table, base: Path) -> Geometry:
     shape = t.choice("shape", SHAPE_NAMES, required=True)
     kw = {}
-    for k in ("width", "thickness", "net_thickness", "span", "half_length", "inner_radius"):
+    for k in ("width", "thickness", "net_thickness", "span", "half_length", "inner_radius",
+              "hole_radius"):
         v = t.quantity(k, "length", positive=True)
         if v is not None:
             kw[k] = v
     t.known |= {"stress_profile", "residual_stress"}   # read by cycj.fields.inputs
+    cracks = t.number("cracks", integer=True)
+    if cracks is not None:
+        kw["cracks"] = cracks
+    notch_raw = t.table("notch")
+    notch = None
+    if notch_raw is not None:
+        kt = notch_raw.number("kt", required=True, lo=(1.0, "1"), hi=(20.0, "20"))
+        depth = notch_raw.quantity("depth", "length", required=True, positive=True)
+        radius = notch_raw.quantity("root_radius", "length", positive=True)
+        notch_raw.finish()
+        notch = {"kt": kt, "depth": depth, "root_radius": radius}
     br = t.number("bending_ratio")
     if br is not None:
         kw["bending_ratio"] = br
@@ -228,7 +243,12 @@ def _geometry(t: Table, base: Path) -> Geometry:
     constraint = t.choice("constraint", ("plane-strain", "plane-stress"),
                           default="plane-strain")
     t.finish()
-    return make_geometry(shape, a, constraint=constraint, source=t.source, prefix=t.path, **kw)
+    geo = make_geometry(shape, a, constraint=constraint, source=t.source, prefix=t.path, **kw)
+    if notch is None and shape == "crack-at-hole":   # the hole is the notch: K_t = 3, depth R
+        notch = {"kt": 3.0, "depth": kw["hole_radius"], "root_radius": kw["hole_radius"]}
+    from dataclasses import replace
+
+    return replace(geo, notch=notch)
 
 
 def _curve(t: Table | None) -> StressStrainCurve | None:
@@ -374,6 +394,8 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         default_q = default_q or "stress"
     if default_q == "stress" and "pressure" in geometry.shape.loading:
         default_q = "pressure"
+    if t.raw.get("channels"):   # load channels carry stresses
+        default_q = "stress"
     quantity = t.choice("quantity", ("force", "stress", "pressure"), default=default_q)
     if quantity not in geometry.shape.loading:
         takes = " or ".join(geometry.shape.loading)
@@ -458,7 +480,7 @@ def _closure(t: Table) -> Closure:
 def _analysis(t: Table | None) -> Analysis:
     if t is None:
         return Analysis()
-    jm = t.choice("j_method", ("reference-stress", "small-crack", "elastic"),
+    jm = t.choice("j_method", ("reference-stress", "small-crack", "elastic", "notch"),
                   default="reference-stress")
     fad = t.choice("fad", ("option-1", "option-2"), default="option-2")
     t.finish()

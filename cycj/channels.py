@@ -52,7 +52,7 @@ def table_value(ct, row, a, mp):
 @jit
 def channel_k(lmax, lmin, i, a, ct, mp):
     """K_max, K_min [MPa√mm] (residual included), primary L_r at the peak and over the range,
-    and the membrane stress range [MPa] of cycle ``i`` at crack size ``a``."""
+    the membrane stress range [MPa] and the residual K_s of cycle ``i`` at crack size ``a``."""
     nch = int(mp[CH_N])
     kres = table_value(ct, nch, a, mp)
     kmax = kres
@@ -76,7 +76,7 @@ def channel_k(lmax, lmin, i, a, ct, mp):
     sy = mp[SIGMA_Y]
     lr_max = plate_reference_stress(pm1, pb1, alpha) / sy
     lr_range = plate_reference_stress(pm1 - pm0, pb1 - pb0, alpha) / sy
-    return kmax, kmin, lr_max, lr_range, abs(pm1 - pm0)
+    return kmax, kmin, lr_max, lr_range, abs(pm1 - pm0), kres
 
 
 # ------------------------------------------------------------------ building the tables

@@ -45,9 +45,10 @@ END_NAMES = {END_TOUGHNESS: "toughness", END_TEARING: "tearing", END_FAD: "fad",
 
 
 @jit
-def end_check(a, jmax, lr, j_el_max, mp):
+def end_check(a, jmax, lr, j_el_max, rho, mp):
     """End code tripped at crack size ``a`` with J_max, L_r and J_el at peak (0 if none) and the
-    value that tripped it."""
+    value that tripped it; ``rho`` is the plasticity interaction added to K_r when secondary
+    (residual) stresses act (R6 / BS 7910), else 0."""
     if a >= mp[A_TEAR]:
         return END_TEARING, a
     if mp[CHECK_TOUGH] > 0.5 and jmax >= mp[J_C]:
@@ -55,7 +56,7 @@ def end_check(a, jmax, lr, j_el_max, mp):
     if mp[CHECK_COLLAPSE] > 0.5 and lr >= mp[LR_MAX]:
         return END_COLLAPSE, lr
     if mp[CHECK_FAD] > 0.5:
-        kr = math.sqrt(j_el_max / mp[J_C])
+        kr = math.sqrt(j_el_max / mp[J_C]) + rho
         if mp[FAD_CURVE] > 1.5:
             f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK],
                                    mp[N_PEAK])

@@ -31,9 +31,9 @@ from cycj.errors import ValidityRangeError
 from cycj.material import masing_plastic_strain_range
 
 # j_method codes used by the compiled stepper
-ELASTIC, REFERENCE_STRESS, SMALL_CRACK = 0, 1, 2
+ELASTIC, REFERENCE_STRESS, SMALL_CRACK, NOTCH = 0, 1, 2, 3
 J_METHODS = {"elastic": ELASTIC, "reference-stress": REFERENCE_STRESS,
-             "small-crack": SMALL_CRACK}
+             "small-crack": SMALL_CRACK, "notch": NOTCH}
 
 
 # --------------------------------------------------------------------------- compiled scalars

@@ -22,6 +22,8 @@ import numpy as np
 
 from cycj._jit import jit
 from cycj.channels import channel_k
+from cycj.fields.notch import neuber_masing_stress_range_scalar, notch_delta_j_scalar
+from cycj.fields.residual import r6_rho_scalar
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
 from cycj.growth import opening_fraction, paris_rate_from_power
 from cycj.instability import (
@@ -57,6 +59,9 @@ from cycj.model_params import (
     M_LAW,
     N_CYC,
     N_PEAK,
+    NOTCH_DEPTH,
+    NOTCH_KT,
+    NOTCH_OWN_LONG,
     Q_TOUGH,
     SEQ_EXPONENT,
     SEQ_MODEL,
@@ -99,6 +104,17 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
                                              mp[K_CYC], mp[N_CYC], u)
     elif jm == 2:
         dj = small_crack_delta_j_scalar(a, ds, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
+    elif jm == 3:
+        if mp[NOTCH_OWN_LONG] > 0.5:   # the shape's K already holds the notch (crack at a hole)
+            dsig = neuber_masing_stress_range_scalar(mp[NOTCH_KT], ds, mp[E_MOD], mp[K_CYC],
+                                                     mp[N_CYC])
+            root = small_crack_delta_j_scalar(a, dsig, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
+            far = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
+                                                  mp[K_CYC], mp[N_CYC], u)
+            dj = min(root, far)
+        else:
+            dj = notch_delta_j_scalar(a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD],
+                                      mp[K_CYC], mp[N_CYC], u)
     else:
         dj = u * u * dj_el
     j_el_max = kmax * kmax / mp[E_PRIME]
@@ -111,8 +127,9 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
 
 @jit
 def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
-    """K_max, K_min [MPa√mm], primary L_r at the peak and over the range, and the nominal
-    stress range [MPa] of cycle ``i`` at crack size ``a`` [mm] (deepest point).
+    """K_max, K_min [MPa√mm], primary L_r at the peak and over the range, the nominal stress
+    range [MPa] and the secondary (residual) K_s of cycle ``i`` at crack size ``a`` [mm]
+    (deepest point).
 
     One channel (``lmax[:, 0]`` nominal stresses) with the shape's own K solution, or several
     channels (and a residual stress) from the tables ``ct`` (:mod:`cycj.channels`)."""
@@ -122,14 +139,16 @@ def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
     sl = limit_stress(code, a, gp, mp[SIGMA_Y])
     s1 = lmax[i, 0]
     s0 = lmin[i, 0]
-    return s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0
+    return s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0, 0.0
 
 
 @jit
 def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
-    """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm]."""
-    kmax, kmin, lr_max, lr_range, ds = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
-    return k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
+    """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm], and the plasticity
+    interaction ρ of a secondary stress for the FAD."""
+    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+    dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
+    return dj, jmax, lr, jel, clipped, r6_rho_scalar(kres, kmax - kres, lr)
 
 
 @jit
@@ -221,12 +240,13 @@ def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, r
         for i in range(n):
             if two_d:
                 gp[5] = c
-            kmax, kmin, lr_max, lr_range, ds = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+            kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
             dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
                                                          mp)
             n_clipped += clipped
             if kmax > 0.0:
-                end, val = end_check(a, jmax, lr, jel, mp)
+                rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
+                end, val = end_check(a, jmax, lr, jel, rho, mp)
                 if end == RUNNING and two_d:
                     end, val = _two_d_check(a, c, mp)
                 if end != RUNNING:
@@ -304,7 +324,8 @@ def block_growth(lmax, lmin, a, code, gp, ct, mp):
     djmx = 0.0
     m = mp[M_LAW]
     for i in range(n):
-        dj, jmax, lr, jel, clipped = cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp)
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct,
+                                                              mp)
         djm = dj**m if dj > 0.0 else 0.0
         g += rate_from_power(dj, djm, jmax, mp)
         s += djm
@@ -336,9 +357,9 @@ def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
     history's peak load (−1 if none), and its end code."""
     zeros = 0.0 * lmax
     for k in range(a_grid.shape[0]):
-        dj, jmax, lr, jel, clipped = cycle_driving_force(lmax, zeros, i_peak, a_grid[k], code,
-                                                         gp, ct, mp)
-        end, val = end_check(a_grid[k], jmax, lr, jel, mp)
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, zeros, i_peak, a_grid[k],
+                                                              code, gp, ct, mp)
+        end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
         if end != RUNNING:
             return k, end
     return -1, RUNNING

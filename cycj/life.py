@@ -188,6 +188,9 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
     mp[M.SEQ_EXPONENT] = float(opts.get("shaping_exponent", 1.0))
     mp[M.SEQ_SHUT_OFF] = float(opts.get("shut_off_ratio", 3.0))
     mp[M.ZONE_BETA] = float(opts.get("zone_factor", 6.0 if geo.plane_strain else 2.0))
+    if geo.notch is not None:
+        mp[M.NOTCH_KT], mp[M.NOTCH_DEPTH] = geo.notch["kt"], geo.notch["depth"]
+        mp[M.NOTCH_OWN_LONG] = 1.0 if geo.shape.name == "crack-at-hole" else 0.0
     mp[M.TWO_D] = 0.0
     mp[M.LEAK_SIZE] = mp[M.ASPECT_MAX] = mp[M.C_LIMIT] = math.inf
     if geo.two_d:
@@ -420,7 +423,7 @@ def _peak_row(case, loads, mp, a):
 
 def _end_values(case, loads, mp, reason, val, a_end, cycles):
     geo = case.geometry
-    dj, jmax, lr, jel, _ = K.peak_state(loads.lmax, loads.i_peak, a_end, geo.code, geo.params,
+    dj, jmax, lr, jel, _, _ = K.peak_state(loads.lmax, loads.i_peak, a_end, geo.code, geo.params,
                                         loads.ct, mp)
     out = {"a_mm": float(a_end), "cycles": float(cycles),
            "Jmax_at_peak_kJm2": float(jmax), "Lr_at_peak": float(lr)}
@@ -450,7 +453,7 @@ def _input_warnings(case, loads, mp, a0, a_crit):
     lo, hi = geo.size_limits
     if hi < math.inf and a0 > lo + 0.95 * (hi - lo):
         w.append(f"initial crack {a0:g} mm is near the upper end of the K solution's range")
-    dj, jmax, lr, jel, _ = K.peak_state(loads.lmax, loads.i_peak, a0, geo.code, geo.params,
+    dj, jmax, lr, jel, _, _ = K.peak_state(loads.lmax, loads.i_peak, a0, geo.code, geo.params,
                                         loads.ct, mp)
     if lr > 0.8 * mat.lr_max:
         w.append(f"L_r = {lr:.3g} at the first peak: close to plastic collapse "
@@ -476,6 +479,10 @@ def references_for(case: Case) -> list[str]:
         refs.append("Masing (1926); Morrow, ASTM STP 378 (1965): cyclic (Masing) branch")
     elif jm == "small-crack":
         refs.append("Dowling, ASTM STP 637 (1977) 97: ΔJ for small cracks")
+    elif jm == "notch":
+        refs.append("Neuber, J. Appl. Mech. 28 (1961) 544; Topper, Wetzel & Morrow, J. "
+                    "Materials 4 (1969) 200: notch-root loop on the Masing branch")
+        refs.append("Dowling, ASTM STP 677 (1979) 247: crack at a notch (from memory)")
     refs.append("Dowling & Begley, ASTM STP 590 (1976) 82: da/dN = C·ΔJ^m")
     if case.growth.converted_from:
         refs.append("Paris & Erdogan, J. Basic Eng. 85 (1963) 528; ΔJ = ΔK²/E' conversion")

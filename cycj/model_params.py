@@ -7,10 +7,10 @@ This module is the only place the layout is defined; :func:`cycj.life.model_arra
  DJ_TH, Q_TOUGH, J_METHOD, CLOSURE, U_CONST, ALPHA_NEWMAN, INCLUDE_COMP, FAD_CURVE,
  CHECK_TOUGH, CHECK_FAD, CHECK_COLLAPSE, A_LIMIT, A_TEAR, SEQ_MODEL, SEQ_EXPONENT,
  SEQ_SHUT_OFF, ZONE_BETA, TWO_D, LEAK_SIZE, ASPECT_MAX, C_LIMIT, CH_MODE, CH_N, CH_A_LO,
- CH_A_HI, CH_THICKNESS) = range(38)
+ CH_A_HI, CH_THICKNESS, NOTCH_KT, NOTCH_DEPTH, NOTCH_OWN_LONG) = range(41)
 #: membrane and bending stress per unit value of each load channel (up to MAX_CHANNELS)
 MAX_CHANNELS = 6
-CH_PM = 38
+CH_PM = 41
 CH_PB = CH_PM + MAX_CHANNELS
 N_MP = CH_PB + MAX_CHANNELS
 

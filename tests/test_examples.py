@@ -47,7 +47,10 @@ def test_random_spectra_block_agrees_with_cycle_stepper(tmp_path, seed):
 
 @pytest.mark.parametrize("name,end", [("weld_toe_surface_crack.toml", "leak"),
                                       ("pipeline_axial_crack.toml", "fad"),
-                                      ("lug_tabulated.toml", "size-limit")])
+                                      ("lug_tabulated.toml", "size-limit"),
+                                      ("pipe_pressure_thermal.toml", "toughness"),
+                                      ("welded_joint_residual.toml", "fad"),
+                                      ("notched_bar_lcf.toml", "size-limit")])
 def test_geometry_reach_examples_run(name, end):
     res = predict_life(load_case(EXAMPLES / name))
     assert res.summary["end_reason"] == end

@@ -80,3 +80,38 @@ def test_fields_refused_for_other_shapes():
                   run={"crack_length_limit": "40 mm"})
     with pytest.raises(CycjInputError, match="available for edge-crack-plate"):
         case_from_dict(d)
+
+
+def _hole_case(jm):
+    from tests.helpers import make_case
+
+    return make_case(geometry={"shape": "crack-at-hole", "hole_radius": "5 mm",
+                               "crack_length": "0.1 mm"},
+                     loading={"constant": {"max": "220 MPa", "min": "-220 MPa"},
+                              "compressive_part": "include"},
+                     analysis={"j_method": jm},
+                     run={"criteria": ["size-limit"], "crack_length_limit": "15 mm"})
+
+
+def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
+    # Dowling (1979): a short crack at a notch sees the notch-root loop (Neuber 1961 on the
+    # Masing branch) until the long-crack ΔJ is the smaller; far from the hole the notch
+    # estimate equals the plain long-crack (reference-stress) value
+    from cycj import kernels as K
+    from cycj.fields.notch import notch_root_delta_j
+    from cycj.life import block_loads, model_array
+
+    notch, plain = _hole_case("notch"), _hole_case("reference-stress")
+    loads = block_loads(notch)
+    mp_n, mp_p = model_array(notch, loads=loads), model_array(plain, loads=loads)
+    g = notch.geometry
+
+    def dj(mp, a):
+        return K.cycle_driving_force(loads.lmax, loads.lmin, 0, a, g.code, g.params, loads.ct,
+                                     mp)[0]
+
+    assert dj(mp_n, 12.0) == pytest.approx(dj(mp_p, 12.0), rel=1e-12)
+    a = 0.02
+    root = float(notch_root_delta_j(a, 440.0, 3.0, notch.material))
+    assert dj(mp_n, a) == pytest.approx(min(root, dj(mp_p, a)), rel=1e-9)
+    assert dj(mp_n, a) <= dj(mp_p, a)

@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
 from cycj.fields import weight_functions as wf
 
@@ -180,11 +181,29 @@ def r6_plasticity_interaction(k_s, k_p, lr):
     lr = _finite("L_r", lr, nonneg=True)
     if np.any(kp <= 0.0):
         raise ValidityRangeError("K_p must be > 0 MPa√mm to form χ = K_s·L_r/K_p")
-    chi = np.maximum(ks, 0.0) * lr / kp
-    c = np.minimum(chi, 4.0)
-    rho1 = np.where(chi > 4.0, 0.25, 0.1 * c**0.714 - 0.007 * c**2 + 0.00003 * c**5)
-    factor = np.where(lr <= 0.8, 1.0, np.where(lr < 1.05, 4.0 * (1.05 - lr), 0.0))
-    return np.where(chi > 0.0, rho1 * factor, 0.0)
+    return _rho(ks, kp, lr)
+
+
+@jit
+def r6_rho_scalar(k_s, k_p, lr):
+    """Compiled scalar source of :func:`r6_plasticity_interaction` (used by the stepper)."""
+    if k_s <= 0.0 or k_p <= 0.0:
+        return 0.0
+    chi = k_s * lr / k_p
+    if chi <= 0.0:
+        return 0.0
+    if chi > 4.0:
+        rho1 = 0.25
+    else:
+        rho1 = 0.1 * chi**0.714 - 0.007 * chi * chi + 0.00003 * chi**5
+    if lr <= 0.8:
+        return rho1
+    if lr < 1.05:
+        return 4.0 * rho1 * (1.05 - lr)
+    return 0.0
+
+
+_rho = ufunc(r6_rho_scalar)
 
 
 def kr_with_secondary(k_p, k_s, k_mat, lr):

@@ -23,6 +23,7 @@ from cycj.geometry import (
     center_crack_infinite,
     center_crack_plate,
     compact_tension,
+    crack_at_hole,
     edge_crack_plate,
     edge_crack_semi_infinite,
     surface_crack_plate,
@@ -125,6 +126,14 @@ _register(Shape(
     "inside the table's a/W range",
     ("Fritsch & Carlson, SIAM J. Numer. Anal. 17 (1980) 238: monotone interpolation",)))
 
+_register(Shape(
+    "crack-at-hole", crack_at_hole.CODE,
+    "one or two through cracks at a circular hole in a wide plate", crack_at_hole,
+    ("hole_radius",), ("stress",), "S = remote stress",
+    "a = crack length from the hole's edge", "a > 0; hole radius R > 0",
+    ("Bowie, J. Math. Phys. 35 (1956) 60; Tada, Paris & Irwin (2000) p. 19.1 (fit, from "
+     "memory)",), {"cracks": "= 2 (or 1)"}))
+
 #: shapes accepted in ``geometry.shape``
 SHAPE_NAMES = tuple(SHAPES)
 
@@ -141,6 +150,7 @@ class Geometry:
     params: np.ndarray
     plane_strain: bool
     dims: dict
+    notch: dict | None = None      # {kt, depth [mm], root_radius [mm]} for j_method "notch"
 
     @property
     def code(self) -> int:
@@ -224,7 +234,8 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
                   thickness: float = 0.0, net_thickness: float | None = None,
                   span: float | None = None, constraint: str = "plane-strain",
                   half_length: float = 0.0, bending_ratio: float = 0.0,
-                  inner_radius: float = 0.0, table=None,
+                  inner_radius: float = 0.0, table=None, hole_radius: float = 0.0,
+                  cracks: int = 2,
                   source: str | None = None, prefix: str = "geometry") -> Geometry:
     """Build a :class:`Geometry` from dimensions in mm, checking them (errors name the key)."""
     if shape not in SHAPES:
@@ -239,7 +250,8 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
         raise CycjInputError("unknown constraint", source=source, key=f"{prefix}.constraint",
                              expected="'plane-strain' or 'plane-stress'", found=constraint)
     vals = {"width": width, "thickness": thickness, "half_length": half_length,
-            "inner_radius": inner_radius, "table": 1.0 if table is not None else 0.0}
+            "inner_radius": inner_radius, "table": 1.0 if table is not None else 0.0,
+            "hole_radius": hole_radius}
     for k in s.required:
         if not (vals[k] > 0 and math.isfinite(vals[k])):
             raise CycjInputError("must be a positive size", source=source, key=f"{prefix}.{k}",
@@ -260,6 +272,10 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     p[P.PLANE_STRAIN] = 1.0 if constraint == "plane-strain" else 0.0
     p[P.HALF_LENGTH], p[P.BENDING_RATIO] = half_length, bending_ratio
     p[P.EXTRA] = inner_radius
+    p[P.HOLE_RADIUS], p[P.CRACKS] = hole_radius, cracks
+    if cracks not in (1, 2):
+        raise CycjInputError("a crack at a hole has 1 or 2 cracks", source=source,
+                             key=f"{prefix}.cracks", expected="1 or 2", found=cracks)
     if table is not None:
         p = np.concatenate([p, tabulated.table_params(*table)])
     if s.two_d:
@@ -268,7 +284,8 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     geo = Geometry(s, float(crack_length), p, constraint == "plane-strain",
                    {"width": width, "thickness": thickness, "net_thickness": bn, "span": sp,
                     "half_length": half_length, "bending_ratio": bending_ratio,
-                    "inner_radius": inner_radius})
+                    "inner_radius": inner_radius, "hole_radius": hole_radius,
+                    "cracks": cracks})
     lo, hi = geo.size_limits
     if not (crack_length > 0 and lo * (1 - 1e-12) <= crack_length <= hi * (1 + 1e-12)):
         raise CycjInputError("crack outside the body or the solution's validity range",

@@ -20,6 +20,9 @@ from cycj.geometry import (
     compact_tension as _ct,
 )
 from cycj.geometry import (
+    crack_at_hole as _hole,
+)
+from cycj.geometry import (
     edge_crack_plate as _set,
 )
 from cycj.geometry import (
@@ -35,9 +38,9 @@ from cycj.geometry import (
     three_point_bend as _seb,
 )
 
-_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP, _CYL, _TAB = 1, 2, 3, 4, 5, 6, 7, 8, 9
+_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP, _CYL, _TAB, _HOLE = 1, 2, 3, 4, 5, 6, 7, 8, 9, 10
 assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE, _scp.CODE, _cyl.CODE,
-        _tab.CODE) == (1, 2, 3, 4, 5, 6, 7, 8, 9)
+        _tab.CODE, _hole.CODE) == (1, 2, 3, 4, 5, 6, 7, 8, 9, 10)
 
 
 @jit
@@ -59,6 +62,8 @@ def k_over_s(code, a, p):
         return _cyl.k_over_s(a, p)
     if code == _TAB:
         return _tab.k_over_s(a, p)
+    if code == _HOLE:
+        return _hole.k_over_s(a, p)
     return _cci.k_over_s(a, p)
 
 
@@ -81,6 +86,8 @@ def limit_stress(code, a, p, sigma_y):
         return _cyl.limit_stress(a, p, sigma_y)
     if code == _TAB:
         return _tab.limit_stress(a, p, sigma_y)
+    if code == _HOLE:
+        return _hole.limit_stress(a, p, sigma_y)
     return _cci.limit_stress(a, p, sigma_y)
 
 

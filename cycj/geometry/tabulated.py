@@ -3,7 +3,7 @@ runs): K = S·√(πa)·F(a/W) with S = P/(B·W), P_L = factor(a/W)·σ_y·W·B,
 stress is S_L = factor·σ_y.
 
 The table is interpolated with a monotone cubic (PCHIP, Fritsch & Carlson 1980), resampled once
-onto a dense uniform grid stored in the kernel's parameter array (after the 8 standard slots:
+onto a dense uniform grid stored in the kernel's parameter array (after the standard slots:
 α_min, α_max, n, F[0..n), factor[0..n)) and read by linear interpolation in the kernel.  Valid
 only inside the table's range.
 
@@ -18,9 +18,10 @@ import math
 import numpy as np
 
 from cycj._jit import jit
+from cycj.geometry._params import N_PARAMS
 
 CODE = 9
-HEADER = 8          # standard slots before the table
+HEADER = N_PARAMS   # standard slots before the table
 DENSE = 2048        # resampled points
 
 
