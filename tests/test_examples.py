@@ -54,4 +54,4 @@ def test_random_spectra_block_agrees_with_cycle_stepper(tmp_path, seed):
 def test_geometry_reach_examples_run(name, end):
     res = predict_life(load_case(EXAMPLES / name))
     assert res.summary["end_reason"] == end
-    assert res.summary["cycles_to_end"] > 1000
+    assert res.summary["cycles_to_end"] > 100
