@@ -464,6 +464,15 @@ def _input_warnings(case, loads, mp, a0, a_crit):
         if jmax > 3 * jel:
             w.append("the plastic part of J at peak load is large (J_max > 3·J_el): check "
                      "the cyclic and monotonic curves")
+    if loads.ct.shape[0] > 1 and case.fields is not None and case.fields.residual is not None:
+        from cycj.channels import table_value
+
+        kres = table_value(loads.ct, loads.ct.shape[0] - 1, a0, mp)
+        kp = np.sqrt(jel * mp[M.E_PRIME]) - kres
+        if abs(kres) > abs(kp):
+            w.append(f"the residual stress dominates: K_res = {kres / 31.6228:.3g} MPa√m vs "
+                     f"K_primary = {kp / 31.6228:.3g} MPa√m at the first peak (R and closure "
+                     "are then set by the residual stress; check its magnitude and relaxation)")
     if mat.monotonic_curve is None:
         w.append("J_max at peak load uses the cyclic curve (no monotonic_curve given)")
     return w
