@@ -52,7 +52,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     smin = smax * rng.uniform(-0.3, 0.5, n_block)
     mp = model_array(case)
     lmax, lmin = smax[:, None].copy(), smin[:, None].copy()
-    ct = np.zeros((1, 2))
+    ct = np.zeros((1, 2, 1))
     mp[M.J_C] = 1e30
     geo = case.geometry
     rec = np.zeros((10, K.N_REC))
@@ -134,11 +134,11 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
         lmax = rng.uniform(60, 100, (n_block, nch))
         lmin = lmax * 0.1
         if nch == 1:
-            ct = np.zeros((1, 2))
+            ct = np.zeros((1, 2, 1))
             mp = model_array(case)
         else:
             _, _, ct1, _, slots, _, _ = channel_block(case, 1.0, "closing")
-            ct = np.vstack([ct1[:1], ct1[:1] * 0.5, ct1[1:]])   # two channels + residual
+            ct = np.concatenate([ct1[:1], ct1[:1] * 0.5, ct1[1:]])   # two channels + residual
             mp = model_array(case)
             for k, v in slots.items():
                 mp[k] = v

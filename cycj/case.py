@@ -184,7 +184,7 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
 
 
 #: shapes whose stress-field (weight-function) solutions are wired into the life engine
-FIELD_SHAPES = ("edge-crack-plate",)
+FIELD_SHAPES = ("edge-crack-plate", "surface-crack-plate")
 
 
 def _fields(raw, source, base, geometry, loading):

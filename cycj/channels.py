@@ -22,7 +22,19 @@ from __future__ import annotations
 import math
 
 from cycj._jit import jit
-from cycj.model_params import CH_A_HI, CH_A_LO, CH_N, CH_PB, CH_PM, CH_THICKNESS, SIGMA_Y
+from cycj.model_params import (
+    CH_A_HI,
+    CH_A_LO,
+    CH_C_HI,
+    CH_C_LO,
+    CH_N,
+    CH_PB,
+    CH_PM,
+    CH_SURFACE,
+    CH_THICKNESS,
+    CH_WIDTH,
+    SIGMA_Y,
+)
 
 
 @jit
@@ -34,32 +46,47 @@ def plate_reference_stress(pm, pb, alpha):
 
 
 @jit
-def table_value(ct, row, a, mp):
-    """Linear interpolation of row ``row`` of the K table at crack size ``a`` [mm]."""
-    lo = mp[CH_A_LO]
-    hi = mp[CH_A_HI]
-    n = ct.shape[1]
-    x = (a - lo) / (hi - lo) * (n - 1)
-    if x <= 0.0:
-        return ct[row, 0]
-    if x >= n - 1:
-        return ct[row, n - 1]
-    i = int(x)
-    f = x - i
-    return ct[row, i] * (1.0 - f) + ct[row, i + 1] * f
+def _axis(x, lo, hi, n):
+    """Cell index and fraction of ``x`` on a uniform grid of ``n`` points (clamped)."""
+    if n < 2:
+        return 0, 0.0
+    t = (x - lo) / (hi - lo) * (n - 1)
+    if t <= 0.0:
+        return 0, 0.0
+    if t >= n - 1:
+        return n - 2, 1.0
+    i = int(t)
+    return i, t - i
 
 
 @jit
-def channel_k(lmax, lmin, i, a, ct, mp):
+def table_value(ct, row, a, c, mp):
+    """K table ``row`` at crack size a (and half-length c for surface cracks), bilinear."""
+    na = ct.shape[1]
+    nc = ct.shape[2]
+    i, f = _axis(a, mp[CH_A_LO], mp[CH_A_HI], na)
+    if nc < 2:
+        if na < 2:
+            return ct[row, 0, 0]
+        return ct[row, i, 0] * (1.0 - f) + ct[row, i + 1, 0] * f
+    j, g = _axis(c, mp[CH_C_LO], mp[CH_C_HI], nc)
+    return ((ct[row, i, j] * (1.0 - g) + ct[row, i, j + 1] * g) * (1.0 - f)
+            + (ct[row, i + 1, j] * (1.0 - g) + ct[row, i + 1, j + 1] * g) * f)
+
+
+@jit
+def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     """K_max, K_min [MPa√mm] (residual included), primary L_r at the peak and over the range,
-    the membrane stress range [MPa] and the residual K_s of cycle ``i`` at crack size ``a``."""
+    the membrane stress range [MPa] and the residual K_s of cycle ``i`` at crack size ``a``
+    (half-length ``c`` for a surface crack) at crack-front ``point`` (0 deepest, 1 surface)."""
     nch = int(mp[CH_N])
-    kres = table_value(ct, nch, a, mp)
+    base = point * (nch + 1)
+    kres = table_value(ct, base + nch, a, c, mp)
     kmax = kres
     kmin = kres
     pm1 = pb1 = pm0 = pb0 = 0.0
     for j in range(nch):
-        kj = table_value(ct, j, a, mp)
+        kj = table_value(ct, base + j, a, c, mp)
         v1 = lmax[i, j]
         v0 = lmin[i, j]
         kmax += v1 * kj
@@ -72,7 +99,12 @@ def channel_k(lmax, lmin, i, a, ct, mp):
         kmax, kmin = kmin, kmax
         pm1, pm0 = pm0, pm1
         pb1, pb0 = pb0, pb1
-    alpha = a / mp[CH_THICKNESS]
+    t = mp[CH_THICKNESS]
+    alpha = a / t
+    if mp[CH_SURFACE] > 0.5:   # BS 7910 Annex P: α″ of a surface flaw of length 2c
+        w = mp[CH_WIDTH]
+        alpha = alpha / (1.0 + t / c) if (w <= 0.0 or w >= 2.0 * (c + t)) else 2.0 * a * c / (
+            t * w)
     sy = mp[SIGMA_Y]
     lr_max = plate_reference_stress(pm1, pb1, alpha) / sy
     lr_range = plate_reference_stress(pm1 - pm0, pb1 - pb0, alpha) / sy
@@ -81,6 +113,7 @@ def channel_k(lmax, lmin, i, a, ct, mp):
 
 # ------------------------------------------------------------------ building the tables
 N_GRID = 400
+N_GRID_2D = 60
 
 
 def channel_block(case, load_scale: float, order: str):
@@ -97,26 +130,16 @@ def channel_block(case, load_scale: float, order: str):
     from cycj import model_params as M
     from cycj.fields.inputs import UNIFORM, Channel
     from cycj.fields.profiles import StressProfile
-    from cycj.fields.residual import residual_stress_k
-    from cycj.fields.weight_functions import edge_crack_plate_k
 
-    geo, ld, spec = case.geometry, case.loading, case.fields
-    width = geo.dims["width"]
-    a0 = geo.crack_length
-    hi = geo.size_limits[1]
-    grid = np.linspace(a0, hi, N_GRID)
+    ld, spec = case.loading, case.fields
     channels = spec.channels or (Channel("load", ld.column, 1.0, 1.0,
                                          spec.profile or StressProfile(**UNIFORM)),)
-    ct = np.zeros((len(channels) + 1, N_GRID))
-    for j, ch in enumerate(channels):
-        ct[j] = edge_crack_plate_k(grid, width, ch.profile)
-    if spec.residual is not None:
-        ct[-1] = residual_stress_k(grid, spec.residual, "edge-crack-plate",
-                                   _relaxation(case), width=width)
-    k_unit = edge_crack_plate_k(np.array([a0]), width, StressProfile(**UNIFORM))[0]
+    _, ct, slots, k_of = _tables(case, channels)
+    k_unit = k_of(StressProfile(**UNIFORM))[0]
     values, samples = _channel_values(case, channels)
     values = values * load_scale
-    combined = values @ ct[:-1, 0] / k_unit          # equivalent membrane stress at a0 [MPa]
+    k0 = np.array([k_of(ch.profile)[0] for ch in channels])
+    combined = values @ k0 / k_unit          # equivalent membrane stress at a0 [MPa]
     if ld.constant is not None:
         peak_idx, valley_idx = np.array([0]), np.array([1])
     else:
@@ -131,12 +154,59 @@ def channel_block(case, load_scale: float, order: str):
     lmax = np.ascontiguousarray(values[peak_idx])
     lmin = np.ascontiguousarray(values[valley_idx])
     i_peak = int(np.argmax(combined[peak_idx]))
-    slots = {M.CH_MODE: 1.0, M.CH_N: float(len(channels)), M.CH_A_LO: grid[0],
-             M.CH_A_HI: grid[-1], M.CH_THICKNESS: width}
     for j, ch in enumerate(channels):
         pm, pb = ch.profile.linearise()
         slots[M.CH_PM + j], slots[M.CH_PB + j] = pm, pb
     return lmax, lmin, ct, i_peak, slots, samples, float(combined[peak_idx[i_peak]])
+
+
+def _tables(case, channels):
+    """K per unit channel value (and the residual K) on the crack-size grid: rows × a × c
+    (c only for the surface crack, deepest point rows first, then surface point rows)."""
+    import numpy as np
+
+    from cycj import model_params as M
+    from cycj.fields.residual import residual_stress_k
+    from cycj.fields.weight_functions import edge_crack_plate_k, surface_crack_k
+
+    geo, spec = case.geometry, case.fields
+    nch = len(channels)
+    a0 = geo.crack_length
+    if geo.two_d:
+        t, w, c0 = geo.dims["thickness"], geo.dims["width"], geo.dims["half_length"]
+        ga = np.linspace(a0, 0.8 * t, N_GRID_2D)
+        gc = np.linspace(min(c0, a0), 0.25 * w - 1e-9, N_GRID_2D)
+        aa, cc = np.meshgrid(ga, gc, indexing="ij")
+        cc = np.maximum(cc, aa)                     # a/c ≤ 1: the weight functions' range
+        ct = np.zeros((2 * (nch + 1), ga.size, gc.size))
+        for p, point in enumerate(("deepest", "surface")):
+            base = p * (nch + 1)
+            for j, ch in enumerate(channels):
+                ct[base + j] = surface_crack_k(aa, cc, t, ch.profile, width=w, point=point)
+            if spec.residual is not None:
+                ct[base + nch] = residual_stress_k(
+                    aa, spec.residual, "surface-crack-plate", _relaxation(case), c=cc,
+                    thickness=t, width=w, point=point)
+        slots = {M.CH_C_LO: gc[0], M.CH_C_HI: gc[-1], M.CH_SURFACE: 1.0, M.CH_WIDTH: w,
+                 M.CH_THICKNESS: t}
+
+        def k_of(profile):
+            return surface_crack_k(np.array([a0]), np.array([c0]), t, profile, width=w)
+    else:
+        w = geo.dims["width"]
+        ga = np.linspace(a0, geo.size_limits[1], N_GRID)
+        ct = np.zeros((nch + 1, ga.size, 1))
+        for j, ch in enumerate(channels):
+            ct[j, :, 0] = edge_crack_plate_k(ga, w, ch.profile)
+        if spec.residual is not None:
+            ct[nch, :, 0] = residual_stress_k(ga, spec.residual, "edge-crack-plate",
+                                              _relaxation(case), width=w)
+        slots = {M.CH_THICKNESS: w, M.CH_SURFACE: 0.0}
+
+        def k_of(profile):
+            return edge_crack_plate_k(np.array([a0]), w, profile)
+    slots.update({M.CH_MODE: 1.0, M.CH_N: float(nch), M.CH_A_LO: ga[0], M.CH_A_HI: ga[-1]})
+    return ga, np.ascontiguousarray(ct), slots, k_of
 
 
 def _relaxation(case):
@@ -150,7 +220,8 @@ def _relaxation(case):
     peak = case.loading.constant[0] if case.loading.constant is not None else None
     if peak is None:
         return 1.0
-    alpha = case.geometry.crack_length / case.geometry.dims["width"]
+    geo = case.geometry
+    alpha = geo.crack_length / (geo.dims["thickness"] if geo.two_d else geo.dims["width"])
     pm, pb = (spec.profile.linearise() if spec.profile is not None else (1.0, 0.0))
     s_ref = plate_reference_stress(peak * pm, peak * pb, alpha)
     return float(bs7910_residual_relaxation(s_ref, case.material.flow_stress))

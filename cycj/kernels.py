@@ -126,7 +126,7 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
 
 
 @jit
-def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
+def cycle_k(lmax, lmin, i, a, c, code, gp, ct, mp):
     """K_max, K_min [MPa√mm], primary L_r at the peak and over the range, the nominal stress
     range [MPa] and the secondary (residual) K_s of cycle ``i`` at crack size ``a`` [mm]
     (deepest point).
@@ -134,7 +134,7 @@ def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
     One channel (``lmax[:, 0]`` nominal stresses) with the shape's own K solution, or several
     channels (and a residual stress) from the tables ``ct`` (:mod:`cycj.channels`)."""
     if mp[CH_MODE] > 0.5:
-        return channel_k(lmax, lmin, i, a, ct, mp)
+        return channel_k(lmax, lmin, i, a, c, ct, mp, 0)
     kos = k_over_s(code, a, gp)
     sl = limit_stress(code, a, gp, mp[SIGMA_Y])
     s1 = lmax[i, 0]
@@ -146,7 +146,8 @@ def cycle_k(lmax, lmin, i, a, code, gp, ct, mp):
 def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
     """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm], and the plasticity
     interaction ρ of a secondary stress for the FAD."""
-    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, gp[5], code, gp, ct,
+                                                     mp)
     dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
     return dj, jmax, lr, jel, clipped, r6_rho_scalar(kres, kmax - kres, lr)
 
@@ -240,7 +241,8 @@ def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, r
         for i in range(n):
             if two_d:
                 gp[5] = c
-            kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, code, gp, ct, mp)
+            kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, c, code, gp, ct,
+                                                             mp)
             dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
                                                          mp)
             n_clipped += clipped
@@ -257,9 +259,12 @@ def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, r
             djm = dj**m if dj > 0.0 else 0.0
             da = rate_from_power(dj, djm, jmax, mp) * factor
             if two_d:
-                kos_c = k_over_s_surface(code, a, gp)
-                dj_c = k_driving_force(lmax[i, 0] * kos_c, lmin[i, 0] * kos_c, lr_max, lr_range,
-                                       ds, a, mp)[0]
+                if mp[CH_MODE] > 0.5:
+                    k1, k0 = channel_k(lmax, lmin, i, a, c, ct, mp, 1)[:2]
+                else:
+                    kos_c = k_over_s_surface(code, a, gp)
+                    k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
+                dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp)[0]
                 c += cycle_rate(dj_c, jmax, mp) * factor
             if da > 0.0:
                 grew = True

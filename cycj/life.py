@@ -52,7 +52,7 @@ class BlockLoads:
     order: str
     hours_per_block: float | None = None
     samples: int = 0
-    ct: np.ndarray = field(default_factory=lambda: np.zeros((1, 2)))
+    ct: np.ndarray = field(default_factory=lambda: np.zeros((1, 2, 1)))
     i_peak: int = 0
     channel_slots: dict = field(default_factory=dict)
 
@@ -202,8 +202,10 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
         mp[M.C_LIMIT] = 0.25 * geo.params[GP.WIDTH]
         lim = case.run.crack_length_limit
         mp[M.A_LIMIT] = lim if lim is not None and lim < mp[M.LEAK_SIZE] else math.inf
-    if loads is not None and loads.ct.shape[0] > 1:
+    if loads is not None and loads.channel_slots:
         _channel_params(case, loads, mp)
+        if geo.two_d:
+            mp[M.ASPECT_MAX] = 1.0   # the surface-crack weight functions hold for a/c ≤ 1
     if "tearing" in crit and loads is not None:
         rc = mat.resistance_curve
         a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
@@ -464,10 +466,11 @@ def _input_warnings(case, loads, mp, a0, a_crit):
         if jmax > 3 * jel:
             w.append("the plastic part of J at peak load is large (J_max > 3·J_el): check "
                      "the cyclic and monotonic curves")
-    if loads.ct.shape[0] > 1 and case.fields is not None and case.fields.residual is not None:
+    if loads.channel_slots and case.fields.residual is not None:
         from cycj.channels import table_value
 
-        kres = table_value(loads.ct, loads.ct.shape[0] - 1, a0, mp)
+        nch = int(mp[M.CH_N])
+        kres = table_value(loads.ct, nch, a0, geo.dims.get("half_length", 0.0), mp)
         kp = np.sqrt(jel * mp[M.E_PRIME]) - kres
         if abs(kres) > abs(kp):
             w.append(f"the residual stress dominates: K_res = {kres / 31.6228:.3g} MPa√m vs "

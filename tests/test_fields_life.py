@@ -115,3 +115,32 @@ def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
     root = float(notch_root_delta_j(a, 440.0, 3.0, notch.material))
     assert dj(mp_n, a) == pytest.approx(min(root, dj(mp_p, a)), rel=1e-9)
     assert dj(mp_n, a) <= dj(mp_p, a)
+
+
+def _surface(geometry=None, **kw):
+    from tests.helpers import make_case
+
+    geo = {"shape": "surface-crack-plate", "width": "200 mm", "thickness": "20 mm",
+           "crack_length": "2 mm", "half_length": "4 mm", **(geometry or {})}
+    return make_case(geometry=geo, loading={"constant": {"max": "150 MPa", "min": "0 MPa"}},
+                     run={"criteria": ["size-limit"], "crack_length_limit": "100 mm"}, **kw)
+
+
+def test_surface_crack_uniform_profile_reproduces_newman_raju_life():
+    # Shen & Glinka (1991) weight functions use Newman–Raju tension and bending as references,
+    # so a uniform profile gives the shape's own K at both points and the same LEFM life
+    plain = predict_life(_surface()).summary
+    prof = predict_life(_surface(geometry={"stress_profile": {
+        "kind": "polynomial", "coefficients": [1.0]}})).summary
+    assert prof["end_reason"] == plain["end_reason"] == "leak"
+    assert prof["cycles_to_end"] == pytest.approx(plain["cycles_to_end"], rel=5e-3)
+
+
+def test_surface_crack_bending_profile_matches_bending_ratio():
+    # a linear profile σ(1 − 2x/t)·… equals membrane + bending (BS 7910 linearisation): the
+    # profile [1 + β, −2β] is P_m = 1, P_b = β, as bending_ratio = β in the Newman–Raju shape
+    beta = 0.5
+    shape = predict_life(_surface(geometry={"bending_ratio": beta})).summary
+    prof = predict_life(_surface(geometry={"stress_profile": {
+        "kind": "polynomial", "coefficients": [1.0 + beta, -2.0 * beta]}})).summary
+    assert prof["cycles_to_end"] == pytest.approx(shape["cycles_to_end"], rel=1e-2)
