@@ -20,13 +20,16 @@ def crack_growth_figure(result):
     plt = _plt()
     h, s = result.history, result.summary
     fig, ax = plt.subplots(figsize=(6.4, 4.2))
-    ax.plot(h["cycle"], h["a_mm"], lw=1.6, label="crack size")
+    ax.plot(h["cycle"], h["a_mm"], lw=1.6,
+            label="depth a" if "c_mm" in h else "crack size")
+    if "c_mm" in h:
+        ax.plot(h["cycle"], h["c_mm"], lw=1.4, color="C1", label="half-length c")
     ax.plot([s["cycles_to_end"]], [s["a_end_mm"]], "o", color="C3",
             label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles")
     ax.axhline(s["critical_crack_length_mm"], ls="--", color="0.5", lw=1,
                label=f"critical size at peak load ({s['critical_crack_criterion']})")
     ax.set_xlabel("cycles N")
-    ax.set_ylabel("crack size a [mm]")
+    ax.set_ylabel("crack size [mm]")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8, loc="upper left")
     return fig
