@@ -8,27 +8,37 @@ Generated with hypothesis, derandomized (fixed seeds), at least 200 inputs per c
 
 from __future__ import annotations
 
+import os
 import shutil
 import tempfile
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, Phase, given, settings
 from hypothesis import strategies as st
 
 from cycj.cli import main
 from tests import mutation_inputs as MI
 
-EXAMPLES = 200
+EXAMPLES = int(os.environ.get("CYCJ_MUTATION_EXAMPLES", "200"))
+#: CYCJ_MUTATION_NOSHRINK=1 reports the first failure as found (faster while fixing)
+PHASES = [Phase.explicit, Phase.generate] if os.environ.get("CYCJ_MUTATION_NOSHRINK") else \
+    list(Phase)
 SETTINGS = settings(max_examples=EXAMPLES, deadline=None, derandomize=True, database=None,
+                    phases=PHASES,
                     suppress_health_check=[HealthCheck.function_scoped_fixture,
                                            HealthCheck.too_slow, HealthCheck.data_too_large])
+
+
+class _Bases(tuple):
+    def __repr__(self):
+        return "<base inputs>"
 
 
 @pytest.fixture(scope="module")
 def bases(tmp_path_factory):
     root = tmp_path_factory.mktemp("mutations")
-    return root, MI.write_bases(root / "bases")
+    return _Bases((root, MI.write_bases(root / "bases")))
 
 
 def _materialise(root: Path, bases: dict, names, mutated: str | None, payload: bytes | None):
