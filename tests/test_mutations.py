@@ -14,7 +14,7 @@ import tempfile
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, Phase, given, settings
+from hypothesis import HealthCheck, Phase, event, given, settings
 from hypothesis import strategies as st
 
 from cycj.cli import main
@@ -63,6 +63,7 @@ def _run(args, capsys):
 
 
 def _check_outcome(code, err, args, what, workdir: Path, out_json: str | None = None):
+    event(f"exit {code}")
     msg = f"{what}\nargs: {args}\nstderr: {err[-2000:]}"
     assert code in (0, 2), msg
     assert "Traceback" not in err and "internal error" not in err, msg

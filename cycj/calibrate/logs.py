@@ -82,10 +82,23 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
             raise CycjInputError(f"column '{c}' holds a value that is not a finite number",
                                  source=src, line=int(bad[0]) + 2, found=str(df[c].iloc[bad[0]]))
         data[c] = vals
+    _check_cycles(data["cycle"], src)
     name = path.name
     if kind == "crack":
         return _crack_log(name, data, crack_factor, load_factor)
     return _raw_log(name, data, load_factor, displacement_factor)
+
+
+def _check_cycles(cyc, src):
+    """Cycle counts are ≥ 0 and, once they change, span at least one cycle."""
+    neg = np.flatnonzero(cyc < 0)
+    if neg.size:
+        raise CycjInputError("negative cycle count", source=src, line=int(neg[0]) + 2,
+                             expected="a count ≥ 0", found=float(cyc[neg[0]]))
+    if cyc.size and 0 < cyc.max() - cyc.min() < 1.0:
+        raise CycjInputError("the cycle counts of the whole log span less than one cycle",
+                             source=src, key="cycle", expected="counts in cycles",
+                             found=float(cyc.max() - cyc.min()))
 
 
 def _crack_log(name, data, crack_factor, load_factor):
