@@ -17,6 +17,7 @@ from pathlib import Path
 import numpy as np
 
 from cycj.errors import CycjInputError
+from cycj.spectrum.reading import MAX_LOAD
 
 RAW_COLUMNS = ("cycle", "load", "displacement")
 CRACK_COLUMNS = ("cycle", "crack_length", "load_max", "load_min")
@@ -81,6 +82,11 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
         if bad.size and (c == "cycle" or kind == "crack"):
             raise CycjInputError(f"column '{c}' holds a value that is not a finite number",
                                  source=src, line=int(bad[0]) + 2, found=str(df[c].iloc[bad[0]]))
+        big = np.flatnonzero(np.abs(vals) > MAX_LOAD)
+        if big.size:
+            raise CycjInputError(f"column '{c}' holds an implausible value", source=src,
+                                 line=int(big[0]) + 2, expected=f"magnitude below {MAX_LOAD:g}",
+                                 found=str(df[c].iloc[big[0]]))
         data[c] = vals
     _check_cycles(data["cycle"], src)
     name = path.name
