@@ -239,7 +239,33 @@ def mutate_dict(d: dict, path: tuple, action: str, value=None) -> dict:
         parent[last] = value
     elif action == "unknown" and isinstance(parent, dict):
         parent[f"{last}_extra"] = value
+    elif action == "scale":
+        parent[last] = scale_value(parent[last], value)
     return d
+
+
+#: factors for valid-but-extreme values (a quantity scaled, unit kept)
+SCALES = [1e-9, 1e-4, 1e-2, 0.1, 0.5, 0.9, 0.99, 1.01, 1.1, 1.5, 2.0, 3.0, 10.0, 100.0, 1e4,
+          1e9]
+
+
+def scale_value(v, factor):
+    """``v`` times ``factor``: numbers, the number of a quantity string, or list items."""
+    if isinstance(v, bool):
+        return v
+    if isinstance(v, (int, float)):
+        return v * factor
+    if isinstance(v, str):
+        head, _, unit = v.partition(" ")
+        try:
+            return f"{float(head) * factor:.12g} {unit}".strip()
+        except ValueError:
+            return v
+    if isinstance(v, list):
+        return [scale_value(x, factor) for x in v]
+    if isinstance(v, dict):
+        return {k: scale_value(x, factor) for k, x in v.items()}
+    return v
 
 
 BAD_CELLS = ["nan", "inf", "-inf", "", "abc", "1e308", "-1e308", "0", "-5", "1e-300",

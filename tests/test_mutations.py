@@ -87,9 +87,11 @@ def _check_outcome(code, err, args, what, workdir: Path, out_json: str | None = 
 # ------------------------------------------------------------------------------ strategies
 def toml_mutation(base: dict):
     paths = MI.leaf_paths(base)
-    one = st.tuples(st.sampled_from(paths), st.sampled_from(["delete", "replace", "replace",
+    bad = st.tuples(st.sampled_from(paths), st.sampled_from(["delete", "replace", "replace",
                                                              "replace", "unknown"]),
                     st.sampled_from(MI.BAD_VALUES))
+    extreme = st.tuples(st.sampled_from(paths), st.just("scale"), st.sampled_from(MI.SCALES))
+    one = st.one_of(bad, extreme)
     structured = st.lists(one, min_size=1, max_size=2).map(lambda ms: _apply_toml(base, ms))
     text = st.tuples(st.sampled_from(MI.TEXT_KINDS), st.integers(0, 10**6),
                      st.binary(min_size=1, max_size=48)).map(
