@@ -31,7 +31,7 @@ from cycj.errors import CycjInputError
 def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots,
           as_json):
     """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
-    from cycj.outputs import OutputDir, dumps, provenance
+    from cycj.outputs import OutputDir, dumps, record_provenance
     from cycj.spectrum.rainflow import rainflow_cycles
     from cycj.spectrum.reading import history_unit, read_history_with_time
     from cycj.spectrum.summary import (
@@ -56,8 +56,7 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
     summary["parameters"] = {"column": column, "unit": unit, "unit_factor": factor,
                              "scale": scale, "gate": gate_value, "repeat": repeat,
                              "bins": bins, "internal_unit": internal}
-    summary["provenance"] = provenance({"history": history})
-    summary["history_sha256"] = summary["provenance"].get("history_sha256")
+    record_provenance(summary, {"history": history}, method=summary["method"])
     if od is not None:
         with od:
             files = write_count_outputs(od, values, cycles, internal, times, bins,
