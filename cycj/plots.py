@@ -50,7 +50,8 @@ def driving_force_figure(result):
     plt = _plt()
     h = result.history
     fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
-    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=".", label="ΔJ_eq of the block")
+    dot = "o" if len(h) < 3 else None      # a run that ends at once has a single point
+    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
     ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", label="largest cycle ΔJ_eff")
     _widen(ax1, h["a_mm"])
     ax1.set_xlabel("crack size a [mm]")
@@ -61,7 +62,7 @@ def driving_force_figure(result):
     ax1.legend(fontsize=8)
     rate = h["dadN_mm_per_cycle"].to_numpy()
     ok = rate > 0
-    ax2.plot(h["a_mm"][ok], rate[ok], color="C2", marker=".")
+    ax2.plot(h["a_mm"][ok], rate[ok], color="C2", marker=dot)
     _widen(ax2, h["a_mm"])
     ax2.set_xlabel("crack size a [mm]")
     ax2.set_ylabel("da/dN [mm/cycle]")
