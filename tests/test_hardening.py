@@ -229,3 +229,13 @@ def test_doubtful_inputs_warn(tmp_path, capsys):
     assert "near the upper end" in text and "close to plastic collapse" in text
     html = (tmp_path / "o" / "report.html").read_text()
     assert "near the upper end" in html and "Validity warnings" in html
+
+
+def test_huge_scatter_is_input_error(tmp_path, capsys):
+    """A lognormal sigma of 3000 overflowed the Monte Carlo sampling (found by the mutation
+    tests); spreads are now bounded when read."""
+    d = MI.mutate_dict(MI.CASE_PLAN, ("inspection", "scatter", "growth_C"), "scale", 1e4)
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(d))
+    code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
+    assert code == 2 and "inspection.scatter.growth_C.sigma" in err and "out of range" in err

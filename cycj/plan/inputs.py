@@ -79,6 +79,10 @@ _KINDS = {"growth_C": "C", "initial_crack": "length", "toughness": "energy_per_a
           "load_scale": "factor"}
 
 
+#: spreads beyond these make the sampled values overflow (e^(6σ) at σ = 3 is already 7e7)
+SIGMA_MAX, COV_MAX, SHAPE_MIN = 3.0, 10.0, 0.5
+
+
 def read_dist(t: Table, name: str, base: float, kind: str) -> sc.Dist:
     """One scattered input.  ``base`` is the case's value (median by default)."""
     dist = t.choice("distribution", sc.DISTRIBUTIONS, required=True)
@@ -101,11 +105,11 @@ def read_dist(t: Table, name: str, base: float, kind: str) -> sc.Dist:
         value = t.quantity("value", "length", positive=True) if kind == "length" else None
         t.finish()
         return sc.fixed(value if value is not None else (median or mean or base))
-    sigma = t.number("sigma", positive=True)
-    cov = t.number("cov", positive=True)
+    sigma = t.number("sigma", lo=(1e-12, "0"), hi=(SIGMA_MAX, f"{SIGMA_MAX:g}"))
+    cov = t.number("cov", lo=(1e-12, "0"), hi=(COV_MAX, f"{COV_MAX:g}"))
     sd = t.quantity("sd", "length", positive=True) if kind == "length" else t.number(
         "sd", positive=True)
-    shape = t.number("shape", positive=True)
+    shape = t.number("shape", lo=(SHAPE_MIN, f"{SHAPE_MIN:g}"), hi=(1e3, "1000"))
     t.finish()
     given = [k for k, v in (("sigma", sigma), ("cov", cov), ("sd", sd), ("shape", shape))
              if v is not None]
