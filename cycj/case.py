@@ -144,7 +144,7 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
     mat_t.finish()
     loading = _loading(top.table("loading", required=True), geometry, base or Path("."))
     analysis = _analysis(top.table("analysis"))
-    run = _run(top.table("run"), geometry)
+    run = _run(top.table("run"), geometry, source)
     inspection = top.get("inspection")
     if inspection is not None and not isinstance(inspection, dict):
         raise CycjInputError("must be a table", source=source, key="inspection",
@@ -448,12 +448,22 @@ def _analysis(t: Table | None) -> Analysis:
     return Analysis(jm, fad)
 
 
-def _run(t: Table | None, geometry: Geometry) -> RunOptions:
+NEEDS_LIMIT = ("an infinite or semi-infinite body sets no size limit of its own: give "
+               "crack_length_limit")
+
+
+def _run(t: Table | None, geometry: Geometry, source: str | None = None) -> RunOptions:
+    unbounded = math.isinf(geometry.size_limits[1])
     if t is None:
+        if unbounded:
+            raise CycjInputError(NEEDS_LIMIT, source=source, key="run.crack_length_limit",
+                                 expected='a size such as "100 mm"')
         return RunOptions()
     method = t.choice("method", ("auto", "cycle", "block"), default="auto")
     maxc = t.number("max_cycles", default=1e9, positive=True)
     limit = t.quantity("crack_length_limit", "length", positive=True)
+    if limit is None and unbounded:
+        raise t.error("crack_length_limit", NEEDS_LIMIT, expected='a size such as "100 mm"')
     if limit is not None and not limit > geometry.crack_length:
         raise t.error("crack_length_limit", "must exceed the initial crack",
                       expected=f"> {geometry.crack_length:g} mm", found=limit)
