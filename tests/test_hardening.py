@@ -239,3 +239,15 @@ def test_huge_scatter_is_input_error(tmp_path, capsys):
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
     assert code == 2 and "inspection.scatter.growth_C.sigma" in err and "out of range" in err
+
+
+@pytest.mark.parametrize("drop", ["crack_length_limit", "run"])
+def test_infinite_body_needs_a_size_limit(tmp_path, capsys, drop):
+    """An infinite plate without crack_length_limit built a grid up to infinity (found by the
+    mutation tests); it is now an input error naming the key."""
+    path = ("run", "crack_length_limit") if drop != "run" else ("run",)
+    d = MI.mutate_dict(MI.CASE_PLAN, path, "delete")
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(d))
+    code, _, err = run_cli(["check", p], capsys)
+    assert code == 2 and "run.crack_length_limit" in err and "p.toml" in err
