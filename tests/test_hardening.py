@@ -251,3 +251,13 @@ def test_infinite_body_needs_a_size_limit(tmp_path, capsys, drop):
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["check", p], capsys)
     assert code == 2 and "run.crack_length_limit" in err and "p.toml" in err
+
+
+def test_tiny_inspection_interval_is_input_error(tmp_path, capsys):
+    """An interval of 1e-300 cycles asked for an array of 1e306 inspections (found by the
+    mutation tests)."""
+    d = MI.mutate_dict(MI.CASE_PLAN, ("inspection", "intervals", 1), "replace", 1e-300)
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(d))
+    code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
+    assert code == 2 and "inspection.intervals" in err and "more than 2000" in err

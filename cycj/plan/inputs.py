@@ -79,6 +79,8 @@ _KINDS = {"growth_C": "C", "initial_crack": "length", "toughness": "energy_per_a
           "load_scale": "factor"}
 
 
+#: most inspections over a design life (what-if intervals and the interval search)
+MAX_INSPECTIONS = 2000
 #: spreads beyond these make the sampled values overflow (e^(6σ) at σ = 3 is already 7e7)
 SIGMA_MAX, COV_MAX, SHAPE_MIN = 3.0, 10.0, 0.5
 
@@ -170,6 +172,10 @@ def read_inspection(case) -> PlanInputs:
     else:
         det, det_src = pod.a90, "the POD's a90"
     intervals = _times(t, "intervals")
+    if intervals is not None and min(intervals) < life / MAX_INSPECTIONS:
+        raise t.error("intervals", f"an interval this short means more than {MAX_INSPECTIONS} "
+                      "inspections in the design life", expected=f"≥ {life / MAX_INSPECTIONS:g}"
+                      " cycles", found=min(intervals))
     if intervals is None:
         intervals = tuple(life / n for n in (16, 8, 4, 2))
     schedule = _times(t, "schedule", life)
@@ -183,8 +189,9 @@ def read_inspection(case) -> PlanInputs:
                       found=target)
     repair = t.choice("repair", ("renew", "remove"), default="renew")
     max_insp = t.number("max_inspections", default=100, integer=True)
-    if not 1 <= max_insp <= 2000:
-        raise t.error("max_inspections", "out of range", expected="1 to 2000", found=max_insp)
+    if not 1 <= max_insp <= MAX_INSPECTIONS:
+        raise t.error("max_inspections", "out of range", expected=f"1 to {MAX_INSPECTIONS}",
+                      found=max_insp)
     chunk = t.number("chunk_size", default=10_000, integer=True)
     if not 100 <= chunk <= 1_000_000:
         raise t.error("chunk_size", "out of range", expected="100 to 1e6", found=chunk)
