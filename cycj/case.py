@@ -448,6 +448,8 @@ def _analysis(t: Table | None) -> Analysis:
     return Analysis(jm, fad)
 
 
+#: largest crack size a run may aim at [mm] (beyond it growth and J overflow)
+MAX_CRACK_MM = 1e5
 NEEDS_LIMIT = ("an infinite or semi-infinite body sets no size limit of its own: give "
                "crack_length_limit")
 
@@ -461,7 +463,8 @@ def _run(t: Table | None, geometry: Geometry, source: str | None = None) -> RunO
         return RunOptions()
     method = t.choice("method", ("auto", "cycle", "block"), default="auto")
     maxc = t.number("max_cycles", default=1e9, positive=True)
-    limit = t.quantity("crack_length_limit", "length", positive=True)
+    limit = t.quantity("crack_length_limit", "length", lo=(1e-9, "0 mm"),
+                       hi=(MAX_CRACK_MM, f"{MAX_CRACK_MM:g} mm"))
     if limit is None and unbounded:
         raise t.error("crack_length_limit", NEEDS_LIMIT, expected='a size such as "100 mm"')
     if limit is not None and not limit > geometry.crack_length:
