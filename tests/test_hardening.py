@@ -261,3 +261,12 @@ def test_tiny_inspection_interval_is_input_error(tmp_path, capsys):
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
     assert code == 2 and "inspection.intervals" in err and "more than 2000" in err
+
+
+def test_huge_crack_length_limit_is_input_error(tmp_path, capsys):
+    """crack_length_limit = 1e300 mm made the block growth overflow (mutation tests)."""
+    d = MI.mutate_dict(MI.CASE_PLAN, ("run", "crack_length_limit"), "replace", 1e300)
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(d))
+    code, _, err = run_cli(["check", p], capsys)
+    assert code == 2 and "run.crack_length_limit" in err and "out of range" in err
