@@ -270,3 +270,12 @@ def test_huge_crack_length_limit_is_input_error(tmp_path, capsys):
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["check", p], capsys)
     assert code == 2 and "run.crack_length_limit" in err and "out of range" in err
+
+
+def test_huge_pod_spread_is_input_error(tmp_path, capsys):
+    """A POD sigma of 4000 overflowed math.exp (mutation tests)."""
+    d = MI.mutate_dict(MI.CASE_PLAN, ("inspection", "pod"), "scale", 1e4)
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(d))
+    code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
+    assert code == 2 and "inspection.pod.sigma" in err and "out of range" in err

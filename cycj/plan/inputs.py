@@ -56,13 +56,18 @@ class PlanInputs:
     findings: tuple = ()
 
 
+#: widest POD curve accepted (spread in ln a; a90/a50 = e^(1.28·5) ≈ 600 already)
+POD_SIGMA_MAX = 5.0
+
+
 def read_pod(t: Table) -> PodCurve:
     """A POD inline table: ``model``, one of ``a50``/``a90``, ``sigma``, ``ceiling``, and
     optionally ``a90_95`` (from a fit to data)."""
     model = t.choice("model", POD_MODELS, default="lognormal")
     a50 = t.quantity("a50", "length", positive=True)
     a90 = t.quantity("a90", "length", positive=True)
-    sigma = t.number("sigma", required=True, positive=True)
+    sigma = t.number("sigma", required=True, lo=(1e-6, "0"), hi=(POD_SIGMA_MAX,
+                                                                f"{POD_SIGMA_MAX:g}"))
     ceiling = t.number("ceiling", default=1.0)
     if not 0 < ceiling <= 1:
         raise t.error("ceiling", "out of range", expected="0 < ceiling ≤ 1", found=ceiling)
