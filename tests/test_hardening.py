@@ -279,3 +279,12 @@ def test_huge_pod_spread_is_input_error(tmp_path, capsys):
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
     assert code == 2 and "inspection.pod.sigma" in err and "out of range" in err
+
+
+def test_error_with_control_characters_stays_on_one_line(tmp_path, capsys):
+    """A key holding a form feed (TOML escape) split the error over two lines (mutation
+    tests)."""
+    p = tmp_path / "p.toml"
+    p.write_text(MI.to_toml(MI.CASE_PLAN).replace('"safety_factor"', '"safety_\\factor"'))
+    code, _, err = run_cli(["check", p], capsys)
+    assert code == 2 and len(err.strip().splitlines()) == 1 and "\\x0c" in err
