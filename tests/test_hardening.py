@@ -286,5 +286,5 @@ def test_error_with_control_characters_stays_on_one_line(tmp_path, capsys):
     tests)."""
     p = tmp_path / "p.toml"
     p.write_text(MI.to_toml(MI.CASE_PLAN).replace('"safety_factor"', '"safety_\\factor"'))
-    code, _, err = run_cli(["check", p], capsys)
+    code, _, err = run_cli(["plan", p, "--out", tmp_path / "o", "--no-plots"], capsys)
     assert code == 2 and len(err.strip().splitlines()) == 1 and "\\x0c" in err
