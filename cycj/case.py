@@ -21,6 +21,8 @@ from cycj.units import rate_factor, registry, to_internal
 CLOSURE_MODELS = ("none", "elber", "newman", "constant")
 SEQUENCE_MODELS = ("none", "wheeler", "willenborg")
 CRITERIA = ("toughness", "tearing", "fad", "collapse", "size-limit")
+#: largest growth exponent accepted (ΔK exponents of metals and polymers stay well below)
+M_MAX = 20.0
 END_REASONS = ("toughness", "tearing", "fad", "collapse", "size-limit", "leak", "max-cycles",
                "no-growth")
 
@@ -143,7 +145,7 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
     mat_t.finish()
     loading = _loading(top.table("loading", required=True), geometry, base or Path("."))
     analysis = _analysis(top.table("analysis"))
-    run = _run(top.table("run"), geometry)
+    run = _run(top.table("run"), geometry, source)
     inspection = top.get("inspection")
     if inspection is not None and not isinstance(inspection, dict):
         raise CycjInputError("must be a table", source=source, key="inspection",
@@ -310,9 +312,9 @@ def _growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
             raise t.error("from_delta_K", "give C and m either here or in from_delta_K")
         out = _delta_k_law(dk, e_prime, basis=basis, law=law, toughness_exponent=q)
         t.finish()
-        return out
+        return _finite_law(out, dk)
     c = t.number("C", required=True, positive=True)
-    m = t.number("m", required=True, positive=True)
+    m = t.number("m", required=True, lo=(1e-3, "0.001"), hi=(M_MAX, str(M_MAX)))
     rate_unit = t.string("rate_unit", default="mm")
     driving_unit = t.string("driving_unit", default="kJ/m^2")
     thr_raw = t.get("threshold")
@@ -322,15 +324,25 @@ def _growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
         c_k = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
         thr = 0.0 if thr_raw is None else to_internal(thr_raw, kind, key=t.key("threshold"),
                                                       source=t.source)
-        return from_delta_k(c_k, m, e_prime, thr, basis=basis, law=law, toughness_exponent=q,
-                            converted_from={"C": c, "m": m, "rate_unit": rate_unit,
-                                            "driving_unit": driving_unit})
+        return _finite_law(from_delta_k(
+            c_k, m, e_prime, thr, basis=basis, law=law, toughness_exponent=q,
+            converted_from={"C": c, "m": m, "rate_unit": rate_unit,
+                            "driving_unit": driving_unit}), t)
     c_int = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
     thr = 0.0 if thr_raw is None else to_internal(thr_raw, "energy_per_area",
                                                   key=t.key("threshold"), source=t.source)
     if thr < 0:
         raise t.error("threshold", "out of range", expected="≥ 0", found=thr_raw)
-    return GrowthLaw(c_int, m, thr, basis, law, q)
+    return _finite_law(GrowthLaw(c_int, m, thr, basis, law, q), t)
+
+
+def _finite_law(law: GrowthLaw, t: Table) -> GrowthLaw:
+    """The law in internal units must have a finite C > 0 (units or m can push it out)."""
+    if not (math.isfinite(law.C) and law.C > 0 and math.isfinite(law.threshold)):
+        raise t.error("C", "the coefficient in internal units (mm/cycle, kJ/m²) is not a "
+                      "finite number > 0", expected="C, m and units that give a finite law",
+                      found=law.C)
+    return law
 
 
 def _driving_kind(unit: str, t: Table, key: str) -> str:
@@ -346,7 +358,7 @@ def _driving_kind(unit: str, t: Table, key: str) -> str:
 
 def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
     c = t.number("C", required=True, positive=True)
-    m = t.number("m", required=True, positive=True)
+    m = t.number("m", required=True, lo=(1e-3, "0.001"), hi=(M_MAX, str(M_MAX)))
     rate_unit = t.string("rate_unit", default="mm")
     driving_unit = t.string("driving_unit", default="MPa*mm**0.5")
     thr = t.quantity("threshold", "stress_intensity", nonnegative=True, default=0.0)
@@ -487,12 +499,25 @@ def _analysis(t: Table | None) -> Analysis:
     return Analysis(jm, fad)
 
 
-def _run(t: Table | None, geometry: Geometry) -> RunOptions:
+#: largest crack size a run may aim at [mm] (beyond it growth and J overflow)
+MAX_CRACK_MM = 1e5
+NEEDS_LIMIT = ("an infinite or semi-infinite body sets no size limit of its own: give "
+               "crack_length_limit")
+
+
+def _run(t: Table | None, geometry: Geometry, source: str | None = None) -> RunOptions:
+    unbounded = math.isinf(geometry.size_limits[1])
     if t is None:
+        if unbounded:
+            raise CycjInputError(NEEDS_LIMIT, source=source, key="run.crack_length_limit",
+                                 expected='a size such as "100 mm"')
         return RunOptions()
     method = t.choice("method", ("auto", "cycle", "block"), default="auto")
     maxc = t.number("max_cycles", default=1e9, positive=True)
-    limit = t.quantity("crack_length_limit", "length", positive=True)
+    limit = t.quantity("crack_length_limit", "length", lo=(1e-9, "0 mm"),
+                       hi=(MAX_CRACK_MM, f"{MAX_CRACK_MM:g} mm"))
+    if limit is None and unbounded:
+        raise t.error("crack_length_limit", NEEDS_LIMIT, expected='a size such as "100 mm"')
     if limit is not None and not limit > geometry.crack_length:
         raise t.error("crack_length_limit", "must exceed the initial crack",
                       expected=f"> {geometry.crack_length:g} mm", found=limit)

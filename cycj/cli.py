@@ -15,6 +15,7 @@ import click
 COMMANDS = {
     "check": "cycj.commands.check:check",
     "count": "cycj.commands.count:count",
+    "demo": "cycj.commands.demo:demo",
     "geometries": "cycj.commands.check:geometries",
     "plan": "cycj.commands.plan:plan",
     "pod": "cycj.commands.pod:pod",

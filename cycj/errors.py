@@ -26,7 +26,14 @@ class CycjInputError(ValueError):
             parts.append(f"expected {expected}")
         if found is not None:
             parts.append(f"found {found!r}")
-        super().__init__(": ".join(parts[:2]) + ("; " + "; ".join(parts[2:]) if parts[2:] else ""))
+        text = ": ".join(parts[:2]) + ("; " + "; ".join(parts[2:]) if parts[2:] else "")
+        super().__init__(one_line(text))
+
+
+def one_line(text: str) -> str:
+    """``text`` with control characters (line breaks, form feeds …) shown as escapes, so an
+    error stays on one line whatever a file's keys or values hold."""
+    return "".join(c if c.isprintable() or c == " " else repr(c)[1:-1] for c in text)
 
 
 class ValidityRangeError(ValueError):

@@ -31,7 +31,7 @@ def answer_sentence(s: dict) -> str:
 def run_and_write(case, out: Path, *, method=None, force=False, plots=True, progress=None):
     """Run :func:`cycj.life.predict_life` and write every output atomically; return summary."""
     from cycj.life import predict_life
-    from cycj.outputs import OutputDir, provenance
+    from cycj.outputs import OutputDir, record_provenance
 
     inputs = {"case": case.path}
     if case.loading.history is not None:
@@ -39,8 +39,7 @@ def run_and_write(case, out: Path, *, method=None, force=False, plots=True, prog
     od = OutputDir(out, force=force, inputs=[p for p in inputs.values() if p])
     result = predict_life(case, method=method, progress=progress)
     summary = dict(result.summary)
-    summary["provenance"] = provenance(inputs)
-    summary["case_sha256"] = summary["provenance"].get("case_sha256")
+    record_provenance(summary, inputs, method=summary["method"], seed=None)
     with od:
         od.write_csv("history.csv", result.history)
         figures = []

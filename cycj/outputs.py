@@ -143,3 +143,14 @@ def provenance(inputs: dict | None = None, **extra) -> dict:
             out[f"{name}_path"] = str(p)
     out.update(extra)
     return out
+
+
+def record_provenance(summary: dict, inputs: dict | None = None, **extra) -> dict:
+    """Put :func:`provenance` into ``summary["provenance"]`` and copy each input's SHA-256 to
+    the top level (``case_sha256``, ``history_sha256`` …); returns ``summary``."""
+    prov = provenance(inputs, **extra)
+    summary["provenance"] = prov
+    for k, v in prov.items():
+        if k.endswith("_sha256"):
+            summary[k] = v
+    return summary

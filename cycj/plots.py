@@ -15,6 +15,18 @@ def _plt():
     return plt
 
 
+def _widen(ax, values, axis="x", log=False):
+    """Give an axis a finite span when all its values are equal (a run that ends at its first
+    cycle has one point; a zero span breaks the layout)."""
+    v = np.asarray(values, float)
+    v = v[np.isfinite(v)]
+    if v.size and np.ptp(v) <= 1e-9 * np.abs(v).max():
+        c = float(v[0])
+        half = 0.05 * abs(c) if c else 1.0
+        lim = (c / 2, c * 2) if log and c > 0 else (c - half, c + half)
+        (ax.set_xlim if axis == "x" else ax.set_ylim)(*lim)
+
+
 def crack_growth_figure(result):
     """a vs N with the end point and the critical crack size."""
     plt = _plt()
@@ -28,6 +40,7 @@ def crack_growth_figure(result):
             label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles")
     ax.axhline(s["critical_crack_length_mm"], ls="--", color="0.5", lw=1,
                label=f"critical size at peak load ({s['critical_crack_criterion']})")
+    _widen(ax, h["cycle"])
     ax.set_xlabel("cycles N")
     ax.set_ylabel("crack size [mm]")
     ax.grid(alpha=0.3)
@@ -40,19 +53,24 @@ def driving_force_figure(result):
     plt = _plt()
     h = result.history
     fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
-    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], label="ΔJ_eq of the block")
+    dot = "o" if len(h) < 3 else None      # a run that ends at once has a single point
+    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
     ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", label="largest cycle ΔJ_eff")
+    _widen(ax1, h["a_mm"])
     ax1.set_xlabel("crack size a [mm]")
     ax1.set_ylabel("ΔJ [kJ/m²]")
     ax1.set_yscale("log")
+    _widen(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]), "y", log=True)
     ax1.grid(alpha=0.3, which="both")
     ax1.legend(fontsize=8)
     rate = h["dadN_mm_per_cycle"].to_numpy()
     ok = rate > 0
-    ax2.plot(h["a_mm"][ok], rate[ok], color="C2")
+    ax2.plot(h["a_mm"][ok], rate[ok], color="C2", marker=dot)
+    _widen(ax2, h["a_mm"])
     ax2.set_xlabel("crack size a [mm]")
     ax2.set_ylabel("da/dN [mm/cycle]")
     ax2.set_yscale("log")
+    _widen(ax2, rate[ok], "y", log=True)
     ax2.grid(alpha=0.3, which="both")
     fig.tight_layout()
     return fig

@@ -66,6 +66,8 @@ def render_report(*, title: str, question: str, answer: str, inputs=(), figures=
         parts.append("<h2>Inputs</h2><table><tr><th>item</th><th>value</th></tr>")
         parts += [f"<tr><td>{e(str(k))}</td><td>{e(str(v))}</td></tr>" for k, v in inputs]
         parts.append("</table>")
+    if figures:
+        parts.append("<h2>Plots</h2>")
     for caption, src in figures:
         parts.append(f"<figure><img src='{_img(src)}' alt='{html.escape(caption)}'>"
                      f"<figcaption>{e(caption)}</figcaption></figure>")

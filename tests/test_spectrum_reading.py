@@ -137,7 +137,7 @@ def test_count_command_outputs_and_refusal(tmp_path, capsys):
     names = sorted(p.name for p in out_dir.iterdir())
     assert names == sorted(["cycles.csv", "range_mean_matrix.csv", "from_to_matrix.csv",
                             "exceedance.csv", "history.png", "exceedance.png",
-                            "rainflow_matrix.png"])
+                            "rainflow_matrix.png", "count.json", "report.html"])
     import pandas as pd
 
     table = pd.read_csv(out_dir / "cycles.csv")

@@ -131,6 +131,8 @@ def k_gradient(a, delta_j):
     ½·d(ln ΔJ)/da by a least-squares line.  ASTM E647 asks for ≥ −0.08 mm⁻¹ when K decreases."""
     a = np.asarray(a, float)
     dj = np.asarray(delta_j, float)
+    ok = np.isfinite(a) & np.isfinite(dj) & (dj > 0)
+    a, dj = a[ok], dj[ok]
     if a.size < 3 or np.ptp(a) <= 0:
         return float("nan")
     return float(0.5 * np.polyfit(a, np.log(dj), 1)[0])
@@ -167,7 +169,7 @@ def direct_fit(series, C0, m0, confidence=0.95):
         dj = np.interp(ag, s["a_tab"], s["dj_tab"])
         # extend beyond the data with the last slope in ln ΔJ – a
         tail = ag > s["a_tab"][-1]
-        if tail.any() and len(s["a_tab"]) > 1:
+        if tail.any() and len(s["a_tab"]) > 1 and min(s["dj_tab"][-2:]) > 0:
             k = np.log(s["dj_tab"][-1] / s["dj_tab"][-2]) / max(
                 s["a_tab"][-1] - s["a_tab"][-2], 1e-9)
             dj[tail] = s["dj_tab"][-1] * np.exp(k * (ag[tail] - s["a_tab"][-1]))

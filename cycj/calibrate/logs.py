@@ -17,6 +17,7 @@ from pathlib import Path
 import numpy as np
 
 from cycj.errors import CycjInputError
+from cycj.spectrum.reading import MAX_LOAD
 
 RAW_COLUMNS = ("cycle", "load", "displacement")
 CRACK_COLUMNS = ("cycle", "crack_length", "load_max", "load_min")
@@ -81,11 +82,29 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
         if bad.size and (c == "cycle" or kind == "crack"):
             raise CycjInputError(f"column '{c}' holds a value that is not a finite number",
                                  source=src, line=int(bad[0]) + 2, found=str(df[c].iloc[bad[0]]))
+        big = np.flatnonzero(np.abs(vals) > MAX_LOAD)
+        if big.size:
+            raise CycjInputError(f"column '{c}' holds an implausible value", source=src,
+                                 line=int(big[0]) + 2, expected=f"magnitude below {MAX_LOAD:g}",
+                                 found=str(df[c].iloc[big[0]]))
         data[c] = vals
+    _check_cycles(data["cycle"], src)
     name = path.name
     if kind == "crack":
         return _crack_log(name, data, crack_factor, load_factor)
     return _raw_log(name, data, load_factor, displacement_factor)
+
+
+def _check_cycles(cyc, src):
+    """Cycle counts are ≥ 0 and, once they change, span at least one cycle."""
+    neg = np.flatnonzero(cyc < 0)
+    if neg.size:
+        raise CycjInputError("negative cycle count", source=src, line=int(neg[0]) + 2,
+                             expected="a count ≥ 0", found=float(cyc[neg[0]]))
+    if cyc.size and 0 < cyc.max() - cyc.min() < 1.0:
+        raise CycjInputError("the cycle counts of the whole log span less than one cycle",
+                             source=src, key="cycle", expected="counts in cycles",
+                             found=float(cyc.max() - cyc.min()))
 
 
 def _crack_log(name, data, crack_factor, load_factor):

@@ -98,9 +98,24 @@ def _correct(specimen, a, ok):
             "linear in extension to the first and last optical readings")
 
 
+def _finite_delta_j(specimen, dj_el, dsig, mat, u):
+    """Reference-stress ΔJ; an overflow (a cyclic curve far below the logged stresses) is an
+    input error naming the specimen file."""
+    from cycj.errors import CycjInputError
+    from cycj.jintegral import reference_stress_delta_j
+
+    with np.errstate(over="ignore", invalid="ignore"):
+        total = reference_stress_delta_j(dj_el, dsig, mat, u)
+    if not np.all(np.isfinite(total)):
+        raise CycjInputError("ΔJ overflows with this cyclic curve at the logged loads",
+                             source=specimen.source, key="cyclic_curve",
+                             expected="K', n' of the material (σ'_y = K'·0.002^n' near the "
+                                      "cyclic yield strength)")
+    return total
+
+
 def _delta_j(specimen, a, p_max, p_min_eff, p_op, comp_pt, area_above):
     """ΔK, ΔK_eff [MPa√mm], ΔJ_el and ΔJ_pl [kJ/m²] and the plastic method used."""
-    from cycj.jintegral import reference_stress_delta_j
 
     geo, mat = specimen.geometry, specimen.material
     kos = geo.k_over_s(a) * geo.nominal_stress_per_force()
@@ -130,7 +145,7 @@ def _delta_j(specimen, a, p_max, p_min_eff, p_op, comp_pt, area_above):
     u = np.clip(dpe / dp, 0, 1)
     dsig = dp * geo.nominal_stress_per_force() * mat.yield_strength / geo.limit_stress(
         a, mat.yield_strength)
-    total = reference_stress_delta_j(dk**2 / specimen.e_prime, dsig, mat, u)
+    total = _finite_delta_j(specimen, dk**2 / specimen.e_prime, dsig, mat, u)
     return dk, dk_eff, dj_el, total - dj_el, (
         "cyclic reference stress method (jintegral.reference_stress_delta_j): no published η "
         "for this shape")
@@ -197,7 +212,6 @@ def reduce_crack_log(log, specimen):
     """Rows for a :class:`~cycj.calibrate.logs.CrackLog` (applied basis: no opening load is
     measured; P_min < 0 counts as 0).  Plastic part by the reference stress method when the
     specimen has a cyclic curve."""
-    from cycj.jintegral import reference_stress_delta_j
 
     skipped = list(log.skipped)
     geo, mat = specimen.geometry, specimen.material
@@ -218,7 +232,7 @@ def reduce_crack_log(log, specimen):
     if mat.cyclic_curve is not None:
         dsig = dp * geo.nominal_stress_per_force() * mat.yield_strength / geo.limit_stress(
             a, mat.yield_strength)
-        total = reference_stress_delta_j(dj_el, dsig, mat, 1.0)
+        total = _finite_delta_j(specimen, dj_el, dsig, mat, 1.0)
         how = "cyclic reference stress method on the applied range"
     else:
         total = dj_el

@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
-import json
+import math
 
 import click
+
+from cycj.errors import CycjInputError
 
 
 @click.command()
@@ -23,27 +25,50 @@ import click
               help="Bins on each axis of the rainflow matrices.")
 @click.option("--out", "out_dir", default=None, type=click.Path(file_okay=False),
               help="Folder for cycles.csv, the matrices and the plots.")
-@click.option("--force", is_flag=True, help="Overwrite the files of a non-empty --out folder.")
+@click.option("--force", is_flag=True, help="Replace a non-empty --out folder.")
+@click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, as_json):
+def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots,
+          as_json):
     """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
+    from cycj.outputs import OutputDir, dumps, record_provenance
     from cycj.spectrum.rainflow import rainflow_cycles
     from cycj.spectrum.reading import history_unit, read_history_with_time
-    from cycj.spectrum.summary import count_summary, prepare_output_dir, write_count_outputs
+    from cycj.spectrum.summary import (
+        CAPTIONS,
+        count_summary,
+        write_count_outputs,
+        write_count_report,
+    )
 
     factor, internal, kind = history_unit(unit, key="--unit")
+    if not math.isfinite(scale) or scale == 0:
+        raise CycjInputError("the scale must be a finite non-zero number", key="--scale",
+                             found=scale)
     gate_value = _gate(gate, factor * scale, kind)
-    if out_dir is not None:
-        prepare_output_dir(out_dir, force=force, inputs=[history])
+    od = OutputDir(out_dir, force=force, inputs=[history]) if out_dir is not None else None
     values, times = read_history_with_time(history, column, factor, scale)
     cycles = rainflow_cycles(values, gate_value, repeat)
     summary = {"history": str(history), "column": column, **count_summary(
         values, cycles, gate_value, repeat, internal)}
-    if out_dir is not None:
-        files = write_count_outputs(out_dir, values, cycles, internal, times, bins)
-        summary["outputs"] = [str(p) for p in files]
+    summary["method"] = "rainflow (ASTM E1049-85 §5.4)" + (
+        ", repeating block" if repeat else ", residue as half cycles")
+    summary["parameters"] = {"column": column, "unit": unit, "unit_factor": factor,
+                             "scale": scale, "gate": gate_value, "repeat": repeat,
+                             "bins": bins, "internal_unit": internal}
+    record_provenance(summary, {"history": history}, method=summary["method"])
+    if od is not None:
+        with od:
+            files = write_count_outputs(od, values, cycles, internal, times, bins,
+                                        plots=not no_plots)
+            if not no_plots:
+                figs = [(CAPTIONS[p.name], p) for p in files if p.suffix == ".png"]
+                files.append(write_count_report(od, summary, figs))
+            summary["outputs"] = [str(od.final_path(p.name)) for p in files] + [
+                str(od.final_path("count.json"))]
+            od.write_json("count.json", summary)
     if as_json:
-        click.echo(json.dumps(summary, indent=2))
+        click.echo(dumps(summary))
         return
     u = f" {internal}" if internal else ""
     click.echo(f"history: {history}")
@@ -57,12 +82,12 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, as_j
                    f"{summary['half_cycles']} half)" + (" [repeating block]" if repeat else ""))
         click.echo(f"largest range: {summary['largest_range']:.6g}{u}")
     if out_dir is not None:
-        click.echo(f"wrote {len(summary['outputs'])} files to {out_dir}")
+        click.echo(f"wrote {len(summary['outputs'])} files to {out_dir}/ (count.json, cycles.csv"
+                   + (", plots, report.html)" if not no_plots else ")"))
 
 
 def _gate(text: str, factor: float, kind: str | None) -> float:
     """The gate in the loads' unit: a bare number is in the file's unit (times the factor)."""
-    from cycj.errors import CycjInputError
     from cycj.units import to_internal
 
     try:

@@ -16,16 +16,19 @@ import click
               type=click.Choice(["auto", "polynomial", "secant", "direct"]),
               help="Fit reported as the recommended C, m (all are computed).")
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print fit.json to stdout.")
-def fit(logs, specimens, out_dir, method, force, as_json):
+def fit(logs, specimens, out_dir, method, force, no_plots, as_json):
     """Fit da/dN = C·ΔJ^m to fatigue crack growth LOGS (raw loops or crack lengths)."""
     from cycj.calibrate import fit_logs
     from cycj.calibrate.report import write_outputs
-    from cycj.outputs import dumps
+    from cycj.outputs import OutputDir, dumps
 
     spec = specimens[0] if len(specimens) == 1 else list(specimens)
+    OutputDir(out_dir, force=force, inputs=[*logs, *specimens])   # refuse early
     result = fit_logs(list(logs), spec, method=method)
-    write_outputs(result, out_dir, logs=logs, specimens=specimens, force=force)
+    write_outputs(result, out_dir, logs=logs, specimens=specimens, force=force,
+                  plots=not no_plots)
     if as_json:
         click.echo(dumps(result.summary))
         return
@@ -36,4 +39,5 @@ def fit(logs, specimens, out_dir, method, force, as_json):
                f"({s['recommended_fit']} fit, basis {s['basis']})")
     click.echo(f"skipped readings: {len(result.skipped)}; warnings: {len(result.warnings)}")
     click.echo(result.snippet.rstrip().splitlines()[-1])
-    click.echo(f"outputs in {out_dir}/")
+    click.echo(f"outputs in {out_dir}/ (fit.json, growth_snippet.toml, reduced.csv, rates.csv"
+               + (", plots, report.html)" if not no_plots else ")"))

@@ -18,8 +18,10 @@ import click
 @click.option("--floor", type=float, default=None, help="â recording floor (left-censored).")
 @click.option("--saturation", type=float, default=None, help="â saturation (right-censored).")
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--no-plots", is_flag=True, help="Skip the plot and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the fit as JSON.")
-def pod(data_file, out_dir, link, decision, floor, saturation, force, as_json):
+def pod(data_file, out_dir, link, decision, floor, saturation, force, no_plots,
+        as_json):
     """Fit a POD curve to DATA_FILE, a CSV with columns a_mm and hit (0/1), or a_mm and ahat.
 
     Lines starting with '#' are comments; '# key = value' lines may give link, decision,
@@ -29,12 +31,19 @@ def pod(data_file, out_dir, link, decision, floor, saturation, force, as_json):
     from cycj.outputs import dumps
     from cycj.plan.pod_data import fit_file
 
+    if out_dir:
+        from cycj.outputs import OutputDir
+
+        OutputDir(Path(out_dir), force=force, inputs=[data_file])   # refuse early
     fit, a, y = fit_file(data_file, link=link, decision=decision, floor=floor,
                          saturation=saturation)
     if out_dir:
         from cycj.plan.write import write_pod
 
-        summary = write_pod(fit, a, y, Path(out_dir), source=str(data_file), force=force)
+        options = {"link": link, "decision": decision, "floor": floor,
+                   "saturation": saturation}
+        summary = write_pod(fit, a, y, Path(out_dir), source=str(data_file), force=force,
+                            plots=not no_plots, options=options)
     else:
         summary = fit.summary()
     if as_json:
@@ -46,4 +55,5 @@ def pod(data_file, out_dir, link, decision, floor, saturation, force, as_json):
     click.echo("for [inspection]:")
     click.echo(summary["pod_toml"])
     if out_dir:
-        click.echo(f"outputs: {out_dir}/ (pod.json, pod.toml, pod.png, report.html)")
+        click.echo(f"outputs: {out_dir}/ (pod.json, pod.toml"
+                   + (", pod.png, report.html)" if not no_plots else ")"))

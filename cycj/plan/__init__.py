@@ -20,6 +20,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from cycj.errors import CycjInputError
+
 REFERENCES = [
     "MIL-HDBK-1823A (2009): Nondestructive Evaluation System Reliability Assessment (POD)",
     "Berens, A. P. (1989), NDE reliability data analysis, ASM Handbook Vol. 17, 689–701",
@@ -89,7 +91,13 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
     tough = factor_grid(sc.toughness, 9)
     a_min = sc.initial_crack.quantile(1e-7)
     growth, critical = engine.curve_functions(case, float(tough.max()), warnings)
-    table = build_table(growth, critical, a_min, loads, tough)
+    try:
+        table = build_table(growth, critical, a_min, loads, tough)
+    except ValueError as exc:
+        raise CycjInputError(f"{exc}: the smallest initial crack is already critical or "
+                             "does not grow under these loads, so there is nothing to plan",
+                             source=str(case.path), key="inspection.scatter.initial_crack",
+                             found=f"{a_min:.4g} mm") from None
     prob = probabilistic_plan(table, inp, scheduler)
     if prob["recommended_interval_cycles"] is None:
         warnings.append(f"no interval down to design life / {inp.max_inspections} meets "

@@ -56,13 +56,18 @@ class PlanInputs:
     findings: tuple = ()
 
 
+#: widest POD curve accepted (spread in ln a; a90/a50 = e^(1.28·5) ≈ 600 already)
+POD_SIGMA_MAX = 5.0
+
+
 def read_pod(t: Table) -> PodCurve:
     """A POD inline table: ``model``, one of ``a50``/``a90``, ``sigma``, ``ceiling``, and
     optionally ``a90_95`` (from a fit to data)."""
     model = t.choice("model", POD_MODELS, default="lognormal")
     a50 = t.quantity("a50", "length", positive=True)
     a90 = t.quantity("a90", "length", positive=True)
-    sigma = t.number("sigma", required=True, positive=True)
+    sigma = t.number("sigma", required=True, lo=(1e-6, "0"), hi=(POD_SIGMA_MAX,
+                                                                f"{POD_SIGMA_MAX:g}"))
     ceiling = t.number("ceiling", default=1.0)
     if not 0 < ceiling <= 1:
         raise t.error("ceiling", "out of range", expected="0 < ceiling ≤ 1", found=ceiling)
@@ -77,6 +82,12 @@ def read_pod(t: Table) -> PodCurve:
 
 _KINDS = {"growth_C": "C", "initial_crack": "length", "toughness": "energy_per_area",
           "load_scale": "factor"}
+
+
+#: most inspections over a design life (what-if intervals and the interval search)
+MAX_INSPECTIONS = 2000
+#: spreads beyond these make the sampled values overflow (e^(6σ) at σ = 3 is already 7e7)
+SIGMA_MAX, COV_MAX, SHAPE_MIN = 3.0, 10.0, 0.5
 
 
 def read_dist(t: Table, name: str, base: float, kind: str) -> sc.Dist:
@@ -101,11 +112,11 @@ def read_dist(t: Table, name: str, base: float, kind: str) -> sc.Dist:
         value = t.quantity("value", "length", positive=True) if kind == "length" else None
         t.finish()
         return sc.fixed(value if value is not None else (median or mean or base))
-    sigma = t.number("sigma", positive=True)
-    cov = t.number("cov", positive=True)
+    sigma = t.number("sigma", lo=(1e-12, "0"), hi=(SIGMA_MAX, f"{SIGMA_MAX:g}"))
+    cov = t.number("cov", lo=(1e-12, "0"), hi=(COV_MAX, f"{COV_MAX:g}"))
     sd = t.quantity("sd", "length", positive=True) if kind == "length" else t.number(
         "sd", positive=True)
-    shape = t.number("shape", positive=True)
+    shape = t.number("shape", lo=(SHAPE_MIN, f"{SHAPE_MIN:g}"), hi=(1e3, "1000"))
     t.finish()
     given = [k for k, v in (("sigma", sigma), ("cov", cov), ("sd", sd), ("shape", shape))
              if v is not None]
@@ -166,6 +177,10 @@ def read_inspection(case) -> PlanInputs:
     else:
         det, det_src = pod.a90, "the POD's a90"
     intervals = _times(t, "intervals")
+    if intervals is not None and min(intervals) < life / MAX_INSPECTIONS:
+        raise t.error("intervals", f"an interval this short means more than {MAX_INSPECTIONS} "
+                      "inspections in the design life", expected=f"≥ {life / MAX_INSPECTIONS:g}"
+                      " cycles", found=min(intervals))
     if intervals is None:
         intervals = tuple(life / n for n in (16, 8, 4, 2))
     schedule = _times(t, "schedule", life)
@@ -179,8 +194,9 @@ def read_inspection(case) -> PlanInputs:
                       found=target)
     repair = t.choice("repair", ("renew", "remove"), default="renew")
     max_insp = t.number("max_inspections", default=100, integer=True)
-    if not 1 <= max_insp <= 2000:
-        raise t.error("max_inspections", "out of range", expected="1 to 2000", found=max_insp)
+    if not 1 <= max_insp <= MAX_INSPECTIONS:
+        raise t.error("max_inspections", "out of range", expected=f"1 to {MAX_INSPECTIONS}",
+                      found=max_insp)
     chunk = t.number("chunk_size", default=10_000, integer=True)
     if not 100 <= chunk <= 1_000_000:
         raise t.error("chunk_size", "out of range", expected="100 to 1e6", found=chunk)

@@ -23,24 +23,27 @@ def read_pod_data(path):
     path = Path(path)
     if not path.is_file():
         raise CycjInputError("file not found", source=str(path))
+    try:
+        lines = path.read_text(encoding="utf-8").splitlines()
+    except UnicodeDecodeError:
+        raise CycjInputError("not a UTF-8 text file", source=str(path)) from None
     meta, rows, header, hline = {}, [], None, 0
-    with path.open(encoding="utf-8") as fh:
-        for ln, line in enumerate(fh, 1):
-            s = line.strip()
-            if not s:
-                continue
-            if s.startswith("#"):
-                body = s.lstrip("#").strip()
-                if "=" in body:
-                    k, v = (x.strip() for x in body.split("=", 1))
-                    if k in META_KEYS:
-                        meta[k] = v.strip("\"'")
-                continue
-            cells = next(csv.reader([s]))
-            if header is None:
-                header, hline = [c.strip() for c in cells], ln
-                continue
-            rows.append((ln, cells))
+    for ln, line in enumerate(lines, 1):
+        s = line.strip()
+        if not s:
+            continue
+        if s.startswith("#"):
+            body = s.lstrip("#").strip()
+            if "=" in body:
+                k, v = (x.strip() for x in body.split("=", 1))
+                if k in META_KEYS:
+                    meta[k] = v.strip("\"'")
+            continue
+        cells = next(csv.reader([s]))
+        if header is None:
+            header, hline = [c.strip() for c in cells], ln
+            continue
+        rows.append((ln, cells))
     if header is None:
         raise CycjInputError("no header line", source=str(path))
     size_col = next((c for c in ("a_mm", "a") if c in header), None)
@@ -73,6 +76,8 @@ def read_pod_data(path):
 
 def fit_file(path, *, link=None, decision=None, floor=None, saturation=None):
     """Read and fit a POD data file; returns (PodFit, a, y)."""
+    import numpy as np
+
     from cycj.plan.pod_fit import fit_hit_miss, fit_signal_response
 
     kind, a, y, meta = read_pod_data(path)
@@ -102,7 +107,7 @@ def fit_file(path, *, link=None, decision=None, floor=None, saturation=None):
                                  expected="--decision X or a '# decision = X' line")
         return fit_signal_response(a, y, dec, num("floor", floor),
                                    num("saturation", saturation)), a, y
-    except ValueError as exc:
+    except (ValueError, ArithmeticError, np.linalg.LinAlgError) as exc:
         if isinstance(exc, CycjInputError):
             raise
         raise CycjInputError(f"cannot fit: {exc}", source=str(path)) from None

@@ -202,8 +202,15 @@ def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
     s = np.asarray(ahat, float)
     if a.size < 4 or np.any(a <= 0) or np.any(s <= 0) or a.size != s.size:
         raise ValueError("â-vs-a data need ≥ 4 rows with sizes and responses > 0")
-    if not decision > 0:
-        raise ValueError("the decision threshold must be > 0")
+    if not (decision > 0 and math.isfinite(decision)):
+        raise ValueError("the decision threshold must be a finite number > 0")
+    if not s.min() <= decision <= s.max():
+        raise ValueError(f"the decision threshold {decision:g} lies outside the recorded "
+                         f"responses ({s.min():g} to {s.max():g}): the POD curve would be an "
+                         "extrapolation")
+    for name, v in (("floor", floor), ("saturation", saturation)):
+        if v is not None and not (v > 0 and math.isfinite(v)):
+            raise ValueError(f"the {name} must be a finite number > 0")
     x, yv = np.log(a), np.log(s)
     left = np.zeros(a.size, bool) if floor is None else s <= floor
     right = np.zeros(a.size, bool) if saturation is None else s >= saturation

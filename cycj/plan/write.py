@@ -31,10 +31,12 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
     """Write the plan's outputs atomically into ``out``; return the plan.json dict."""
     import pandas as pd
 
-    from cycj.outputs import OutputDir, provenance
+    from cycj.outputs import OutputDir, record_provenance
 
     summary = dict(result.summary)
-    summary["provenance"] = provenance({"case": case.path} if case.path else {})
+    inputs = {"case": case.path, "history": case.loading.history}
+    record_provenance(summary, inputs, method="deterministic interval and Monte Carlo",
+                      seed=summary.get("seed"))
     with OutputDir(out, force=force, inputs=[case.path] if case.path else []) as od:
         od.write_csv("what_if.csv", result.what_if)
         sched = pd.DataFrame(summary["deterministic"]["schedule"])
@@ -98,29 +100,36 @@ def _report(od, case, s, result, figures, sched):
                  warnings=s["warnings"], references=s["references"])
 
 
-def write_pod(fit, a, y, out, *, source: str, force=False) -> dict:
+def write_pod(fit, a, y, out, *, source: str, force=False, plots=True, options=None) -> dict:
     """Write a POD fit: pod.json, pod.toml (the line for [inspection]), pod.png, report."""
-    from cycj.outputs import OutputDir, provenance
+    from cycj.outputs import OutputDir, record_provenance
+
+    summary = fit.summary()
+    summary["parameters"] = dict(options or {})
+    record_provenance(summary, {"data": source}, method=fit.method, seed=None)
+    with OutputDir(out, force=force, inputs=[source]) as od:
+        od.write_text("pod.toml", summary["pod_toml"] + "\n")
+        if plots:
+            _pod_report(od, fit, a, y, source)
+        od.write_json("pod.json", summary)
+    return summary
+
+
+def _pod_report(od, fit, a, y, source):
     from cycj.plan import plots as P
     from cycj.report import write_report
 
-    summary = fit.summary()
-    summary["provenance"] = provenance({"data": source})
-    with OutputDir(out, force=force, inputs=[source]) as od:
-        od.write_text("pod.toml", summary["pod_toml"] + "\n")
-        png = od.savefig("pod.png", P.pod_plot(fit, a, y, fit.method))
-        c = fit.curve
-        write_report(od.path("report.html"), title=f"POD from {Path(source).name}",
-                     question="How reliably does this inspection find cracks, by size?",
-                     answer=(f"a50 = {c.a50:.3g} mm, a90 = {c.a90:.3g} mm, a90/95 = "
-                             f"{fit.a90_95:.3g} mm ({fit.method}, {fit.link}, n = {fit.n})."),
-                     inputs=[("data", source), ("method", fit.method), ("link", fit.link),
-                             *[(k, v) for k, v in fit.params.items()]],
-                     figures=[("POD fit", png)], tables=[],
-                     warnings=[] if fit.n >= 60 else
-                     ["fewer than 60 observations: MIL-HDBK-1823A asks for more"],
-                     references=["MIL-HDBK-1823A (2009)",
-                                 "Berens, A. P. (1989), ASM Handbook Vol. 17, 689–701",
-                                 "Cheng, R. C. H., Iles, T. C. (1983), Technometrics 25, 77"])
-        od.write_json("pod.json", summary)
-    return summary
+    png = od.savefig("pod.png", P.pod_plot(fit, a, y, fit.method))
+    c = fit.curve
+    write_report(od.path("report.html"), title=f"POD from {Path(source).name}",
+                 question="How reliably does this inspection find cracks, by size?",
+                 answer=(f"a50 = {c.a50:.3g} mm, a90 = {c.a90:.3g} mm, a90/95 = "
+                         f"{fit.a90_95:.3g} mm ({fit.method}, {fit.link}, n = {fit.n})."),
+                 inputs=[("data", source), ("method", fit.method), ("link", fit.link),
+                         *[(k, v) for k, v in fit.params.items()]],
+                 figures=[("POD fit", png)], tables=[],
+                 warnings=[] if fit.n >= 60 else
+                 ["fewer than 60 observations: MIL-HDBK-1823A asks for more"],
+                 references=["MIL-HDBK-1823A (2009)",
+                             "Berens, A. P. (1989), ASM Handbook Vol. 17, 689–701",
+                             "Cheng, R. C. H., Iles, T. C. (1983), Technometrics 25, 77"])

@@ -57,6 +57,11 @@ def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0
     return read_history_with_time(path, column, unit_factor, scale)[0]
 
 
+#: largest load magnitude accepted after unit and scale [N or MPa] (beyond it range and mean
+#: arithmetic loses meaning, and the matrices' bin edges overflow)
+MAX_LOAD = 1e100
+
+
 def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: float = 1.0,
                            time_column=None) -> tuple[np.ndarray, np.ndarray | None]:
     """As :func:`read_history`, also returning the time channel if there is one.
@@ -87,16 +92,30 @@ def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: f
     elif suffix in (".parquet", ".pq"):
         values, times = _read_parquet(path, column, time_column)
     elif suffix in _TEXT_SUFFIXES:
-        values, times = _read_text(path, column, time_column)
+        try:
+            values, times = _read_text(path, column, time_column)
+        except UnicodeDecodeError as exc:
+            raise CycjInputError("not a UTF-8 text file (binary data or another encoding)",
+                                 source=src, found=exc.reason) from None
     else:
         raise CycjInputError("unknown history format", source=src,
                              expected=".csv, .tsv, .txt, .dat, .parquet or .npy", found=suffix)
     factor = float(unit_factor) * float(scale)
     if factor != 1.0:
-        if values.flags.writeable:
-            values *= factor  # in place: no second copy of a long history
-        else:  # pragma: no cover - e.g. a read-only memory map
-            values = values * factor
+        with np.errstate(over="ignore"):
+            if values.flags.writeable:
+                values *= factor  # in place: no second copy of a long history
+            else:  # pragma: no cover - e.g. a read-only memory map
+                values = values * factor
+        if not (math.isfinite(factor) and np.all(np.isfinite(values))):
+            raise CycjInputError("the loads overflow once the unit and scale are applied",
+                                 source=src, key="scale", expected="a smaller scale",
+                                 found=float(scale))
+    big = np.flatnonzero(np.abs(values) > MAX_LOAD)
+    if big.size:
+        raise CycjInputError(f"sample {big[0]} is not a plausible load", source=src,
+                             expected=f"loads below {MAX_LOAD:g} in magnitude (N or MPa)",
+                             found=float(values[big[0]]))
     return values, times
 
 

@@ -2,12 +2,10 @@
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import numpy as np
 
-from cycj.errors import CycjInputError
 from cycj.spectrum.rainflow import CYCLE_COLUMNS
 from cycj.spectrum.statistics import (
     from_to_matrix,
@@ -19,7 +17,8 @@ from cycj.spectrum.statistics import (
 
 #: files written by :func:`write_count_outputs`
 OUTPUT_FILES = ("cycles.csv", "range_mean_matrix.csv", "from_to_matrix.csv", "exceedance.csv",
-                "history.png", "exceedance.png", "rainflow_matrix.png")
+                "history.png", "exceedance.png", "rainflow_matrix.png", "report.html",
+                "count.json")
 
 
 def count_summary(values: np.ndarray, cycles: dict, gate: float, repeat: bool,
@@ -66,46 +65,27 @@ def count_summary(values: np.ndarray, cycles: dict, gate: float, repeat: bool,
     }
 
 
-def prepare_output_dir(out_dir, force: bool = False, inputs=()) -> Path:
-    """Create ``out_dir`` or check it may be written: a non-empty folder is refused unless
-    ``force``; an output file that is one of ``inputs`` is always refused."""
-    out = Path(out_dir)
-    if out.exists() and not out.is_dir():
-        raise CycjInputError("the output path exists and is not a folder", source=str(out))
-    if out.is_dir() and any(out.iterdir()) and not force:
-        raise CycjInputError("the output folder is not empty; give --force to overwrite its "
-                             "files", source=str(out))
-    resolved = {Path(p).resolve() for p in inputs}
-    for name in OUTPUT_FILES:
-        if (out / name).resolve() in resolved:
-            raise CycjInputError("an output would overwrite the input history",
-                                 source=str(out / name))
-    out.mkdir(parents=True, exist_ok=True)
-    return out
+#: captions of the count's plots in the report
+CAPTIONS = {"history.png": "The load history with the counted reversals",
+            "exceedance.png": "Cycles exceeding each range (cumulative spectrum)",
+            "rainflow_matrix.png": "Rainflow matrix: cycles by range and mean"}
+REFERENCES = ["ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
+              "Fatigue Analysis: §5.4 rainflow counting, range–mean and from–to matrices",
+              "Matsuishi, M., Endo, T. (1968), Fatigue of metals subjected to varying stress, "
+              "Japan Society of Mechanical Engineers: the rainflow method"]
 
 
-def _atomic(path: Path, write):
-    tmp = path.with_name(f".{path.name}.tmp-{os.getpid()}")
-    try:
-        write(tmp)
-        os.replace(tmp, path)
-    finally:
-        if tmp.exists():
-            tmp.unlink()
-    return path
-
-
-def write_count_outputs(out_dir, values: np.ndarray, cycles: dict, unit: str = "",
-                        times=None, bins: int = 32) -> list[Path]:
+def write_count_outputs(od, values: np.ndarray, cycles: dict, unit: str = "",
+                        times=None, bins: int = 32, plots: bool = True) -> list[Path]:
     """Write the cycle table, the rainflow matrices, the exceedance table and three PNGs.
 
-    Every file is written under a temporary name in ``out_dir`` and then renamed, so a reader
-    never sees half a file.  Call :func:`prepare_output_dir` first.
+    Every file goes into the temporary folder of ``od`` (a :class:`cycj.outputs.OutputDir`),
+    which is renamed into place only when all outputs are complete.
 
     Parameters
     ----------
-    out_dir : str or pathlib.Path
-        Output folder (must exist).
+    od : cycj.outputs.OutputDir
+        Output folder being written (inside its ``with`` block).
     values : numpy.ndarray of float64
         The history as counted [``unit``].
     cycles : dict
@@ -116,44 +96,78 @@ def write_count_outputs(out_dir, values: np.ndarray, cycles: dict, unit: str = "
         Time of each sample [s] for the history plot.
     bins : int
         Bins on each axis of the matrices.
+    plots : bool
+        Write the three PNG plots.
 
     Returns
     -------
     list of pathlib.Path
-        The files written.
+        The files written (temporary paths; same names in the final folder).
     """
     import pandas as pd
 
-    from cycj.spectrum import plots
+    from cycj.spectrum import plots as P
 
-    out = Path(out_dir)
     suffix = f"_{unit}" if unit else ""
     table = pd.DataFrame({k: cycles[k] for k in CYCLE_COLUMNS})
     rm, r_edges, m_edges = range_mean_matrix(cycles["range"], cycles["mean"], cycles["count"],
                                              bins, bins)
     ft, edges = from_to_matrix(values, cycles["start"], cycles["end"], cycles["count"], bins)
     levels, cum = range_exceedance(cycles["range"], cycles["count"])
-    written = [
-        _atomic(out / "cycles.csv",
-                lambda p: table.to_csv(p, index=False, float_format="%.10g")),
-        _atomic(out / "range_mean_matrix.csv",
-                lambda p: matrix_frame(rm, r_edges, m_edges, f"range{suffix}",
-                                       f"mean{suffix}").to_csv(p, float_format="%.10g")),
-        _atomic(out / "from_to_matrix.csv",
-                lambda p: matrix_frame(ft, edges, edges, f"from{suffix}",
-                                       f"to{suffix}").to_csv(p, float_format="%.10g")),
-        _atomic(out / "exceedance.csv",
-                lambda p: pd.DataFrame({f"range{suffix}": levels, "cycles_exceeding": cum})
-                .to_csv(p, index=False, float_format="%.10g")),
-    ]
-    rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"])) % max(len(values), 1))
-    written += [
-        _atomic(out / "history.png",
-                lambda p: plots.plot_history(values, p, times=times, unit=unit,
-                                             reversal_indices=rev_idx)),
-        _atomic(out / "exceedance.png",
-                lambda p: plots.plot_exceedance(levels, cum, p, unit=unit, kind="range")),
-        _atomic(out / "rainflow_matrix.png",
-                lambda p: plots.plot_rainflow_matrix(rm, r_edges, m_edges, p, unit=unit)),
-    ]
+    fmt = "%.10g"
+    written = [od.write_csv("cycles.csv", table, float_format=fmt)]
+    for name, frame in (
+            ("range_mean_matrix.csv", matrix_frame(rm, r_edges, m_edges, f"range{suffix}",
+                                                   f"mean{suffix}")),
+            ("from_to_matrix.csv", matrix_frame(ft, edges, edges, f"from{suffix}",
+                                                f"to{suffix}"))):
+        frame.to_csv(od.path(name), float_format=fmt)
+        written.append(od.path(name))
+    written.append(od.write_csv("exceedance.csv", pd.DataFrame(
+        {f"range{suffix}": levels, "cycles_exceeding": cum}), float_format=fmt))
+    if plots:
+        rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"]))
+                            % max(len(values), 1))
+        P.plot_history(values, od.path("history.png"), times=times, unit=unit,
+                       reversal_indices=rev_idx)
+        P.plot_exceedance(levels, cum, od.path("exceedance.png"), unit=unit, kind="range")
+        P.plot_rainflow_matrix(rm, r_edges, m_edges, od.path("rainflow_matrix.png"),
+                               unit=unit)
+        written += [od.path(n) for n in ("history.png", "exceedance.png",
+                                         "rainflow_matrix.png")]
     return written
+
+
+def count_answer(summary: dict) -> str:
+    """One sentence: how many cycles, and the largest range."""
+    u = f" {summary['unit']}" if summary.get("unit") else ""
+    if summary["full_cycles"] + summary["half_cycles"] == 0:
+        return ("No cycles: the history is constant or every change is below the gate "
+                f"({summary['gate']:g}{u}).")
+    return (f"{summary['cycles']:g} cycles ({summary['full_cycles']} full + "
+            f"{summary['half_cycles']} half) from {summary['reversals']} reversals; the largest "
+            f"range is {summary['largest_range']:.4g}{u}.")
+
+
+def write_count_report(od, summary: dict, figures) -> Path:
+    """The count's self-contained HTML report (``report.html`` in ``od``)."""
+    from cycj.report import write_report
+
+    p = summary["parameters"]
+    u = summary.get("unit") or "as in the file"
+    inputs = [("history", summary["history"]), ("column", p["column"]),
+              ("load unit", u), ("scale", p["scale"]), ("gate", p["gate"]),
+              ("repeating block", p["repeat"]), ("samples", summary["samples"]),
+              ("max, min", f"{summary['max']}, {summary['min']}"),
+              ("irregularity factor", summary["irregularity_factor"])]
+    warnings = []
+    if summary["full_cycles"] + summary["half_cycles"] == 0:
+        warnings.append("no cycles were counted (constant history or every change below the "
+                        "gate)")
+    if summary["samples"] < 3:
+        warnings.append("fewer than three samples: the count is trivial")
+    return write_report(od.path("report.html"), title=f"Rainflow count: {summary['history']}",
+                        question="Which load cycles does this history contain (rainflow "
+                                 "count), and how are they distributed over range and mean?",
+                        answer=count_answer(summary), inputs=inputs, figures=figures,
+                        warnings=warnings, references=REFERENCES)
