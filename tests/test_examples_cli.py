@@ -87,9 +87,13 @@ EXAMPLE_COMMANDS = {
                     "--no-plots"],
 }
 #: examples run by tests/test_examples.py (predict_life, cycle stepper and block mode)
-LIFE_EXAMPLES = ("lab_compact_tension.toml", "crane_edge_crack.toml",
-                 "thick_section_startstop.toml")
-GENERATORS = ("make_lab_logs.py",)
+from tests.test_examples import LIFE_EXAMPLES as _BLOCK_EXAMPLES  # noqa: E402
+from tests.test_examples import REACH_EXAMPLES  # noqa: E402
+
+LIFE_EXAMPLES = (*_BLOCK_EXAMPLES, *(name for name, _ in REACH_EXAMPLES))
+#: data read by the life examples (run with them)
+LIFE_DATA = ("lug_table.csv", "pipe_startstop_channels.csv")
+GENERATORS = ("make_lab_logs.py", "make_pipe_channels.py")
 
 
 @pytest.mark.parametrize("name", sorted(EXAMPLE_COMMANDS))
@@ -114,7 +118,8 @@ def test_every_example_file_is_used():
     used = " ".join(" ".join(c) for c in EXAMPLE_COMMANDS.values())
     for p in EXAMPLES.iterdir():
         assert (f"examples/{p.name}" in used or p.name in LIFE_EXAMPLES
-                or p.name in GENERATORS), f"{p.name} is not run by any test"
+                or p.name in GENERATORS or p.name in LIFE_DATA), \
+            f"{p.name} is not run by any test"
 
 
 def _load(path: Path):
@@ -136,6 +141,15 @@ def test_lab_log_generator_reproduces_the_bundled_logs(tmp_path, capsys):
         assert list(new.columns) == list(old.columns) and new.shape == old.shape
         np.testing.assert_allclose(new.to_numpy(float), old.to_numpy(float), rtol=1e-6,
                                    atol=2e-5)
+
+
+def test_pipe_channel_generator_reproduces_the_bundled_history(tmp_path):
+    """examples/make_pipe_channels.py (seeded) gives the bundled two-channel history."""
+    mod = _load(EXAMPLES / "make_pipe_channels.py")
+    p, t = mod.make()
+    old = pd.read_csv(EXAMPLES / "pipe_startstop_channels.csv", comment="#")
+    np.testing.assert_allclose(old["pressure_MPa"], p, atol=1e-3)
+    np.testing.assert_allclose(old["thermal_bore_MPa"], t, atol=1e-3)
 
 
 # --------------------------------------------------------------------------------- demo
