@@ -94,13 +94,14 @@ def stepper_vs_c(n_block=200_000, blocks=10):
         mp_s = mp.copy()
         mp_s[M.SEQ_MODEL], mp_s[M.SEQ_EXPONENT], mp_s[M.SEQ_SHUT_OFF] = code, 1.3, 3.0
         mp_s[M.ZONE_BETA] = 6.0
-        K.run_cycles(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp_s, 1e9, rec,
-                     0, acc)
+        seq_stepper = K.stepper_for(False, False, True)
+        seq_stepper(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp_s, 1e9,
+                    rec, 0, acc)
         t_s = float("inf")
         for _ in range(3):
             t = time.perf_counter()
-            K.run_cycles(lmax, lmin, state(), blocks, 1e18, geo.code, geo.params.copy(), ct,
-                         mp_s, 1e9, rec, 0, acc)
+            seq_stepper(lmax, lmin, state(), blocks, 1e18, geo.code, geo.params.copy(), ct,
+                        mp_s, 1e9, rec, 0, acc)
             t_s = min(t_s, time.perf_counter() - t)
         print(f"with {name}: {n / t_s / 1e6:.2f} M cycles/s; throughput ratio to no sequence "
               f"model = {t_py / t_s:.2f} (target ≥ 0.5)")
@@ -131,6 +132,7 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
     acc = np.zeros(8)
     times = []
     for case, nch in ((plain, 1), (prof, 2)):
+        stepper = K.stepper_for(nch > 1, False, False)
         lmax = rng.uniform(60, 100, (n_block, nch))
         lmin = lmax * 0.1
         if nch == 1:
@@ -149,8 +151,8 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
             st = np.zeros(M.N_STATE)
             st[M.ST_A] = 2.0
             t = time.perf_counter()
-            K.run_cycles(lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp,
-                         1e9, rec, 0, acc)
+            stepper(lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9,
+                    rec, 0, acc)
             best = min(best, time.perf_counter() - t)
         times.append(best)
     n = n_block * blocks

@@ -60,18 +60,30 @@ def _axis(x, lo, hi, n):
 
 
 @jit
-def table_value(ct, row, a, c, mp):
-    """K table ``row`` at crack size a (and half-length c for surface cracks), bilinear."""
-    na = ct.shape[1]
-    nc = ct.shape[2]
-    i, f = _axis(a, mp[CH_A_LO], mp[CH_A_HI], na)
-    if nc < 2:
-        if na < 2:
+def table_cell(a, c, ct, mp):
+    """Grid cell and fractions of crack size a (and half-length c) in the K tables."""
+    i, f = _axis(a, mp[CH_A_LO], mp[CH_A_HI], ct.shape[1])
+    j, g = _axis(c, mp[CH_C_LO], mp[CH_C_HI], ct.shape[2])
+    return i, f, j, g
+
+
+@jit
+def table_at(ct, row, i, f, j, g):
+    """Row ``row`` of the K tables interpolated in a given cell (bilinear; linear in a when
+    the table has one column in c)."""
+    if ct.shape[2] < 2:
+        if ct.shape[1] < 2:
             return ct[row, 0, 0]
         return ct[row, i, 0] * (1.0 - f) + ct[row, i + 1, 0] * f
-    j, g = _axis(c, mp[CH_C_LO], mp[CH_C_HI], nc)
     return ((ct[row, i, j] * (1.0 - g) + ct[row, i, j + 1] * g) * (1.0 - f)
             + (ct[row, i + 1, j] * (1.0 - g) + ct[row, i + 1, j + 1] * g) * f)
+
+
+@jit
+def table_value(ct, row, a, c, mp):
+    """K table ``row`` at crack size a (and half-length c for surface cracks)."""
+    i, f, j, g = table_cell(a, c, ct, mp)
+    return table_at(ct, row, i, f, j, g)
 
 
 @jit
@@ -81,12 +93,13 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     (half-length ``c`` for a surface crack) at crack-front ``point`` (0 deepest, 1 surface)."""
     nch = int(mp[CH_N])
     base = point * (nch + 1)
-    kres = table_value(ct, base + nch, a, c, mp)
+    ia, fa, jc, gc = table_cell(a, c, ct, mp)
+    kres = table_at(ct, base + nch, ia, fa, jc, gc)
     kmax = kres
     kmin = kres
     pm1 = pb1 = pm0 = pb0 = 0.0
     for j in range(nch):
-        kj = table_value(ct, base + j, a, c, mp)
+        kj = table_at(ct, base + j, ia, fa, jc, gc)
         v1 = lmax[i, j]
         v0 = lmin[i, j]
         kmax += v1 * kj

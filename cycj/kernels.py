@@ -16,6 +16,7 @@ Per cycle (S_max, S_min nominal stresses, crack size a, and c for two-dimensiona
 
 from __future__ import annotations
 
+import functools
 import math
 
 import numpy as np
@@ -74,7 +75,6 @@ from cycj.model_params import (
     ST_CYCLES,
     ST_K_OL,
     ST_Z_OL,
-    TWO_D,
     U_CONST,
     ZONE_BETA,
 )
@@ -201,109 +201,131 @@ def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
     return factor, dj
 
 
-@jit
-def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n,
-               acc):
-    """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
+@functools.cache
+def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool = False):
+    """The cycle stepper, specialised at compile time (dead branches removed) for: one load
+    channel with the shape's own K solution or load channels with K tables
+    (``channel_mode``); a two-dimensional crack (``two_d``); a load-sequence model
+    (``sequence``).  Each variant is compiled (or loaded from the cache) on first use."""
 
-    Parameters
-    ----------
-    lmax, lmin : float64 arrays (cycles × channels), the block's cycles in the order they act
-        (nominal stress [MPa] for one channel; channel values with load channels)
-    st : crack state (a, c, cycles, blocks, overload a_OL, zone, K_OL), updated in place
-    max_cycles : stop with END_MAX_CYCLES when the total reaches it
-    gp : geometry parameters (a private copy: its half-length slot follows c)
-    ct : K tables of the load channels (:mod:`cycj.channels`); unused with one channel
-    rec_da : record a row each time the crack has grown by this much [mm]
-    rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
-    acc : float64 work array (8) carried between calls: [a at last record, cycle at last record,
-          Σ ΔJ^m since record, n since record, max ΔJ, max J_max, max L_r, clipped count]
+    @jit
+    def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n,
+                   acc):
+        """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
 
-    Returns
-    -------
-    end code, end value, rows used
-    """
-    n = lmax.shape[0]
-    a = st[ST_A]
-    c = st[ST_C]
-    cyc = st[ST_CYCLES]
-    blk = st[ST_BLOCKS]
-    m = mp[M_LAW]
-    two_d = mp[TWO_D] > 0.5
-    sequence = mp[SEQ_MODEL] > 0.5
-    # accumulators kept in registers, written back to ``acc`` at records and at the end
-    a_rec, cyc_rec, sum_djm, n_acc = acc[0], acc[1], acc[2], acc[3]
-    max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
-    end = RUNNING
-    val = 0.0
-    for _b in range(n_blocks):
-        grew = False
-        for i in range(n):
-            if two_d:
-                gp[5] = c
-            kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, c, code, gp, ct,
-                                                             mp)
-            dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
-                                                         mp)
-            n_clipped += clipped
-            if kmax > 0.0:
-                rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
-                end, val = end_check(a, jmax, lr, jel, rho, mp)
-                if end == RUNNING and two_d:
-                    end, val = _two_d_check(a, c, mp)
-                if end != RUNNING:
-                    break
-            factor = 1.0
-            if sequence:
-                factor, dj = sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st)
-            djm = dj**m if dj > 0.0 else 0.0
-            da = rate_from_power(dj, djm, jmax, mp) * factor
-            if two_d:
-                if mp[CH_MODE] > 0.5:
-                    k1, k0 = channel_k(lmax, lmin, i, a, c, ct, mp, 1)[:2]
+        Parameters
+        ----------
+        lmax, lmin : float64 arrays (cycles × channels), the block's cycles in the order they
+            act (nominal stress [MPa] for one channel; channel values with load channels)
+        st : crack state (a, c, cycles, blocks, overload a_OL, zone, K_OL), updated in place
+        max_cycles : stop with END_MAX_CYCLES when the total reaches it
+        gp : geometry parameters (a private copy: its half-length slot follows c)
+        ct : K tables of the load channels (:mod:`cycj.channels`); unused with one channel
+        rec_da : record a row each time the crack has grown by this much [mm]
+        rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
+        acc : float64 work array (8) carried between calls: [a at last record, cycle at last
+              record, Σ ΔJ^m since record, n since record, max ΔJ, max J_max, max L_r, clipped
+              count]
+
+        Returns
+        -------
+        end code, end value, rows used
+        """
+        n = lmax.shape[0]
+        a = st[ST_A]
+        c = st[ST_C]
+        cyc = st[ST_CYCLES]
+        blk = st[ST_BLOCKS]
+        m = mp[M_LAW]
+        # accumulators kept in registers, written back to ``acc`` at records and at the end
+        a_rec, cyc_rec, sum_djm, n_acc = acc[0], acc[1], acc[2], acc[3]
+        max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
+        end = RUNNING
+        val = 0.0
+        for _b in range(n_blocks):
+            grew = False
+            for i in range(n):
+                if two_d:
+                    gp[5] = c
+                if channel_mode:
+                    kmax, kmin, lr_max, lr_range, ds, kres = channel_k(lmax, lmin, i, a, c, ct,
+                                                                       mp, 0)
                 else:
-                    kos_c = k_over_s_surface(code, a, gp)
-                    k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
-                dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp)[0]
-                c += cycle_rate(dj_c, jmax, mp) * factor
-            if da > 0.0:
-                grew = True
-            a += da
-            cyc += 1.0
-            sum_djm += djm
-            n_acc += 1.0
-            max_dj = max(max_dj, dj)
-            max_jmax = max(max_jmax, jmax)
-            max_lr = max(max_lr, lr)
-            if a - a_rec >= rec_da and rec_n < rec.shape[0]:
-                rec[rec_n, REC_CYCLE] = cyc
-                rec[rec_n, REC_BLOCK] = blk
-                rec[rec_n, REC_A] = a
-                rec[rec_n, REC_C] = c
-                rec[rec_n, REC_DJ] = max_dj
-                rec[rec_n, REC_DJ_EQ] = (sum_djm / n_acc) ** (1.0 / m)
-                rec[rec_n, REC_JMAX] = max_jmax
-                rec[rec_n, REC_LR] = max_lr
-                rec[rec_n, REC_DADN] = (a - a_rec) / (cyc - cyc_rec)
-                rec_n += 1
-                a_rec, cyc_rec = a, cyc
-                sum_djm = n_acc = max_dj = max_jmax = max_lr = 0.0
-            if cyc >= max_cycles:
-                end, val = END_MAX_CYCLES, cyc
+                    kos = k_over_s(code, a, gp)
+                    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
+                    s1 = lmax[i, 0]
+                    s0 = lmin[i, 0]
+                    kmax, kmin, kres = s1 * kos, s0 * kos, 0.0
+                    lr_max, lr_range, ds = s1 / sl, (s1 - s0) / sl, s1 - s0
+                dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
+                                                             mp)
+                n_clipped += clipped
+                if kmax > 0.0:
+                    rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
+                    end, val = end_check(a, jmax, lr, jel, rho, mp)
+                    if end == RUNNING and two_d:
+                        end, val = _two_d_check(a, c, mp)
+                    if end != RUNNING:
+                        break
+                factor = 1.0
+                if sequence:
+                    factor, dj = sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp,
+                                               st)
+                djm = dj**m if dj > 0.0 else 0.0
+                da = rate_from_power(dj, djm, jmax, mp) * factor
+                if two_d:
+                    if channel_mode:
+                        k1, k0 = channel_k(lmax, lmin, i, a, c, ct, mp, 1)[:2]
+                    else:
+                        kos_c = k_over_s_surface(code, a, gp)
+                        k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
+                    dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp)[0]
+                    c += cycle_rate(dj_c, jmax, mp) * factor
+                if da > 0.0:
+                    grew = True
+                a += da
+                cyc += 1.0
+                sum_djm += djm
+                n_acc += 1.0
+                max_dj = max(max_dj, dj)
+                max_jmax = max(max_jmax, jmax)
+                max_lr = max(max_lr, lr)
+                if a - a_rec >= rec_da and rec_n < rec.shape[0]:
+                    rec[rec_n, REC_CYCLE] = cyc
+                    rec[rec_n, REC_BLOCK] = blk
+                    rec[rec_n, REC_A] = a
+                    rec[rec_n, REC_C] = c
+                    rec[rec_n, REC_DJ] = max_dj
+                    rec[rec_n, REC_DJ_EQ] = (sum_djm / n_acc) ** (1.0 / m)
+                    rec[rec_n, REC_JMAX] = max_jmax
+                    rec[rec_n, REC_LR] = max_lr
+                    rec[rec_n, REC_DADN] = (a - a_rec) / (cyc - cyc_rec)
+                    rec_n += 1
+                    a_rec, cyc_rec = a, cyc
+                    sum_djm = n_acc = max_dj = max_jmax = max_lr = 0.0
+                if cyc >= max_cycles:
+                    end, val = END_MAX_CYCLES, cyc
+                    break
+            if end != RUNNING:
                 break
-        if end != RUNNING:
-            break
-        blk += 1.0
-        if not grew:
-            end, val = END_NO_GROWTH, a
-            break
-    st[ST_A] = a
-    st[ST_C] = c
-    st[ST_CYCLES] = cyc
-    st[ST_BLOCKS] = blk
-    acc[0], acc[1], acc[2], acc[3] = a_rec, cyc_rec, sum_djm, n_acc
-    acc[4], acc[5], acc[6], acc[7] = max_dj, max_jmax, max_lr, n_clipped
-    return end, val, rec_n
+            blk += 1.0
+            if not grew:
+                end, val = END_NO_GROWTH, a
+                break
+        st[ST_A] = a
+        st[ST_C] = c
+        st[ST_CYCLES] = cyc
+        st[ST_BLOCKS] = blk
+        acc[0], acc[1], acc[2], acc[3] = a_rec, cyc_rec, sum_djm, n_acc
+        acc[4], acc[5], acc[6], acc[7] = max_dj, max_jmax, max_lr, n_clipped
+        return end, val, rec_n
+
+    return run_cycles
+
+
+#: the stepper for one load channel (nominal stresses, the shape's own K solution), a crack
+#: with one dimension and no sequence model
+run_cycles = stepper_for(False, False, False)
 
 
 @jit

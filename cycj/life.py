@@ -309,12 +309,14 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     acc = np.zeros(8)
     acc[0], acc[1] = state[M.ST_A], state[M.ST_CYCLES]
     chunk = max(1, int(CHUNK_CYCLES // loads.n))
+    stepper = K.stepper_for(bool(loads.channel_slots), geo.two_d,
+                            case.loading.sequence != "none")
     rec_n = 0
     rows = []
     try:
         while True:
-            end, val, rec_n = K.run_cycles(loads.lmax, loads.lmin, state, chunk, max_cycles,
-                                           geo.code, gp, loads.ct, mp, rec_da, rec, rec_n, acc)
+            end, val, rec_n = stepper(loads.lmax, loads.lmin, state, chunk, max_cycles,
+                                      geo.code, gp, loads.ct, mp, rec_da, rec, rec_n, acc)
             if rec_n > rec.shape[0] - 5:  # flush and keep recording
                 rows.extend(map(tuple, rec[:rec_n]))
                 rec_n = 0
