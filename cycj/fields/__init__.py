@@ -20,45 +20,41 @@ Notches (:mod:`cycj.fields.notch`)
 See ``docs/stress_fields.md`` for formulas, sources and the proposed case-file keys.
 """
 
-from cycj.fields.notch import (
-    crack_at_hole_factor_scalar,
-    k_over_s_crack_at_hole,
-    neuber_masing,
-    neuber_masing_stress_range_scalar,
-    notch_delta_j,
-    notch_delta_j_scalar,
-    notch_root_delta_j,
-    smith_miller_notch_field_depth,
-)
-from cycj.fields.profiles import (
-    StressProfile,
-    linearise_polynomial,
-    linearise_table,
-    peak_stress,
-    polynomial_stress,
-    tabulated_stress,
-)
-from cycj.fields.residual import (
-    bs7910_residual_relaxation,
-    kr_with_secondary,
-    r6_plasticity_interaction,
-    residual_k_shift,
-    residual_stress_k,
-)
-from cycj.fields.weight_functions import (
-    edge_crack_plate_k,
-    edge_crack_plate_references,
-    edge_crack_semi_infinite_k,
-    glinka_shen_coefficients,
-    glinka_shen_influence,
-    glinka_shen_k,
-    glinka_shen_weight,
-    surface_crack_influence_coefficients,
-    surface_crack_k,
-    surface_crack_polynomial_k,
-    surface_crack_references,
-    tada_pure_bending_factor,
-)
+#: public name → module (imported on first use: the stepper needs only the compiled
+#: scalars, not scipy's quadrature helpers)
+_LAZY = {
+    "StressProfile": "cycj.fields.profiles",
+    "bs7910_residual_relaxation": "cycj.fields.residual",
+    "crack_at_hole_factor_scalar": "cycj.fields.notch",
+    "edge_crack_plate_k": "cycj.fields.weight_functions",
+    "edge_crack_plate_references": "cycj.fields.weight_functions",
+    "edge_crack_semi_infinite_k": "cycj.fields.weight_functions",
+    "glinka_shen_coefficients": "cycj.fields.weight_functions",
+    "glinka_shen_influence": "cycj.fields.weight_functions",
+    "glinka_shen_k": "cycj.fields.weight_functions",
+    "glinka_shen_weight": "cycj.fields.weight_functions",
+    "k_over_s_crack_at_hole": "cycj.fields.notch",
+    "kr_with_secondary": "cycj.fields.residual",
+    "linearise_polynomial": "cycj.fields.profiles",
+    "linearise_table": "cycj.fields.profiles",
+    "neuber_masing": "cycj.fields.notch",
+    "neuber_masing_stress_range_scalar": "cycj.fields.notch",
+    "notch_delta_j": "cycj.fields.notch",
+    "notch_delta_j_scalar": "cycj.fields.notch",
+    "notch_root_delta_j": "cycj.fields.notch",
+    "peak_stress": "cycj.fields.profiles",
+    "polynomial_stress": "cycj.fields.profiles",
+    "r6_plasticity_interaction": "cycj.fields.residual",
+    "residual_k_shift": "cycj.fields.residual",
+    "residual_stress_k": "cycj.fields.residual",
+    "smith_miller_notch_field_depth": "cycj.fields.notch",
+    "surface_crack_influence_coefficients": "cycj.fields.weight_functions",
+    "surface_crack_k": "cycj.fields.weight_functions",
+    "surface_crack_polynomial_k": "cycj.fields.weight_functions",
+    "surface_crack_references": "cycj.fields.weight_functions",
+    "tabulated_stress": "cycj.fields.profiles",
+    "tada_pure_bending_factor": "cycj.fields.weight_functions",
+}
 
 __all__ = [
     "StressProfile",
@@ -93,3 +89,11 @@ __all__ = [
     "tabulated_stress",
     "tada_pure_bending_factor",
 ]
+
+
+def __getattr__(name):
+    if name in _LAZY:
+        import importlib
+
+        return getattr(importlib.import_module(_LAZY[name]), name)
+    raise AttributeError(f"module 'cycj.fields' has no attribute {name!r}")

@@ -26,7 +26,6 @@ import numpy as np
 
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
-from cycj.fields import weight_functions as wf
 
 __all__ = [
     "RESIDUAL_SHAPES",
@@ -83,6 +82,8 @@ def residual_stress_k(a, residual, shape, relaxation=1.0, **dimensions):
        Mech. 15 (1991) 237.
     .. [2] BS 7910:2013+A1:2015, §7.3.4 (residual stress as a secondary stress; from memory).
     """
+    from cycj.fields import weight_functions as wf
+
     rel = float(relaxation)
     if not 0.0 <= rel <= 1.0:
         raise ValidityRangeError("relaxation factor must lie in [0, 1]")
