@@ -103,10 +103,28 @@ def rainflow_cycles(values, gate: float = 0.0, repeat: bool = False) -> dict:
     else:
         v, idx = reversals(values, gate)
     a, b, c = rainflow_pairs(v, closed=repeat)
-    va, vb = v[a], v[b]
+    rng, mean, start, end = _cycle_table(v, np.asarray(idx, dtype=np.int64), a, b)
     n_rev = v.shape[0] - 1 if (repeat and v.shape[0] > 1) else v.shape[0]
-    return {"range": np.abs(vb - va), "mean": 0.5 * (va + vb), "count": c,
-            "start": idx[a], "end": idx[b], "n_reversals": n_rev}
+    return {"range": rng, "mean": mean, "count": c, "start": start, "end": end,
+            "n_reversals": n_rev}
+
+
+@jit
+def _cycle_table(v, idx, first, second):
+    """Range, mean and sample indices of each counted cycle, in one pass."""
+    n = first.shape[0]
+    rng = np.empty(n)
+    mean = np.empty(n)
+    start = np.empty(n, dtype=np.int64)
+    end = np.empty(n, dtype=np.int64)
+    for k in range(n):
+        x = v[first[k]]
+        y = v[second[k]]
+        rng[k] = abs(y - x)
+        mean[k] = 0.5 * (x + y)
+        start[k] = idx[first[k]]
+        end[k] = idx[second[k]]
+    return rng, mean, start, end
 
 
 def count_cycles(values, gate: float = 0.0, repeat: bool = False):
