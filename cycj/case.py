@@ -64,6 +64,7 @@ class RunOptions:
     max_cycles: float = 1e9
     crack_length_limit: float | None = None
     criteria: tuple[str, ...] = ("toughness", "collapse", "size-limit")
+    after_leak: str = "stop"      # surface crack through the wall: "stop" or "through-crack"
 
 
 @dataclass(frozen=True)
@@ -533,5 +534,9 @@ def _run(t: Table | None, geometry: Geometry, source: str | None = None) -> RunO
             hint = f" (did you mean '{near[0]}'?)" if near else ""
             raise t.error("criteria", f"unknown criterion{hint}",
                           expected="any of " + ", ".join(CRITERIA), found=c)
+    after = t.choice("after_leak", ("stop", "through-crack"), default="stop")
+    if after != "stop" and not geometry.two_d:
+        raise t.error("after_leak", "only a surface crack leaks and becomes a through crack",
+                      expected="'stop'", found=after)
     t.finish()
-    return RunOptions(method, maxc, limit, tuple(crit))
+    return RunOptions(method, maxc, limit, tuple(crit), after)

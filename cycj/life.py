@@ -415,7 +415,68 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
     refs = references_for(case)
     summary["references"] = refs
     summary["inputs"] = case.resolved()
-    return LifeResult(summary, hist, case, loads, warnings, refs)
+    result = LifeResult(summary, hist, case, loads, warnings, refs)
+    if reason == "leak" and case.run.after_leak == "through-crack":
+        return continue_as_through_crack(result, progress)
+    return result
+
+
+def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
+    """After a surface crack leaks, go on with a through crack of the same surface length 2c in
+    the plate (a middle-cracked plate of the same width and thickness; membrane load only, the
+    bending part is dropped with a warning), until the first end criterion.
+
+    The history continues: cycles and blocks add up, ``a_mm`` of the through phase is the
+    half-length and ``c_mm`` equals it.
+
+    References
+    ----------
+    .. [1] BS 7910:2013+A1:2015 §8 (re-characterising a surface flaw that breaks through as a
+       through-thickness flaw of the same length; from memory).
+    """
+    from dataclasses import replace
+
+    import pandas as pd
+
+    from cycj.geometry import make_geometry
+
+    case, s1 = leaked.case, leaked.summary
+    dims = case.geometry.dims
+    c_end = float(leaked.history["c_mm"].iloc[-1])
+    warnings = list(leaked.warnings)
+    if dims.get("bending_ratio"):
+        warnings.append("through-crack phase: the bending part of the load is not carried "
+                        "(membrane stress only)")
+    limit = 0.95 * dims["width"] / 2
+    if not c_end < limit:
+        s1 = dict(s1, warnings=warnings + ["the leaked crack is already wider than the plate's "
+                                           "through-crack solution allows"])
+        return replace(leaked, summary=s1, warnings=s1["warnings"])
+    geo = make_geometry("center-crack-plate", c_end, width=dims["width"],
+                        thickness=dims["thickness"],
+                        constraint="plane-strain" if case.geometry.plane_strain else
+                        "plane-stress")
+    run = replace(case.run, max_cycles=max(case.run.max_cycles - s1["cycles_to_end"], 1.0),
+                  crack_length_limit=None, after_leak="stop")
+    through = predict_life(replace(case, geometry=geo, run=run, fields=None),
+                           progress=progress)
+    h2 = through.history.copy()
+    h2["cycle"] += s1["cycles_to_end"]
+    h2["block"] += s1["blocks_to_end"]
+    h2["c_mm"] = h2["a_mm"]
+    hist = pd.concat([leaked.history, h2.iloc[1:]], ignore_index=True)
+    s2 = dict(through.summary)
+    s2.update(cycles_to_end=float(hist["cycle"].iloc[-1]),
+              blocks_to_end=float(hist["block"].iloc[-1]),
+              a_initial_mm=s1["a_initial_mm"], leak_cycles=s1["cycles_to_end"],
+              leak_half_length_mm=c_end, through_crack_end_half_length_mm=s2["a_end_mm"],
+              phases=["surface crack to leak", "through crack"],
+              warnings=warnings + through.warnings, inputs=s1["inputs"],
+              references=s1["references"] + [r for r in through.references
+                                             if r not in s1["references"]])
+    if "hours_to_end" in s1:
+        s2["hours_to_end"] = s1["hours_to_end"] + through.summary.get("hours_to_end", 0.0)
+    return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"])
 
 
 def _peak_row(case, loads, mp, a):

@@ -139,3 +139,25 @@ def test_tabulated_outside_range_is_an_error(tmp_path):
                             "thickness": "12.5 mm", "crack_length": "5 mm"})
     with pytest.raises(CycjInputError, match="validity"):
         case_from_dict(d, base=tmp_path)
+
+
+def test_leak_then_through_crack():
+    # after break-through, the flaw is re-characterised as a through crack of the same length
+    # (BS 7910 §8, from memory): the run goes on and ends later, by collapse or the FAD
+    geo = {"shape": "surface-crack-plate", "width": "200 mm", "thickness": "12 mm",
+           "crack_length": "3 mm", "half_length": "6 mm"}
+    stop = predict_life(make_case(geometry=geo, loading={"constant": {"max": "180 MPa",
+                                                                      "min": "0 MPa"}},
+                                  material={"toughness": {"J_c": "80 kJ/m^2"}},
+                                  run={"criteria": ["fad", "collapse"]}))
+    go = predict_life(make_case(geometry=geo, loading={"constant": {"max": "180 MPa",
+                                                                    "min": "0 MPa"}},
+                                material={"toughness": {"J_c": "80 kJ/m^2"}},
+                                run={"criteria": ["fad", "collapse"],
+                                     "after_leak": "through-crack"}))
+    assert stop.summary["end_reason"] == "leak"
+    assert go.summary["leak_cycles"] == stop.summary["cycles_to_end"]
+    assert go.summary["end_reason"] in ("fad", "collapse")
+    assert go.summary["cycles_to_end"] > stop.summary["cycles_to_end"]
+    h = go.history
+    assert np.all(np.diff(h["cycle"]) >= 0) and h["c_mm"].iloc[-1] > h["c_mm"].iloc[0]
