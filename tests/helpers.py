@@ -35,3 +35,16 @@ def make_case(**sections):
     from cycj.case import case_from_dict
 
     return case_from_dict(case_dict(**sections), source="<test>")
+
+
+def run_cli(args, capsys):
+    """Run the command line in-process: (exit status, stdout, stderr)."""
+    from cycj.cli import main
+
+    try:
+        main([str(a) for a in args])
+        code = 0
+    except SystemExit as exc:
+        code = exc.code
+    cap = capsys.readouterr()
+    return code, cap.out, cap.err

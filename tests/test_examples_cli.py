@@ -13,20 +13,12 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from cycj.cli import main
+from tests.helpers import run_cli
 
 ROOT = Path(__file__).parents[1]
 EXAMPLES = ROOT / "examples"
 
 
-def run_cli(args, capsys):
-    try:
-        main([str(a) for a in args])
-        code = 0
-    except SystemExit as exc:
-        code = exc.code
-    cap = capsys.readouterr()
-    return code, cap.out, cap.err
 
 
 def readme_commands() -> list[list[str]]:

@@ -6,19 +6,9 @@ import json
 import numpy as np
 import pytest
 
-from cycj.cli import main
 from cycj.errors import CycjInputError
 from tests import mutation_inputs as MI
-
-
-def run_cli(args, capsys):
-    try:
-        main([str(a) for a in args])
-        code = 0
-    except SystemExit as exc:
-        code = exc.code
-    cap = capsys.readouterr()
-    return code, cap.out, cap.err
+from tests.helpers import run_cli
 
 
 @pytest.fixture(scope="module")

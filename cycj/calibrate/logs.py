@@ -107,18 +107,24 @@ def _check_cycles(cyc, src):
                              found=float(cyc.max() - cyc.min()))
 
 
-def _crack_log(name, data, crack_factor, load_factor):
-    n = data["cycle"]
-    keep = np.ones(n.size, bool)
+def _increasing(name, cycles):
+    """Mask of readings whose cycle count increases, and the skip reasons of the others."""
+    keep = np.ones(cycles.size, bool)
     skipped = []
     last = -np.inf
-    for i, c in enumerate(n):
+    for i, c in enumerate(cycles):
         if c <= last:
             keep[i] = False
             skipped.append({"log": name, "cycle": float(c),
                             "reason": "cycle count does not increase"})
         else:
             last = c
+    return keep, skipped
+
+
+def _crack_log(name, data, crack_factor, load_factor):
+    n = data["cycle"]
+    keep, skipped = _increasing(name, n)
     return CrackLog(name, n[keep], data["crack_length"][keep] * crack_factor,
                     data["load_max"][keep] * load_factor, data["load_min"][keep] * load_factor,
                     skipped)
@@ -132,16 +138,7 @@ def _raw_log(name, data, load_factor, displacement_factor):
     starts = np.concatenate([[0], change])
     ends = np.concatenate([change, [cyc.size]])
     run_cycles = cyc[starts]
-    keep = np.ones(starts.size, bool)
-    skipped = []
-    last = -np.inf
-    for i, c in enumerate(run_cycles):
-        if c <= last:
-            keep[i] = False
-            skipped.append({"log": name, "cycle": float(c),
-                            "reason": "cycle count does not increase"})
-        else:
-            last = c
+    keep, skipped = _increasing(name, run_cycles)
     return RawLog(name, run_cycles[keep], starts[keep], ends[keep],
                   data["load"] * load_factor, data["displacement"] * displacement_factor,
                   skipped)

@@ -121,20 +121,8 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
     if dp <= 0.0:
         out[STATUS] = 2
         return
-    n_unl = (imin - imax) % n + 1
-    n_ld = (imax - imin) % n + 1
-    pu = np.empty(n_unl)
-    vu = np.empty(n_unl)
-    for t in range(n_unl):
-        j = (imax + t) % n
-        pu[t] = p_in[j]
-        vu[t] = v_in[j]
-    pl = np.empty(n_ld)
-    vl = np.empty(n_ld)
-    for t in range(n_ld):
-        j = (imin + t) % n
-        pl[t] = p_in[j]
-        vl[t] = v_in[j]
+    pu, vu = _cyclic_slice(p_in, v_in, imax, imin)    # unloading branch
+    pl, vl = _cyclic_slice(p_in, v_in, imin, imax)    # loading branch
     c_ref = _slope(pu, vu, pmax - fit_hi * dp, pmax - fit_lo * dp)
     if not math.isfinite(c_ref):
         out[STATUS] = 3
@@ -185,14 +173,21 @@ def _loading_branch(p_in, v_in):
             imax = i
         if p_in[i] < p_in[imin]:
             imin = i
-    n_ld = (imax - imin) % n + 1
-    pl = np.empty(n_ld)
-    vl = np.empty(n_ld)
-    for t in range(n_ld):
-        j = (imin + t) % n
-        pl[t] = p_in[j]
-        vl[t] = v_in[j]
-    return pl, vl
+    return _cyclic_slice(p_in, v_in, imin, imax)
+
+
+@jit
+def _cyclic_slice(p_in, v_in, i_from, i_to):
+    """Samples from index ``i_from`` to ``i_to`` of a loop, wrapping round its end."""
+    n = p_in.size
+    m = (i_to - i_from) % n + 1
+    p = np.empty(m)
+    v = np.empty(m)
+    for t in range(m):
+        j = (i_from + t) % n
+        p[t] = p_in[j]
+        v[t] = v_in[j]
+    return p, v
 
 
 @jit
