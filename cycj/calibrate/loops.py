@@ -106,13 +106,7 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
     if n < min_points:
         out[STATUS] = 1
         return
-    imax = 0
-    imin = 0
-    for i in range(n):
-        if p_in[i] > p_in[imax]:
-            imax = i
-        if p_in[i] < p_in[imin]:
-            imin = i
+    imax, imin = _extremes(p_in)
     pmax = p_in[imax]
     pmin = p_in[imin]
     out[P_MAX] = pmax
@@ -165,15 +159,21 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
 @jit
 def _loading_branch(p_in, v_in):
     """Samples from the minimum to the maximum load (cyclically)."""
-    n = p_in.size
+    imax, imin = _extremes(p_in)
+    return _cyclic_slice(p_in, v_in, imin, imax)
+
+
+@jit
+def _extremes(p_in):
+    """Indices of the (first) largest and smallest load of a loop."""
     imax = 0
     imin = 0
-    for i in range(n):
+    for i in range(p_in.size):
         if p_in[i] > p_in[imax]:
             imax = i
         if p_in[i] < p_in[imin]:
             imin = i
-    return _cyclic_slice(p_in, v_in, imin, imax)
+    return imax, imin
 
 
 @jit
