@@ -109,9 +109,28 @@ class Case:
         }
         out["material"]["flow_stress"] = self.material.flow_stress
         out["material"]["effective_modulus"] = self.material.effective_modulus(geo.plane_strain)
+        if geo.notch is not None:
+            out["geometry"]["notch"] = geo.notch
+        if self.fields is not None:
+            out["fields"] = _fields_plain(self.fields)
         if self.inspection is not None:
             out["inspection"] = self.inspection
         return out
+
+
+def _fields_plain(spec) -> dict:
+    """Stress-field inputs as plain data (profiles by kind and coefficients or table)."""
+    def prof(p):
+        if p is None or isinstance(p, float):
+            return p
+        return {"kind": p.kind, "coefficients": list(p.coefficients),
+                "x_over_t": list(p.x_over_t), "stress": list(p.stress), "scale": p.scale}
+
+    return {"stress_profile": prof(spec.profile), "residual_stress": prof(spec.residual),
+            "residual_relaxation": spec.relaxation,
+            "channels": [{"name": c.name, "column": c.column, "unit_factor": c.unit_factor,
+                          "scale": c.scale, "stress_profile": prof(c.profile)}
+                         for c in spec.channels]}
 
 
 def _plain(obj):

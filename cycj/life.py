@@ -55,6 +55,7 @@ class BlockLoads:
     ct: np.ndarray = field(default_factory=lambda: np.zeros((1, 2, 1)))
     i_peak: int = 0
     channel_slots: dict = field(default_factory=dict)
+    peak_equivalent: float | None = None   # with load channels: combined peak as membrane MPa
 
     @property
     def n(self) -> int:
@@ -102,8 +103,8 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
     if case.fields is not None:
         from cycj.channels import channel_block
 
-        lmax, lmin, ct, i_peak, slots, samples, _ = channel_block(case, load_scale, order)
-        return BlockLoads(lmax, lmin, order, ld.duration_h, samples, ct, i_peak, slots)
+        lmax, lmin, ct, i_peak, slots, samples, peak = channel_block(case, load_scale, order)
+        return BlockLoads(lmax, lmin, order, ld.duration_h, samples, ct, i_peak, slots, peak)
     if ld.constant is not None:
         smax = np.array([ld.constant[0] * per_force])
         smin = np.array([ld.constant[1] * per_force])
@@ -405,7 +406,8 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
         "method_reason": why,
         "j_method": case.analysis.j_method,
         "cycle_order": loads.order,
-        "peak_nominal_stress_MPa": loads.peak,
+        "peak_nominal_stress_MPa": loads.peak if loads.peak_equivalent is None
+        else loads.peak_equivalent,
         "load_scale": load_scale,
         "version": __version__,
         "warnings": warnings,

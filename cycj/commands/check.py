@@ -21,7 +21,9 @@ def check(case_file, as_json):
         return
     click.echo(f"case: {case.title}  ({case_file})")
     click.echo("internal units: N, mm, MPa, kJ/m^2, MPa*mm^0.5, mm/cycle, h")
-    for section in ("material", "geometry", "growth", "loading", "analysis", "run"):
+    for section in ("material", "geometry", "growth", "loading", "fields", "analysis", "run"):
+        if section not in data:
+            continue
         click.echo(f"[{section}]")
         for k, v in data[section].items():
             click.echo(f"  {k} = {_fmt(v)}")
