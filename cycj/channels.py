@@ -30,6 +30,7 @@ from cycj.model_params import (
     CH_N,
     CH_PB,
     CH_PM,
+    CH_SECONDARY,
     CH_SURFACE,
     CH_THICKNESS,
     CH_WIDTH,
@@ -89,7 +90,8 @@ def table_value(ct, row, a, c, mp):
 @jit
 def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     """K_max, K_min [MPa√mm] (residual included), primary L_r at the peak and over the range,
-    the membrane stress range [MPa] and the residual K_s of cycle ``i`` at crack size ``a``
+    the membrane stress range [MPa] and the secondary K_s at the peak (residual stress and
+    secondary channels) of cycle ``i`` at crack size ``a``
     (half-length ``c`` for a surface crack) at crack-front ``point`` (0 deepest, 1 surface)."""
     nch = int(mp[CH_N])
     base = point * (nch + 1)
@@ -97,6 +99,8 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     kres = table_at(ct, base + nch, ia, fa, jc, gc)
     kmax = kres
     kmin = kres
+    ks1 = kres          # secondary part of K at the peak (residual and secondary channels)
+    ks0 = kres
     pm1 = pb1 = pm0 = pb0 = 0.0
     for j in range(nch):
         kj = table_at(ct, base + j, ia, fa, jc, gc)
@@ -104,14 +108,19 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
         v0 = lmin[i, j]
         kmax += v1 * kj
         kmin += v0 * kj
-        pm1 += v1 * mp[CH_PM + j]
-        pb1 += v1 * mp[CH_PB + j]
-        pm0 += v0 * mp[CH_PM + j]
-        pb0 += v0 * mp[CH_PB + j]
+        if mp[CH_SECONDARY + j] > 0.5:
+            ks1 += v1 * kj
+            ks0 += v0 * kj
+        else:
+            pm1 += v1 * mp[CH_PM + j]
+            pb1 += v1 * mp[CH_PB + j]
+            pm0 += v0 * mp[CH_PM + j]
+            pb0 += v0 * mp[CH_PB + j]
     if kmin > kmax:  # the channels' mix can turn the cycle round at a larger crack
         kmax, kmin = kmin, kmax
         pm1, pm0 = pm0, pm1
         pb1, pb0 = pb0, pb1
+        ks1 = ks0
     t = mp[CH_THICKNESS]
     alpha = a / t
     if mp[CH_SURFACE] > 0.5:   # BS 7910 Annex P: α″ of a surface flaw of length 2c
@@ -121,7 +130,7 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     sy = mp[SIGMA_Y]
     lr_max = plate_reference_stress(pm1, pb1, alpha) / sy
     lr_range = plate_reference_stress(pm1 - pm0, pb1 - pb0, alpha) / sy
-    return kmax, kmin, lr_max, lr_range, abs(pm1 - pm0), kres
+    return kmax, kmin, lr_max, lr_range, abs(pm1 - pm0), ks1
 
 
 # ------------------------------------------------------------------ building the tables
@@ -170,6 +179,7 @@ def channel_block(case, load_scale: float, order: str):
     for j, ch in enumerate(channels):
         pm, pb = ch.profile.linearise()
         slots[M.CH_PM + j], slots[M.CH_PB + j] = pm, pb
+        slots[M.CH_SECONDARY + j] = 1.0 if ch.secondary else 0.0
     return lmax, lmin, ct, i_peak, slots, samples, float(combined[peak_idx[i_peak]])
 
 

@@ -13,7 +13,9 @@ This module is the only place the layout is defined; :func:`cycj.life.model_arra
 MAX_CHANNELS = 6
 CH_PM = 45
 CH_PB = CH_PM + MAX_CHANNELS
-N_MP = CH_PB + MAX_CHANNELS
+#: 1.0 for a channel whose stress is secondary (in K and ρ, never in L_r), e.g. thermal
+CH_SECONDARY = CH_PB + MAX_CHANNELS
+N_MP = CH_SECONDARY + MAX_CHANNELS
 
 # crack-state slots (float64 array carried between compiled calls)
 (ST_A, ST_C, ST_CYCLES, ST_BLOCKS, ST_A_OL, ST_Z_OL, ST_K_OL) = range(7)

@@ -144,3 +144,27 @@ def test_surface_crack_bending_profile_matches_bending_ratio():
     prof = predict_life(_surface(geometry={"stress_profile": {
         "kind": "polynomial", "coefficients": [1.0 + beta, -2.0 * beta]}})).summary
     assert prof["cycles_to_end"] == pytest.approx(shape["cycles_to_end"], rel=1e-2)
+
+
+def test_secondary_channel_adds_to_k_not_to_lr(tmp_path):
+    # R6 / BS 7910: a secondary (e.g. thermal) stress enters K (and ρ) but never L_r
+    rng = np.random.default_rng(4)
+    p = 60 + 40 * rng.random(200)
+    q = 30 * rng.random(200)
+    np.savetxt(tmp_path / "h.csv", np.column_stack([p, q]), delimiter=",", header="p,q",
+               comments="")
+    bend = {"kind": "polynomial", "coefficients": [1.0, -2.0]}
+    uniform = {"kind": "polynomial", "coefficients": [1.0]}
+
+    def run(secondary):
+        chans = [{"name": "p", "column": "p", "unit": "MPa", "stress_profile": uniform}]
+        if secondary is not None:
+            chans.append({"name": "q", "column": "q", "unit": "MPa", "stress_profile": bend,
+                          "secondary": secondary})
+        return predict_life(_case(tmp_path, loading={"history": "h.csv", "channels": chans},
+                                  analysis={"j_method": "reference-stress"}), method="cycle")
+
+    alone, sec, prim = run(None), run(True), run(False)
+    assert sec.summary["cycles_to_end"] < alone.summary["cycles_to_end"]
+    assert sec.history["Lr"].iloc[0] == pytest.approx(alone.history["Lr"].iloc[0], rel=1e-9)
+    assert prim.history["Lr"].iloc[0] > alone.history["Lr"].iloc[0]

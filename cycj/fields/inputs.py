@@ -16,6 +16,7 @@ Keys (all optional)::
     unit = "MPa"
     scale = 1.0
     stress_profile = { kind = "polynomial", coefficients = [1.0] }   # per unit channel value
+    secondary = false           # true: a secondary (e.g. thermal) stress, in K but not in L_r
 """
 
 from __future__ import annotations
@@ -38,6 +39,7 @@ class Channel:
     unit_factor: float
     scale: float
     profile: object            # cycj.fields.profiles.StressProfile
+    secondary: bool = False    # thermal-type stress: in K (and R6 ρ), never in L_r
 
 
 @dataclass(frozen=True)
@@ -140,9 +142,12 @@ def read_fields(geo_raw: dict, channels_raw, source, base: Path,
             factor = 1.0 if unit is None else to_internal(f"1 {unit}", "stress",
                                                           key=t.key("unit"), source=source)
             scale = t.number("scale", default=1.0)
+            secondary = t.get("secondary", False)
+            if not isinstance(secondary, bool):
+                raise t.error("secondary", "must be true or false", found=secondary)
             praw = t.get("stress_profile")
             prof = (StressProfile(**UNIFORM) if praw is None
                     else read_profile(praw, t.key("stress_profile"), source, base))
             t.finish()
-            channels.append(Channel(name, column, factor, scale, prof))
+            channels.append(Channel(name, column, factor, scale, prof, secondary))
     return FieldSpec(profile, residual, relaxation, tuple(channels))
