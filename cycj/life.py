@@ -85,6 +85,24 @@ class LifeResult:
     loads: BlockLoads
     warnings: list = field(default_factory=list)
     references: list = field(default_factory=list)
+    model: np.ndarray | None = None     # the kernels' model-parameter array of the run
+
+    def peak_points(self, a_mm, c_mm=None):
+        """(L_r, K_r) under the history's peak load at crack sizes ``a_mm`` (half-lengths
+        ``c_mm`` for a surface crack), as the end criteria see them: K_r = √(J_el/J_c) + ρ
+        (secondary stresses included), L_r primary."""
+        geo, loads = self.case.geometry, self.loads
+        a_mm = np.asarray(a_mm, float)
+        c_mm = np.full(a_mm.shape, geo.params[5]) if c_mm is None else np.asarray(c_mm, float)
+        gp = geo.params.copy()
+        lr, kr = [], []
+        for a, c in zip(a_mm, c_mm, strict=True):
+            gp[5] = c
+            _, _, l_r, jel, _, rho = K.peak_state(loads.lmax, loads.i_peak, a, geo.code, gp,
+                                                  loads.ct, self.model)
+            lr.append(l_r)
+            kr.append(math.sqrt(jel / self.model[M.J_C]) + rho)
+        return np.array(lr), np.array(kr)
 
 
 # ------------------------------------------------------------------------------- loads
@@ -417,7 +435,7 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
     refs = references_for(case)
     summary["references"] = refs
     summary["inputs"] = case.resolved()
-    result = LifeResult(summary, hist, case, loads, warnings, refs)
+    result = LifeResult(summary, hist, case, loads, warnings, refs, mp)
     if reason == "leak" and case.run.after_leak == "through-crack":
         return continue_as_through_crack(result, progress)
     return result
@@ -478,7 +496,8 @@ def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
                                              if r not in s1["references"]])
     if "hours_to_end" in s1:
         s2["hours_to_end"] = s1["hours_to_end"] + through.summary.get("hours_to_end", 0.0)
-    return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"])
+    return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"],
+                      leaked.model)
 
 
 def _peak_row(case, loads, mp, a):

@@ -90,8 +90,9 @@ def criterion_figure(result):
             else fad_option1(lr, mat.lr_max)
         ax.plot(lr, f, color="k", label=f"FAD {case.analysis.fad}")
         ax.vlines(mat.lr_max, 0, f[-1], color="k")
-        kr = np.sqrt(_jel_peak(result) / mat.J_c)  # K_r = K_max/K_mat = √(J_el/J_c)
-        ax.plot(h["Lr"], kr, "o-", ms=2, color="C3", label="assessment points")
+        a = np.clip(h["a_mm"].to_numpy(), *case.geometry.size_limits)
+        lr_pts, kr = result.peak_points(a, h["c_mm"] if "c_mm" in h else None)
+        ax.plot(lr_pts, kr, "o-", ms=2, color="C3", label="assessment points (peak load)")
         ax.set_xlabel("L_r = P_max / P_L")
         ax.set_ylabel("K_r = K_max / K_mat")
         ax.set_xlim(0, mat.lr_max * 1.1)
@@ -105,12 +106,3 @@ def criterion_figure(result):
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
     return fig
-
-
-def _jel_peak(result):
-    """J_el at the history's peak load along the history [kJ/m²]."""
-    case = result.case
-    geo = case.geometry
-    a = np.clip(result.history["a_mm"].to_numpy(), *geo.size_limits)
-    k = result.loads.peak * geo.k_over_s(a)
-    return np.asarray(k, float) ** 2 / case.material.effective_modulus(geo.plane_strain)
