@@ -181,3 +181,22 @@ def test_history_is_sparse_and_monotone():
     assert np.all(np.diff(h["a_mm"]) >= 0) and np.all(np.diff(h["cycle"]) >= 0)
     assert list(h.columns) == ["cycle", "block", "a_mm", "dJ_kJm2", "dJ_eq_kJm2", "Jmax_kJm2",
                                "Lr", "dadN_mm_per_cycle"]
+
+
+def test_fad_end_point_lies_on_the_curve():
+    # the assessment point at the end of a FAD-ended run sits on the Option 1 curve
+    # (R6 / BS 7910), and the first one inside it
+    from cycj.jintegral import fad_option1
+
+    geo = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm",
+           "crack_length": "10 mm"}
+    case = make_case(geometry=geo, loading={"constant": {"max": "150 kN", "min": "0 kN"}},
+                     material={"toughness": {"J_c": "30 kJ/m^2"}},
+                     analysis={"fad": "option-1"},
+                     run={"criteria": ["fad", "collapse"], "crack_length_limit": "45 mm"})
+    res = predict_life(case)
+    assert res.summary["end_reason"] == "fad"
+    lr, kr = res.peak_points([res.summary["a_initial_mm"], res.summary["a_end_mm"]])
+    f = fad_option1(lr, case.material.lr_max)
+    assert kr[0] < f[0]
+    assert kr[1] == pytest.approx(f[1], rel=2e-3)
