@@ -200,3 +200,17 @@ def test_fad_end_point_lies_on_the_curve():
     f = fad_option1(lr, case.material.lr_max)
     assert kr[0] < f[0]
     assert kr[1] == pytest.approx(f[1], rel=2e-3)
+
+
+def test_growth_curve_from_another_start():
+    # the notebook helper: a–N from a chosen initial size; starting later on the same curve
+    # takes the remaining cycles of the full run (same closed form, Anderson Eq. 10.9)
+    from cycj.life import growth_curve
+
+    case = make_case(material={"growth": BS7910})
+    a, n = growth_curve(case)
+    a2, n2 = growth_curve(case, a_start_mm=4.0)
+    assert n[0] == 0 and n2[0] == 0 and a2[0] == 4.0
+    assert np.all(np.diff(a) > 0)
+    c_k = 1.648e-8 / math.sqrt(1000) ** 3
+    assert n2[-1] == pytest.approx(paris_closed_form(c_k, 3.0, 100.0, 4.0, 10.0), rel=5e-3)
