@@ -46,14 +46,14 @@ def _clean(text: str) -> str:
 def to_internal(value, kind: str, *, key: str = "", source: str | None = None) -> float:
     """Convert ``value`` (a number, or a string such as ``"25 mm"``) to the internal unit of
     ``kind`` (a key of :data:`INTERNAL`).  Raises :class:`CycjInputError` naming ``key``."""
-    unit, human = INTERNAL[kind]
+    human = INTERNAL[kind][1]
     if isinstance(value, bool):
         raise CycjInputError("not a quantity", source=source, key=key, expected=human,
                              found=value)
     if isinstance(value, (int, float)):
         out = float(value)
     elif isinstance(value, str):
-        out = _parse(value, unit, human, key, source)
+        out = _parse(value, kind, key, source)
     else:
         raise CycjInputError("not a quantity", source=source, key=key, expected=human,
                              found=value)
@@ -96,8 +96,8 @@ def _fast(text: str, kind: str):
     return number * factor if k == kind else None
 
 
-def _parse(text: str, unit: str, human: str, key: str, source: str | None) -> float:
-    kind = next(k for k, v in INTERNAL.items() if v[0] == unit)
+def _parse(text: str, kind: str, key: str, source: str | None) -> float:
+    unit, human = INTERNAL[kind]
     fast = _fast(text, kind)
     if fast is not None:
         return fast
