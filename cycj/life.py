@@ -168,7 +168,7 @@ def size_limit(case: Case) -> tuple[float, str]:
     return hi, why
 
 
-def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 1.0,
+def model_array(case: Case, toughness_scale: float = 1.0,
                 loads: BlockLoads | None = None) -> np.ndarray:
     """Fill the compiled kernels' model-parameter array from a case (see cycj.model_params)."""
     mat, geo, law, ld = case.material, case.geometry, case.growth, case.loading
@@ -186,7 +186,7 @@ def model_array(case: Case, toughness_scale: float = 1.0, growth_scale: float = 
     mp[M.FLOW_RATIO] = mat.flow_stress / mat.yield_strength
     mp[M.LR_MAX] = mat.lr_max
     mp[M.J_C] = (mat.J_c or math.inf) * toughness_scale
-    mp[M.C_LAW], mp[M.M_LAW], mp[M.DJ_TH] = law.C * growth_scale, law.m, law.threshold
+    mp[M.C_LAW], mp[M.M_LAW], mp[M.DJ_TH] = law.C, law.m, law.threshold
     mp[M.Q_TOUGH] = law.toughness_exponent if mat.J_c else 0.0
     mp[M.J_METHOD] = J_METHODS[case.analysis.j_method]
     mp[M.CLOSURE] = CLOSURE_CODES[ld.closure.model]
@@ -295,8 +295,9 @@ def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, 
 
 
 def _grid(a0, a_end, n_cycles):
+    """Crack sizes for the block-growth table: fewer points for long blocks."""
     n = int(np.clip(2.0e7 / max(n_cycles, 1), 80, 600))
-    return a0 + (a_end - a0) * np.linspace(0.0, 1.0, n) ** 1.0
+    return np.linspace(a0, a_end, n)
 
 
 def _block_phase(case, loads, mp, a0, a_crit, max_cycles):
