@@ -22,10 +22,10 @@ import numpy as np
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent))
 
-from cycj import kernels as K  # noqa: E402
-from cycj import model_params as M  # noqa: E402
+from cycj import kernel_slots as M  # noqa: E402
 from cycj.case import case_from_dict  # noqa: E402
 from cycj.life import model_array, predict_life  # noqa: E402
+from cycj.life import stepper as K  # noqa: E402
 
 
 def ct_case(closure="newman", max_cycles=1e12):
@@ -111,7 +111,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
 def channels_vs_uniform(n_block=200_000, blocks=5):
     """Throughput with two load channels (weight-function K tables, plate reference stress)
     against one uniform-stress channel on the same edge-crack plate."""
-    from cycj.channels import channel_block
+    from cycj.life.loads import channel_block
 
     base = {"material": {"elastic_modulus": "200 GPa", "yield_strength": "350 MPa",
                          "tensile_strength": "500 MPa",

@@ -15,10 +15,10 @@ from cycj._version import __version__
 
 _LAZY = {
     "load_case": "cycj.case:load_case",
-    "predict_life": "cycj.life:predict_life",
+    "predict_life": "cycj.life.predict:predict_life",
     "count_cycles": "cycj.spectrum:count_cycles",
-    "fit_logs": "cycj.calibrate:fit_logs",
-    "plan_inspections": "cycj.plan:plan_inspections",
+    "fit_logs": "cycj.calibrate.fit:fit_logs",
+    "plan_inspections": "cycj.plan.inspections:plan_inspections",
 }
 
 __all__ = ["__version__", *_LAZY]

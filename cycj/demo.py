@@ -154,13 +154,13 @@ def run_demo(folder, *, force: bool = False, echo=print) -> dict:
     The inputs are written through :class:`cycj.outputs.OutputDir` (a non-empty folder is
     refused unless ``force``); each stage then writes its own folder atomically.
     """
-    from cycj.calibrate import fit_logs
-    from cycj.calibrate.report import write_outputs
+    from cycj.calibrate.fit import fit_logs
+    from cycj.calibrate.write import write_outputs
     from cycj.case import load_case
-    from cycj.life_outputs import answer_sentence as life_answer
-    from cycj.life_outputs import run_and_write
+    from cycj.life.write import answer_sentence as life_answer
+    from cycj.life.write import run_and_write
     from cycj.outputs import OutputDir
-    from cycj.plan import plan_inspections
+    from cycj.plan.inspections import plan_inspections
     from cycj.plan.write import answer_sentence as plan_answer
     from cycj.plan.write import write_plan
 

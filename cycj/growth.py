@@ -20,15 +20,41 @@ References
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 import numpy as np
 
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
+from cycj.models import register
 
 # closure model codes of the stepper
-NONE, CONSTANT, ELBER, NEWMAN = 0, 1, 2, 3
+# closure models: one record each (name, kernel code, slots read, validity, citation)
+NONE = register(
+    "closure", "none", 0, slots=("INCLUDE_COMP",),
+    validity="opening at the minimum load, or at zero load when the compressive part is "
+    "excluded", citation=()).code
+CONSTANT = register(
+    "closure", "constant", 1, slots=("U_CONST",), validity="0 < U ≤ 1 (measured or assumed)",
+    citation=("Elber, W., ASTM STP 486 (1971) 230–242: effective range U·ΔK above the opening "
+              "load",)).code
+ELBER = register(
+    "closure", "elber", 2, validity="−0.1 ≤ R ≤ 0.7 (2024-T3); R is clipped and counted",
+    citation=("Elber, W., ASTM STP 486 (1971) 230–242: U = 0.5 + 0.4R",)).code
+NEWMAN = register(
+    "closure", "newman", 3, slots=("ALPHA_NEWMAN", "FLOW_RATIO"),
+    validity="−1 ≤ R < 1, S_max/σ_0 ≤ 0.8 (clipped and counted), 1 ≤ α ≤ 3",
+    citation=("Newman, J. C., Jr., Int. J. Fract. 24 (1984) R131–R135: crack-opening "
+              "function",)).code
+#: closure name → kernel code (from the records)
 CLOSURE_CODES = {"none": NONE, "constant": CONSTANT, "elber": ELBER, "newman": NEWMAN}
+
+# growth laws
+PARIS = register(
+    "growth_law", "paris", 0, slots=("C_LAW", "M_LAW", "DJ_TH", "Q_TOUGH"),
+    validity="the ΔJ range of the data the law was fitted on",
+    citation=("Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: da/dN = C·ΔJ^m",)
+).code
 
 ELBER_R_RANGE = (-0.1, 0.7)
 NEWMAN_R_MIN = -1.0
@@ -75,14 +101,14 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
     if ds <= 0.0 or smax <= 0.0:
         return 1.0, 0
     clipped = 0
-    if model == 1:
+    if model == CONSTANT:
         return 1.0 - u_const, 0
-    if model == 0:
+    if model == NONE:
         if smin < 0.0 and include_compressive < 0.5:
             return -smin / ds, 0
         return 0.0, 0
     r = smin / smax
-    if model == 2:
+    if model == ELBER:
         if r < -0.1:
             r, clipped = -0.1, 1
         elif r > 0.7:
@@ -134,3 +160,40 @@ def newman_closure(r, smax_flow, alpha):
     if not 1 <= alpha <= 3:
         raise ValidityRangeError("Newman's constraint factor α lies in [1, 3]")
     return _newman_ratio(r, s, float(alpha))
+
+
+# ------------------------------------------------------------------ law parameters as data
+
+@dataclass(frozen=True)
+class GrowthLaw:
+    """da/dN [mm/cycle] = C·ΔJ^m (ΔJ in kJ/m²), zero below ``threshold`` [kJ/m²].
+
+    ``basis`` is ``"applied"`` (fitted on the applied range) or ``"effective"`` (fitted on the
+    range above the opening load).  ``toughness_exponent`` q > 0 adds the acceleration
+    1/(1 − J_max/J_c)^q as J_max nears the toughness (0 = none).
+    """
+
+    C: float
+    m: float
+    threshold: float = 0.0
+    basis: str = "applied"
+    law: str = "paris"
+    toughness_exponent: float = 0.0
+    converted_from: dict | None = None
+
+    def rate(self, delta_j):
+        """da/dN [mm/cycle] for ΔJ [kJ/m²] (vectorised; no acceleration term)."""
+        import numpy as np
+
+        return np.vectorize(paris_rate, otypes=[float])(np.asarray(delta_j, float), self.C,
+                                                        self.m, self.threshold)
+
+
+def from_delta_k(C_k: float, m_k: float, e_prime: float, threshold_k: float = 0.0,
+                 **kw) -> GrowthLaw:
+    """Convert da/dN = C_K·ΔK^m_K (mm/cycle, ΔK in MPa√mm) to the ΔJ form.
+
+    ΔK = √(E'·ΔJ) ⇒ da/dN = C_K·E'^(m_K/2)·ΔJ^(m_K/2);  ΔJ_th = ΔK_th²/E'.
+    """
+    return GrowthLaw(C=C_k * e_prime ** (m_k / 2), m=m_k / 2,
+                     threshold=threshold_k**2 / e_prime, **kw)

@@ -29,9 +29,42 @@ import numpy as np
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
 from cycj.material import masing_plastic_strain_range
+from cycj.models import register
 
 # j_method codes used by the compiled stepper
-ELASTIC, REFERENCE_STRESS, SMALL_CRACK, NOTCH = 0, 1, 2, 3
+_RICE = "Rice, J. R., J. Appl. Mech. 35 (1968) 379–386: J = K²/E' in the elastic limit"
+_MASING = ("Masing, G. (1926); Morrow, J. D., ASTM STP 378 (1965) 45–87: cyclic (Masing) "
+           "branch Δε = Δσ/E + 2(Δσ/2K')^(1/n')")
+ELASTIC = register(
+    "j_method", "elastic", 0, slots=("E_PRIME",), validity="small-scale yielding (LEFM)",
+    citation=(_RICE,)).code
+REFERENCE_STRESS = register(
+    "j_method", "reference-stress", 1, slots=("E_MOD", "E_PRIME", "SIGMA_Y", "K_CYC", "N_CYC"),
+    validity="any L_r below collapse; conservative in the fully plastic limit",
+    citation=(_RICE, "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: reference stress "
+              "J estimate", _MASING)).code
+SMALL_CRACK = register(
+    "j_method", "small-crack", 2, slots=("E_MOD", "K_CYC", "N_CYC"),
+    validity="small semicircular surface crack in a smooth section (a ≪ section size)",
+    citation=(_RICE, "Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p) "
+              "for small cracks", _MASING)).code
+NOTCH = register(
+    "j_method", "notch", 3, slots=("NOTCH_KT", "NOTCH_DEPTH", "NOTCH_OWN_LONG", "E_MOD",
+                                   "K_CYC", "N_CYC"),
+    validity="crack growing from a notch root; notch keys required",
+    citation=(_RICE, "Neuber, H., J. Appl. Mech. 28 (1961) 544; Topper, Wetzel & Morrow, J. "
+              "Materials 4 (1969) 200: notch-root loop on the Masing branch",
+              "Dowling, N. E., ASTM STP 677 (1979) 247–273: crack at a notch (from memory)",
+              _MASING)).code
+_FAD_SOURCE = "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max"
+FAD_OPTION_1 = register(
+    "fad", "option-1", 1, slots=("LR_MAX",), validity="0 ≤ L_r ≤ L_r,max",
+    citation=(_FAD_SOURCE,)).code
+FAD_OPTION_2 = register(
+    "fad", "option-2", 2, slots=("LR_MAX", "SIGMA_Y", "E_MOD", "K_PEAK", "N_PEAK"),
+    validity="0 ≤ L_r ≤ L_r,max; needs the material's monotonic curve",
+    citation=(_FAD_SOURCE, "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
+              "K_r = (J_e/J)^½ from the material's own curve")).code
 J_METHODS = {"elastic": ELASTIC, "reference-stress": REFERENCE_STRESS,
              "small-crack": SMALL_CRACK, "notch": NOTCH}
 

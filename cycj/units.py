@@ -64,7 +64,7 @@ def to_internal(value, kind: str, *, key: str = "", source: str | None = None) -
 
 
 #: common units → (kind, factor to the internal unit); anything else goes through pint.
-#: tests/test_units.py checks every entry against pint.
+#: tests/physics/test_units.py checks every entry against pint.
 FAST_UNITS = {
     "N": ("force", 1.0), "kN": ("force", 1e3), "MN": ("force", 1e6),
     "mm": ("length", 1.0), "m": ("length", 1e3), "cm": ("length", 10.0),

@@ -34,7 +34,7 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
     from cycj.outputs import OutputDir, dumps, record_provenance
     from cycj.spectrum.rainflow import rainflow_cycles
     from cycj.spectrum.reading import history_unit, read_history_with_time
-    from cycj.spectrum.summary import (
+    from cycj.spectrum.write import (
         CAPTIONS,
         count_summary,
         write_count_outputs,

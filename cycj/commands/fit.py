@@ -20,8 +20,8 @@ import click
 @click.option("--json", "as_json", is_flag=True, help="Print fit.json to stdout.")
 def fit(logs, specimens, out_dir, method, force, no_plots, as_json):
     """Fit da/dN = C·ΔJ^m to fatigue crack growth LOGS (raw loops or crack lengths)."""
-    from cycj.calibrate import fit_logs
-    from cycj.calibrate.report import write_outputs
+    from cycj.calibrate.fit import fit_logs
+    from cycj.calibrate.write import write_outputs
     from cycj.outputs import OutputDir, dumps
 
     spec = specimens[0] if len(specimens) == 1 else list(specimens)

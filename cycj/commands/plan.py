@@ -24,7 +24,7 @@ def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
     """
     from cycj.case import load_case
     from cycj.outputs import OutputDir, dumps
-    from cycj.plan import plan_inspections
+    from cycj.plan.inspections import plan_inspections
     from cycj.plan.write import answer_sentence, write_plan
 
     case = load_case(case_file)

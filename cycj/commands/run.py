@@ -48,7 +48,7 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     from cycj.outputs import dumps
 
     if len(case_files) > 1 or scheduler:
-        from cycj.fleet import run_fleet
+        from cycj.life.fleet import run_fleet
 
         table = run_fleet(case_files, out_dir, method=method, force=force,
                           scheduler=scheduler)
@@ -58,7 +58,7 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     case = load_case(case_file)
     out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-life")
     progress = _Progress(sys.stderr.isatty() and not as_json)
-    from cycj.life_outputs import run_and_write
+    from cycj.life.write import run_and_write
 
     try:
         summary = run_and_write(case, out, method=method, force=force, plots=not no_plots,
@@ -76,6 +76,6 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
 
 
 def answer_sentence(s: dict) -> str:
-    from cycj.life_outputs import answer_sentence as _a
+    from cycj.life.write import answer_sentence as _a
 
     return _a(s)

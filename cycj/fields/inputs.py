@@ -129,7 +129,7 @@ def read_fields(geo_raw: dict, channels_raw, source, base: Path,
             raise CycjInputError("with load channels give each channel its own "
                                  "stress_profile", source=source,
                                  key=f"{geo_key}.stress_profile")
-        from cycj.model_params import MAX_CHANNELS
+        from cycj.kernel_slots import MAX_CHANNELS
 
         if len(channels_raw) > MAX_CHANNELS:
             raise CycjInputError("too many load channels", source=source, key=ch_key,

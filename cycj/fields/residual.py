@@ -82,6 +82,7 @@ def residual_stress_k(a, residual, shape, relaxation=1.0, **dimensions):
        Mech. 15 (1991) 237.
     .. [2] BS 7910:2013+A1:2015, §7.3.4 (residual stress as a secondary stress; from memory).
     """
+    from cycj.fields import shape_weight_functions as SWF
     from cycj.fields import weight_functions as wf
 
     rel = float(relaxation)
@@ -95,13 +96,13 @@ def residual_stress_k(a, residual, shape, relaxation=1.0, **dimensions):
     else:
         stress = residual
     if shape == "edge-crack-plate":
-        k = wf.edge_crack_plate_k(a, dimensions["width"], stress)
+        k = SWF.edge_crack_plate_k(a, dimensions["width"], stress)
     elif shape == "edge-crack-semi-infinite":
         if hasattr(stress, "along"):
             raise ValidityRangeError("a profile in x/t needs a section depth; give σ(x) instead")
-        k = wf.edge_crack_semi_infinite_k(a, stress)
+        k = SWF.edge_crack_semi_infinite_k(a, stress)
     elif shape == "surface-crack-plate":
-        k = wf.surface_crack_k(a, dimensions["c"], dimensions["thickness"], stress,
+        k = SWF.surface_crack_k(a, dimensions["c"], dimensions["thickness"], stress,
                                dimensions.get("width", 0.0),
                                dimensions.get("point", wf.DEEPEST))
     else:

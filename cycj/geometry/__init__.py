@@ -54,6 +54,10 @@ SHAPES: dict[str, Shape] = {}
 
 
 def _register(shape: Shape) -> None:
+    from cycj.models import register
+
+    register("geometry", shape.name, shape.code, slots=shape.required,
+             validity=shape.validity, citation=shape.references)
     SHAPES[shape.name] = shape
 
 

@@ -38,9 +38,9 @@ from cycj.geometry import (
     three_point_bend as _seb,
 )
 
-_CCI, _ESI, _MT, _SET, _CT, _SEB, _SCP, _CYL, _TAB, _HOLE = 1, 2, 3, 4, 5, 6, 7, 8, 9, 10
-assert (_cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE, _scp.CODE, _cyl.CODE,
-        _tab.CODE, _hole.CODE) == (1, 2, 3, 4, 5, 6, 7, 8, 9, 10)
+# each shape's kernel code, from its module (the same code its record in cycj.geometry holds)
+_CCI, _ESI, _MT, _SET, _CT, _SEB = _cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _ct.CODE, _seb.CODE
+_SCP, _CYL, _TAB, _HOLE = _scp.CODE, _cyl.CODE, _tab.CODE, _hole.CODE
 
 
 @jit
@@ -64,7 +64,9 @@ def k_over_s(code, a, p):
         return _tab.k_over_s(a, p)
     if code == _HOLE:
         return _hole.k_over_s(a, p)
-    return _cci.k_over_s(a, p)
+    if code == _CCI:
+        return _cci.k_over_s(a, p)
+    raise ValueError("unknown geometry code")
 
 
 @jit
@@ -88,7 +90,9 @@ def limit_stress(code, a, p, sigma_y):
         return _tab.limit_stress(a, p, sigma_y)
     if code == _HOLE:
         return _hole.limit_stress(a, p, sigma_y)
-    return _cci.limit_stress(a, p, sigma_y)
+    if code == _CCI:
+        return _cci.limit_stress(a, p, sigma_y)
+    raise ValueError("unknown geometry code")
 
 
 @jit

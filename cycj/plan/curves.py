@@ -23,7 +23,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from cycj.plan import kernels
+from cycj.plan import simulation_kernels as kernels
 
 
 @dataclass(frozen=True)

@@ -117,6 +117,13 @@ def critical_size(case):
 
 
 def references(case) -> list:
-    from cycj import life
+    """References of the life models the plan's growth curves use (chosen as in a run)."""
+    from cycj.citations import Citations
+    from cycj.life.loads import block_loads, cite_loads
+    from cycj.life.model import model_array
 
-    return life.references_for(case)
+    cited = Citations()
+    loads = block_loads(planning_case(case))
+    model_array(planning_case(case), loads=loads, cited=cited)
+    cite_loads(case, loads, cited)
+    return cited.references

@@ -6,7 +6,8 @@ chunk results are sums, added in chunk order.  With a Dask scheduler the chunks 
 cluster, otherwise in this process; the same seed gives the same numbers both ways.
 
 Per sample and schedule: the crack grows along its life coordinate (see
-:mod:`cycj.plan.kernels`); at each inspection it is found with probability POD(a); a found
+:mod:`cycj.plan.simulation_kernels`); at each inspection it is found with
+probability POD(a); a found
 crack is replaced by a new initial crack (``renew``) or removed for good (``remove``); failure
 is reaching the critical size before the horizon.  Samples may carry weights (Bayes update on
 findings, :mod:`cycj.plan.findings`); the probability of failure is the weighted mean of the
@@ -27,7 +28,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from cycj.errors import CycjInputError
-from cycj.plan import kernels
+from cycj.plan import simulation_kernels as kernels
 from cycj.plan.curves import CurveTable
 from cycj.plan.pod import PodCurve
 from cycj.plan.scatter import Scatter

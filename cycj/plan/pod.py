@@ -26,13 +26,22 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from cycj.models import names, record, register
+
 #: standard normal quantile of 0.90 and of 0.95
 Z90 = 1.2815515655446004
 Z95 = 1.6448536269514722
 #: logistic quantile of 0.90, ln 9
 L90 = math.log(9.0)
 
-POD_MODELS = ("lognormal", "loglogistic")
+_MIL = ("MIL-HDBK-1823A (2009): Nondestructive Evaluation System Reliability Assessment "
+        "(POD)")
+_BERENS = "Berens, A. P. (1989), NDE reliability data analysis, ASM Handbook Vol. 17, 689–701"
+POD_LOGNORMAL = register("pod", "lognormal", 0, validity="0 < POD ≤ ceiling; a > 0",
+                         citation=(_MIL, _BERENS)).code
+POD_LOGLOGISTIC = register("pod", "loglogistic", 1, validity="0 < POD ≤ ceiling; a > 0",
+                           citation=(_MIL, _BERENS)).code
+POD_MODELS = names("pod")
 
 
 def pod_lognormal(a, mu, sigma, ceiling=1.0):
@@ -112,8 +121,8 @@ class PodCurve:
 
     @property
     def model_code(self) -> int:
-        """0 for log-normal, 1 for log-logistic (used by the compiled kernel)."""
-        return POD_MODELS.index(self.model)
+        """The model's kernel code (from its record; used by the compiled kernel)."""
+        return record("pod", self.model).code
 
     def __call__(self, a):
         """POD at crack size ``a`` [mm]."""

@@ -10,10 +10,10 @@ Public API::
     cycles_in_sequence(values, gate=0.0, order="closing") -> (peak, valley)
 """
 
+from cycj.spectrum.cycle_order import cycle_indices_in_sequence, cycles_in_sequence
 from cycj.spectrum.rainflow import CYCLE_COLUMNS, count_cycles, rainflow_cycles
 from cycj.spectrum.reading import read_history, read_history_with_time
 from cycj.spectrum.reversals import block_reversals, reversals
-from cycj.spectrum.sequence import cycle_indices_in_sequence, cycles_in_sequence
 
 __all__ = [
     "CYCLE_COLUMNS",

@@ -1,0 +1,396 @@
+"""The compiled cycle stepper and block-growth kernels: numbers only.
+
+Kernels take plain arrays and scalars (no files, no objects).  The model parameters travel in
+one float64 array and the crack state in another; their slots are named in
+:mod:`cycj.kernel_slots`, which :mod:`cycj.life` fills from a case.
+
+Per cycle (S_max, S_min nominal stresses, crack size a, and c for two-dimensional cracks):
+  K/S and the limit nominal stress S_L(a) from the geometry kernels;
+  x = (S_op − S_min)/ΔS from the closure model, U = 1 − x;
+  ΔJ_eff by the chosen j_method (elastic, reference stress on the Masing branch, small crack);
+  J_max at S_max by the reference stress method on the peak curve; L_r = S_max/S_L(a);
+  end criteria checked at the start of the cycle; the sequence model (Wheeler factor on the
+  rate, or Willenborg's reduced effective stresses) from the plastic zone of K_eq = √(E'J_max);
+  then a += C·ΔJ_eff^m (above threshold), optionally accelerated by 1/(1 − J_max/J_c)^q.
+"""
+
+from __future__ import annotations
+
+import functools
+import math
+
+from cycj._jit import jit
+from cycj.end_criteria import (
+    END_LEAK,
+    END_MAX_CYCLES,
+    END_NO_GROWTH,
+    END_SIZE,
+    RUNNING,
+    end_check,
+)
+from cycj.fields.channels import channel_k
+from cycj.fields.notch import neuber_masing_stress_range_scalar, notch_delta_j_scalar
+from cycj.fields.residual import r6_rho_scalar
+from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
+from cycj.growth import opening_fraction, paris_rate_from_power
+from cycj.jintegral import (
+    ELASTIC,
+    NOTCH,
+    REFERENCE_STRESS,
+    SMALL_CRACK,
+    j_peak_scalar,
+    reference_stress_delta_j_scalar,
+    small_crack_delta_j_scalar,
+)
+from cycj.kernel_slots import (
+    ALPHA_NEWMAN,
+    ASPECT_MAX,
+    C_LAW,
+    C_LIMIT,
+    CH_MODE,
+    CLOSURE,
+    DJ_TH,
+    E_MOD,
+    E_PRIME,
+    FLOW_RATIO,
+    INCLUDE_COMP,
+    J_C,
+    J_METHOD,
+    K_CYC,
+    K_PEAK,
+    LEAK_SIZE,
+    M_LAW,
+    N_CYC,
+    N_PEAK,
+    NOTCH_DEPTH,
+    NOTCH_KT,
+    NOTCH_OWN_LONG,
+    Q_TOUGH,
+    SEQ_EXPONENT,
+    SEQ_MODEL,
+    SEQ_SHUT_OFF,
+    SIGMA_Y,
+    ST_A,
+    ST_A_OL,
+    ST_BLOCKS,
+    ST_C,
+    ST_CYCLES,
+    ST_K_OL,
+    ST_Z_OL,
+    U_CONST,
+    ZONE_BETA,
+)
+from cycj.retardation import WHEELER, plastic_zone_size, wheeler_factor, willenborg_reduction
+
+# record columns
+REC_CYCLE, REC_BLOCK, REC_A, REC_DJ, REC_DJ_EQ, REC_JMAX, REC_LR, REC_DADN, REC_C = range(9)
+N_REC = 9
+
+
+@jit
+def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
+    """ΔJ_eff, J_max, L_r, J_el at peak [kJ/m²] and the clip flag for one cycle from the
+    crack-front point's K_max, K_min [MPa√mm] (secondary stresses included), the primary
+    L_r at the peak and over the range, and the nominal stress range ``ds`` [MPa] (used only by
+    the small-crack estimate)."""
+    dk = kmax - kmin
+    if kmax <= 0.0 or dk <= 0.0:
+        return 0.0, 0.0, 0.0, 0.0, 0
+    x, clipped = opening_fraction(int(mp[CLOSURE]), kmax, kmin, lr_max / mp[FLOW_RATIO],
+                                  mp[U_CONST], mp[ALPHA_NEWMAN], mp[INCLUDE_COMP])
+    u = 1.0 - x
+    dj_el = dk * dk / mp[E_PRIME]
+    jm = int(mp[J_METHOD])
+    if jm == REFERENCE_STRESS:
+        dj = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
+                                             mp[K_CYC], mp[N_CYC], u)
+    elif jm == SMALL_CRACK:
+        dj = small_crack_delta_j_scalar(a, ds, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
+    elif jm == NOTCH:
+        if mp[NOTCH_OWN_LONG] > 0.5:   # the shape's K already holds the notch (crack at a hole)
+            dsig = neuber_masing_stress_range_scalar(mp[NOTCH_KT], ds, mp[E_MOD], mp[K_CYC],
+                                                     mp[N_CYC])
+            root = small_crack_delta_j_scalar(a, dsig, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
+            far = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
+                                                  mp[K_CYC], mp[N_CYC], u)
+            dj = min(root, far)
+        else:
+            dj = notch_delta_j_scalar(a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD],
+                                      mp[K_CYC], mp[N_CYC], u)
+    else:
+        dj = u * u * dj_el
+    j_el_max = kmax * kmax / mp[E_PRIME]
+    if jm == ELASTIC:   # the LEFM comparison: J_max = K_max²/E'
+        jmax = j_el_max
+    else:
+        jmax = j_peak_scalar(j_el_max, lr_max, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+    return dj, jmax, lr_max, j_el_max, clipped
+
+
+@jit
+def cycle_k(lmax, lmin, i, a, c, code, gp, ct, mp):
+    """K_max, K_min [MPa√mm], primary L_r at the peak and over the range, the nominal stress
+    range [MPa] and the secondary (residual) K_s of cycle ``i`` at crack size ``a`` [mm]
+    (deepest point).
+
+    One channel (``lmax[:, 0]`` nominal stresses) with the shape's own K solution, or several
+    channels (and a residual stress) from the tables ``ct`` (:mod:`cycj.fields.channels`)."""
+    if mp[CH_MODE] > 0.5:
+        return channel_k(lmax, lmin, i, a, c, ct, mp, 0)
+    kos = k_over_s(code, a, gp)
+    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
+    s1 = lmax[i, 0]
+    s0 = lmin[i, 0]
+    return s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0, 0.0
+
+
+@jit
+def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
+    """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm], and the plasticity
+    interaction ρ of a secondary stress for the FAD."""
+    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, gp[5], code, gp, ct,
+                                                     mp)
+    dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
+    return dj, jmax, lr, jel, clipped, r6_rho_scalar(kres, kmax - kres, lr)
+
+
+@jit
+def cycle_rate(dj, jmax, mp):
+    """da/dN [mm/cycle] for ΔJ_eff and J_max, with the optional toughness acceleration."""
+    return rate_from_power(dj, dj ** mp[M_LAW] if dj > 0.0 else 0.0, jmax, mp)
+
+
+@jit
+def rate_from_power(dj, djm, jmax, mp):
+    """:func:`cycle_rate` given ΔJ^m already computed (the stepper needs it for ΔJ_eq too)."""
+    da = paris_rate_from_power(dj, djm, mp[C_LAW], mp[DJ_TH])
+    q = mp[Q_TOUGH]
+    if q > 0.0 and da > 0.0:
+        ratio = jmax / mp[J_C]
+        if ratio < 1.0:
+            da = da / (1.0 - ratio) ** q
+    return da
+
+
+@jit
+def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
+    """Apply the sequence model to one cycle; returns (rate factor, ΔJ_eff) and updates the
+    overload state in ``st`` (a_OL, zone size, K_OL)."""
+    if kmax <= 0.0:
+        return 1.0, dj
+    k_eq = math.sqrt(mp[E_PRIME] * jmax)
+    r = plastic_zone_size(k_eq, mp[SIGMA_Y], mp[ZONE_BETA])
+    factor = 1.0
+    if int(mp[SEQ_MODEL]) == WHEELER:
+        factor = wheeler_factor(r, a, st[ST_A_OL], st[ST_Z_OL], mp[SEQ_EXPONENT])
+    elif st[ST_K_OL] >= mp[SEQ_SHUT_OFF] * k_eq and a < st[ST_A_OL] + st[ST_Z_OL]:
+        factor = 0.0
+    else:
+        k_red = willenborg_reduction(st[ST_K_OL], st[ST_A_OL], st[ST_Z_OL], a, k_eq)
+        if k_red > 0.0:
+            kmax_e = kmax - k_red
+            kmin_e = max(kmin - k_red, 0.0)
+            dj = 0.0
+            if kmax_e > kmin_e:
+                dk = kmax - kmin
+                scale = (kmax_e - kmin_e) / dk
+                dj = k_driving_force(kmax_e, kmin_e, lr_max * kmax_e / kmax, lr_range * scale,
+                                     ds * scale, a, mp)[0]
+    if a + r >= st[ST_A_OL] + st[ST_Z_OL]:
+        st[ST_A_OL] = a
+        st[ST_Z_OL] = r
+        st[ST_K_OL] = k_eq
+    return factor, dj
+
+
+@functools.cache
+def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool = False):
+    """The cycle stepper, specialised at compile time (dead branches removed) for: one load
+    channel with the shape's own K solution or load channels with K tables
+    (``channel_mode``); a two-dimensional crack (``two_d``); a load-sequence model
+    (``sequence``).  Each variant is compiled (or loaded from the cache) on first use."""
+
+    @jit
+    def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n,
+                   acc):
+        """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
+
+        Parameters
+        ----------
+        lmax, lmin : float64 arrays (cycles × channels), the block's cycles in the order they
+            act (nominal stress [MPa] for one channel; channel values with load channels)
+        st : crack state (a, c, cycles, blocks, overload a_OL, zone, K_OL), updated in place
+        max_cycles : stop with END_MAX_CYCLES when the total reaches it
+        gp : geometry parameters (a private copy: its half-length slot follows c)
+        ct : K tables of the load channels (:mod:`cycj.fields.channels`); unused with one channel
+        rec_da : record a row each time the crack has grown by this much [mm]
+        rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
+        acc : float64 work array (8) carried between calls: [a at last record, cycle at last
+              record, Σ ΔJ^m since record, n since record, max ΔJ, max J_max, max L_r, clipped
+              count]
+
+        Returns
+        -------
+        end code, end value, rows used
+        """
+        n = lmax.shape[0]
+        a = st[ST_A]
+        c = st[ST_C]
+        cyc = st[ST_CYCLES]
+        blk = st[ST_BLOCKS]
+        m = mp[M_LAW]
+        # accumulators kept in registers, written back to ``acc`` at records and at the end
+        a_rec, cyc_rec, sum_djm, n_acc = acc[0], acc[1], acc[2], acc[3]
+        max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
+        end = RUNNING
+        val = 0.0
+        for _b in range(n_blocks):
+            grew = False
+            for i in range(n):
+                if two_d:
+                    gp[5] = c
+                if channel_mode:
+                    kmax, kmin, lr_max, lr_range, ds, kres = channel_k(lmax, lmin, i, a, c, ct,
+                                                                       mp, 0)
+                else:   # cycle_k's shape branch, written out: a shared call costs 3–8 %
+                    kos = k_over_s(code, a, gp)
+                    sl = limit_stress(code, a, gp, mp[SIGMA_Y])
+                    s1 = lmax[i, 0]
+                    s0 = lmin[i, 0]
+                    kmax, kmin, kres = s1 * kos, s0 * kos, 0.0
+                    lr_max, lr_range, ds = s1 / sl, (s1 - s0) / sl, s1 - s0
+                dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
+                                                             mp)
+                n_clipped += clipped
+                if kmax > 0.0:
+                    rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
+                    end, val = end_check(a, jmax, lr, jel, rho, mp)
+                    if end == RUNNING and two_d:
+                        end, val = _two_d_check(a, c, mp)
+                    if end != RUNNING:
+                        break
+                factor = 1.0
+                if sequence:
+                    factor, dj = sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp,
+                                               st)
+                djm = dj**m if dj > 0.0 else 0.0
+                da = rate_from_power(dj, djm, jmax, mp) * factor
+                if two_d:
+                    if channel_mode:
+                        k1, k0 = channel_k(lmax, lmin, i, a, c, ct, mp, 1)[:2]
+                    else:
+                        kos_c = k_over_s_surface(code, a, gp)
+                        k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
+                    dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp)[0]
+                    c += cycle_rate(dj_c, jmax, mp) * factor
+                if da > 0.0:
+                    grew = True
+                a += da
+                cyc += 1.0
+                sum_djm += djm
+                n_acc += 1.0
+                max_dj = max(max_dj, dj)
+                max_jmax = max(max_jmax, jmax)
+                max_lr = max(max_lr, lr)
+                if a - a_rec >= rec_da and rec_n < rec.shape[0]:
+                    rec[rec_n, REC_CYCLE] = cyc
+                    rec[rec_n, REC_BLOCK] = blk
+                    rec[rec_n, REC_A] = a
+                    rec[rec_n, REC_C] = c
+                    rec[rec_n, REC_DJ] = max_dj
+                    rec[rec_n, REC_DJ_EQ] = (sum_djm / n_acc) ** (1.0 / m)
+                    rec[rec_n, REC_JMAX] = max_jmax
+                    rec[rec_n, REC_LR] = max_lr
+                    rec[rec_n, REC_DADN] = (a - a_rec) / (cyc - cyc_rec)
+                    rec_n += 1
+                    a_rec, cyc_rec = a, cyc
+                    sum_djm = n_acc = max_dj = max_jmax = max_lr = 0.0
+                if cyc >= max_cycles:
+                    end, val = END_MAX_CYCLES, cyc
+                    break
+            if end != RUNNING:
+                break
+            blk += 1.0
+            if not grew:
+                end, val = END_NO_GROWTH, a
+                break
+        st[ST_A] = a
+        st[ST_C] = c
+        st[ST_CYCLES] = cyc
+        st[ST_BLOCKS] = blk
+        acc[0], acc[1], acc[2], acc[3] = a_rec, cyc_rec, sum_djm, n_acc
+        acc[4], acc[5], acc[6], acc[7] = max_dj, max_jmax, max_lr, n_clipped
+        return end, val, rec_n
+
+    return run_cycles
+
+
+#: the stepper for one load channel (nominal stresses, the shape's own K solution), a crack
+#: with one dimension and no sequence model
+run_cycles = stepper_for(False, False, False)
+
+
+@jit
+def _two_d_check(a, c, mp):
+    """Leak when the depth reaches the leak size; size limit when the half-length or the aspect
+    ratio leaves the surface-crack solution's range."""
+    if a >= mp[LEAK_SIZE]:
+        return END_LEAK, a
+    if c >= mp[C_LIMIT] or a / c > mp[ASPECT_MAX]:
+        return END_SIZE, c
+    return RUNNING, 0.0
+
+
+@jit
+def block_growth(lmax, lmin, a, code, gp, ct, mp):
+    """Growth over one block with the crack frozen at ``a`` [mm], and the block's ΔJ_eq
+    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff."""
+    n = lmax.shape[0]
+    g = 0.0
+    s = 0.0
+    jmx = 0.0
+    lrmx = 0.0
+    djmx = 0.0
+    m = mp[M_LAW]
+    for i in range(n):
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct,
+                                                              mp)
+        djm = dj**m if dj > 0.0 else 0.0
+        g += rate_from_power(dj, djm, jmax, mp)
+        s += djm
+        jmx = max(jmx, jmax)
+        lrmx = max(lrmx, lr)
+        djmx = max(djmx, dj)
+    return g, (s / n) ** (1.0 / m), jmx, lrmx, djmx
+
+
+@jit
+def block_growth_table(lmax, lmin, a_grid, code, gp, ct, mp, out):
+    """Fill ``out[k, 0:5]`` with :func:`block_growth` at every crack size of ``a_grid``."""
+    for k in range(a_grid.shape[0]):
+        res = block_growth(lmax, lmin, a_grid[k], code, gp, ct, mp)
+        for j in range(5):
+            out[k, j] = res[j]
+
+
+@jit
+def peak_state(lmax, i_peak, a, code, gp, ct, mp):
+    """ΔJ, J_max, L_r, J_el at peak and clip flag under the block's peak cycle ``i_peak``
+    loaded from zero (the history's peak load) at crack size ``a``."""
+    return cycle_driving_force(lmax, 0.0 * lmax, i_peak, a, code, gp, ct, mp)
+
+
+@jit
+def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
+    """Index of the first crack size in ``a_grid`` at which an end criterion trips under the
+    history's peak load (−1 if none), and its end code."""
+    zeros = 0.0 * lmax
+    for k in range(a_grid.shape[0]):
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, zeros, i_peak, a_grid[k],
+                                                              code, gp, ct, mp)
+        end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
+        if end != RUNNING:
+            return k, end
+    return -1, RUNNING
+
+

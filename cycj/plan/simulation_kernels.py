@@ -1,0 +1,170 @@
+"""Compiled kernels of the inspection Monte Carlo: numbers only (numpy arrays and scalars).
+
+A sample's crack follows a *life coordinate* φ(a): the cycles to grow from the table's smallest
+size to ``a`` at the case's C.  For a sample with C-factor x, initial size a0 and start time t0,
+the crack at time t is a = φ⁻¹(φ(a0) + x·(t − t0)) (Paris law: life ∝ 1/C) and it fails when
+φ reaches φ(a_c).  φ is tabulated on a uniform grid in ln a for a few load scales; a sample's
+own φ is the geometric interpolation between the two neighbouring load scales (exact when
+ΔJ is a power of the load, as in the elastic limit), and linear in (ln a, ln φ) between grid
+points.
+
+References
+----------
+.. [1] Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528 (life scales as 1/C).
+.. [2] MIL-HDBK-1823A (2009): POD(a) forms.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from cycj._jit import jit
+from cycj.plan.pod import POD_LOGNORMAL
+
+
+@jit
+def phi_at(la, k, w, la0, dla, logphi):
+    """φ [cycles at C-factor 1] at ln a = ``la`` on the curve mixed from rows k, k+1 by w."""
+    na = logphi.shape[1]
+    x = (la - la0) / dla
+    if x <= 0.0:
+        return 0.0
+    j = int(x)
+    if j >= na - 1:
+        j = na - 2
+    f = x - j
+    if f > 1.0:
+        f = 1.0
+    lp0 = logphi[k, j]
+    lp1 = logphi[k, j + 1]
+    if w > 0.0:
+        lp0 = (1.0 - w) * lp0 + w * logphi[k + 1, j]
+        lp1 = (1.0 - w) * lp1 + w * logphi[k + 1, j + 1]
+    if j == 0:  # φ = 0 at the first grid point: linear in φ
+        return f * math.exp(lp1)
+    return math.exp(lp0 + f * (lp1 - lp0))
+
+
+@jit
+def _phi_grid(j, k, w, logphi):
+    lp = logphi[k, j]
+    if w > 0.0:
+        lp = (1.0 - w) * lp + w * logphi[k + 1, j]
+    return math.exp(lp)
+
+
+@jit
+def size_at(phi, k, w, la0, dla, logphi):
+    """ln a at life coordinate ``phi`` (inverse of :func:`phi_at`, by bisection on the grid)."""
+    na = logphi.shape[1]
+    if phi <= 0.0:
+        return la0
+    lo, hi = 0, na - 1
+    if _phi_grid(hi, k, w, logphi) <= phi:
+        return la0 + dla * hi
+    while hi - lo > 1:
+        mid = (lo + hi) // 2
+        if _phi_grid(mid, k, w, logphi) <= phi:
+            lo = mid
+        else:
+            hi = mid
+    p1 = _phi_grid(hi, k, w, logphi)
+    if lo == 0:
+        return la0 + dla * (phi / p1)
+    p0 = _phi_grid(lo, k, w, logphi)
+    f = (math.log(phi) - math.log(p0)) / (math.log(p1) - math.log(p0))
+    return la0 + dla * (lo + f)
+
+
+@jit
+def pod_value(a, model, mu, sigma, ceiling):
+    """POD at size ``a`` [mm]: model 0 log-normal, 1 log-logistic (MIL-HDBK-1823A)."""
+    if a <= 0.0:
+        return 0.0
+    z = (math.log(a) - mu) / sigma
+    if model == POD_LOGNORMAL:
+        return ceiling * 0.5 * math.erfc(-z / math.sqrt(2.0))
+    if z < -700.0:
+        return 0.0
+    return ceiling / (1.0 + math.exp(-z))
+
+
+@jit
+def simulate(la0_s, xc, k_s, w_s, phic, la_repl, u_det, times, n_insp, horizon,
+             repair, pod_model, pod_mu, pod_sigma, pod_ceiling, la_grid0, dla, logphi,
+             fail_time, fail_bin, n_det):
+    """Run every sample through every inspection schedule.
+
+    Parameters
+    ----------
+    la0_s, xc, k_s, w_s, phic : (n,) arrays
+        ln initial size, C-factor, load-scale row and weight, life coordinate at failure.
+    la_repl, u_det : (n, n_max) arrays
+        ln size of the crack that replaces a detected one at inspection j; uniform for the
+        detection draw at inspection j (common to all schedules).
+    times : (n_sched, n_max) inspection times [cycles], ascending; n_insp : (n_sched,) counts.
+    horizon : float, cycles simulated (design life).
+    repair : 0 renew (a new initial crack), 1 remove (no further crack).
+    fail_time, fail_bin, n_det : (n_sched, n) outputs: failure time (inf if none within the
+        horizon), index of the inspection interval it fell in, number of detections.
+    """
+    n = la0_s.shape[0]
+    n_sched = times.shape[0]
+    for i in range(n):
+        k = k_s[i]
+        w = w_s[i]
+        x = xc[i]
+        pc = phic[i]
+        phi_first = phi_at(la0_s[i], k, w, la_grid0, dla, logphi)
+        for s in range(n_sched):
+            phi0 = phi_first
+            t0 = 0.0
+            ft = math.inf
+            fb = -1
+            nd = 0
+            removed = False
+            for j in range(n_insp[s]):
+                tj = times[s, j]
+                tf = t0 + max(pc - phi0, 0.0) / x
+                if tf <= tj:
+                    ft = tf
+                    fb = j
+                    break
+                la = size_at(phi0 + x * (tj - t0), k, w, la_grid0, dla, logphi)
+                if u_det[i, j] < pod_value(math.exp(la), pod_model, pod_mu, pod_sigma,
+                                           pod_ceiling):
+                    nd += 1
+                    if repair == 1:
+                        removed = True
+                        break
+                    phi0 = phi_at(la_repl[i, j], k, w, la_grid0, dla, logphi)
+                    t0 = tj
+            if not removed and fb < 0:
+                tf = t0 + max(pc - phi0, 0.0) / x
+                if tf <= horizon:
+                    ft = tf
+                    fb = n_insp[s]
+            fail_time[s, i] = max(ft, 0.0)
+            fail_bin[s, i] = fb
+            n_det[s, i] = nd
+
+
+@jit
+def phi_many(la, k_s, w_s, la_grid0, dla, logphi, out):
+    """:func:`phi_at` for arrays of samples."""
+    for i in range(la.shape[0]):
+        out[i] = phi_at(la[i], k_s[i], w_s[i], la_grid0, dla, logphi)
+
+
+@jit
+def size_many(phi, k_s, w_s, la_grid0, dla, logphi, out):
+    """:func:`size_at` for arrays of samples (returns ln a)."""
+    for i in range(phi.shape[0]):
+        out[i] = size_at(phi[i], k_s[i], w_s[i], la_grid0, dla, logphi)
+
+
+def empty_outputs(n_sched: int, n: int):
+    return (np.empty((n_sched, n)), np.empty((n_sched, n), np.int64),
+            np.empty((n_sched, n), np.int64))

@@ -1,0 +1,194 @@
+"""Inspection planning end to end: life engine, deterministic interval, Dask path, CLI."""
+
+import json
+import math
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import plan_closed_form as cf
+import pytest
+
+from cycj.case import load_case
+from cycj.plan import plan_inspections
+from cycj.plan import scatter as sc
+from cycj.plan.deterministic import deterministic_interval
+from cycj.plan.inputs import PlanInputs
+from cycj.plan.pod import pod_from_a50
+from cycj.plan.probabilistic import probabilistic_plan
+
+ROOT = Path(__file__).resolve().parents[2]
+
+# REFERENCE 13 (from memory): centre crack in an infinite plate, Δσ = 100 MPa, Paris law
+# C = 1.648e-8 mm/cycle per (MPa√m)^3, m = 3: a = 1 → 10 mm takes N = 4.714e5 cycles.
+CASE_13 = """
+title = "REFERENCE 13 plate"
+[material]
+elastic_modulus = "200 GPa"
+poisson_ratio = 0.3
+yield_strength = "355 MPa"
+toughness = { J_c = "12 kJ/m^2" }
+growth = { law = "paris", from_delta_K = { C = 1.648e-8, m = 3.0, driving_unit = "MPa*m**0.5" } }
+[geometry]
+shape = "center-crack-infinite-plate"
+crack_length = "1 mm"
+constraint = "plane-stress"
+[loading]
+constant = { max = "100 MPa", min = "0 MPa" }
+duration = "10 s"
+[analysis]
+j_method = "elastic"
+[run]
+criteria = ["size-limit"]
+crack_length_limit = "10 mm"
+[inspection]
+detectable_size = "1 mm"
+safety_factor = 2
+design_life = 1.0e6
+intervals = [1.0e5, 2.0e5]
+pod = { model = "lognormal", a50 = "2 mm", sigma = 0.4 }
+samples = 2000
+seed = 7
+target_pof = 1.0e-2
+[inspection.scatter]
+growth_C = { distribution = "lognormal", sigma = 0.3 }
+"""
+
+
+@pytest.fixture(scope="module")
+def case13(tmp_path_factory):
+    p = tmp_path_factory.mktemp("plan") / "ref13.toml"
+    p.write_text(CASE_13)
+    return load_case(p)
+
+
+def test_deterministic_interval_closed_form():
+    # interval = closed-form life ÷ safety factor (REFERENCE 13, from memory; common practice
+    # SF = 2)
+    a, n = cf.growth_curve(1.0, 1.0)
+    d = deterministic_interval(a, n, 1.0, 10.0, 2.0, 1e6, 1, 10 / 3600)
+    assert d["life_cycles"] == pytest.approx(4.714e5, rel=1e-3)
+    assert d["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=1e-3)
+    assert d["interval_hours"] == pytest.approx(d["interval_cycles"] * 10 / 3600)
+    assert [r["inspection"] for r in d["schedule"]] == [1, 2, 3, 4]
+    assert d["schedule"][0]["a_mm"] == pytest.approx(cf.size_after(1.0, d["interval_cycles"]),
+                                                     rel=1e-3)
+
+
+def test_plan_inspections_with_life_engine(case13):
+    r = plan_inspections(case13)
+    s = r.summary
+    d = s["deterministic"]
+    # REFERENCE 13 (from memory) through the life engine: 4.714e5 cycles, ÷ 2
+    assert d["critical_crack_length_mm"] == pytest.approx(10.0, rel=1e-6)
+    assert d["life_cycles"] == pytest.approx(4.714e5, rel=2e-3)
+    assert d["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=2e-3)
+    assert d["interval_hours"] == pytest.approx(d["interval_cycles"] * 10 / 3600, rel=1e-9)
+    # no inspection, fixed a0 = 1 mm, log-normal C: P(C > C*) closed form
+    from scipy.special import ndtr
+
+    p = 1 - ndtr(math.log(4.714e5 / 1e6) / 0.3)
+    assert s["no_inspection"]["pof"] == pytest.approx(p, abs=4 * s["no_inspection"]
+                                                      ["std_error"] + 2e-3)
+    assert set(s) >= {"deterministic", "no_inspection", "what_if",
+                      "recommended_interval_cycles"}
+    assert list(r.what_if.columns[:4]) == ["interval_cycles", "pof", "std_error",
+                                           "detections_mean"]
+
+
+def test_dask_path_equals_in_process():
+    distributed = pytest.importorskip("dask.distributed")
+    s = sc.Scatter(growth_C=sc.lognormal(1.0, 0.3), initial_crack=sc.lognormal(0.8, 0.5))
+    from test_plan_montecarlo import closed_table
+
+    tab = closed_table(s)
+    inp = PlanInputs(pod=pod_from_a50("lognormal", 2.0, 0.4), design_life=1e6,
+                     detectable_size=3.0, detectable_source="test", intervals=(1e5, 2e5),
+                     samples=3000, seed=11, target_pof=1e-2, max_inspections=20,
+                     chunk_size=1000, scatter=s)
+    local = probabilistic_plan(tab, inp)
+    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False,
+                                  dashboard_address=None) as cluster:
+        remote = probabilistic_plan(tab, inp, scheduler=cluster.scheduler_address)
+    assert remote["what_if"] == local["what_if"]
+    assert remote["no_inspection"] == local["no_inspection"]
+    assert remote["recommended_interval_cycles"] == local["recommended_interval_cycles"]
+    assert np.array_equal(remote["cumulative"]["no_inspection"],
+                          local["cumulative"]["no_inspection"])
+
+
+def _cli(*args):
+    return subprocess.run([sys.executable, "-m", "cycj", *args], capture_output=True,
+                          text=True, cwd=ROOT, timeout=300)
+
+
+def test_cli_plan_writes_outputs(case13, tmp_path):
+    out = tmp_path / "out"
+    r = _cli("plan", str(case13.path), "--out", str(out), "--json")
+    assert r.returncode == 0, r.stderr
+    plan = json.loads((out / "plan.json").read_text())
+    assert plan["deterministic"]["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=2e-3)
+    for w in plan["what_if"]:
+        assert set(w) >= {"interval_cycles", "pof", "std_error", "detections_mean"}
+    for f in ("what_if.csv", "schedule.csv", "pof_vs_interval.png", "cumulative_pof.png",
+              "crack_envelope.png", "report.html"):
+        assert (out / f).is_file()
+    assert "not replace" in (out / "report.html").read_text()
+    again = _cli("plan", str(case13.path), "--out", str(out))
+    assert again.returncode == 2 and "not empty" in again.stderr
+
+
+def test_cli_plan_bad_key_is_one_line(tmp_path):
+    p = tmp_path / "bad.toml"
+    p.write_text(CASE_13.replace("safety_factor = 2", "safety_facter = 2"))
+    r = _cli("plan", str(p), "--out", str(tmp_path / "o"))
+    assert r.returncode == 2
+    assert r.stderr.strip().count("\n") == 0 and "did you mean 'safety_factor'" in r.stderr
+
+
+def test_cli_pod_examples(tmp_path):
+    # both shipped data sets fit; the printed line drops into [inspection]
+    r = _cli("pod", "examples/pod_hit_miss.csv", "--json")
+    assert r.returncode == 0, r.stderr
+    s = json.loads(r.stdout)
+    assert s["a90_95_mm"] > s["a90_mm"] > s["a50_mm"] > 0
+    assert s["pod_toml"].startswith("pod = { model = \"loglogistic\"")
+    out = tmp_path / "pod"
+    r = _cli("pod", "examples/pod_signal_response.csv", "--out", str(out))
+    assert r.returncode == 0, r.stderr
+    assert "pod = {" in r.stdout and (out / "pod.png").is_file()
+    import tomllib
+
+    line = (out / "pod.toml").read_text()
+    assert tomllib.loads(line)["pod"]["model"] == "lognormal"
+    bad = tmp_path / "bad.csv"
+    bad.write_text("a_mm,ahat\n1.0,0.5\n2.0,x\n")
+    r = _cli("pod", str(bad))
+    assert r.returncode == 2 and ":3" in r.stderr
+
+
+def test_cracks_below_threshold_are_raised_to_the_growing_size(tmp_path):
+    # ΔK_th = 3 MPa√m: a_th = (3/100)²·1000/π = 0.2865 mm at Δσ = 100 MPa (K = S√(πa),
+    # Tada–Paris–Irwin); smaller initial cracks are treated as a_th (conservative)
+    text = CASE_13.replace('driving_unit = "MPa*m**0.5" }',
+                           'driving_unit = "MPa*m**0.5", threshold = "3 MPa*m**0.5" }')
+    text = text.replace('growth_C = { distribution = "lognormal", sigma = 0.3 }',
+                        'initial_crack = { distribution = "lognormal", median = "0.4 mm", '
+                        'sigma = 0.5 }')
+    p = tmp_path / "thr.toml"
+    p.write_text(text)
+    s = plan_inspections(load_case(p)).summary
+    assert any("do not grow" in w for w in s["warnings"])
+    grow = [w for w in s["warnings"] if "do not grow" in w][0]
+    a_g = float(grow.split("below ")[1].split(" mm")[0])
+    assert a_g == pytest.approx(0.2865, rel=5e-3)
+    # fixed C: failure within 1e6 cycles iff a0 ≥ a*, with N(a* → 10 mm) = 1e6 (closed
+    # form, REFERENCE 13 from memory) and a* above a_th; a0 log-normal (median 0.4, σ 0.5)
+    from scipy.optimize import brentq
+    from scipy.special import ndtr
+
+    a_star = brentq(lambda a: cf.cycles(a, 10.0) - 1e6, a_g, 5.0)
+    p_fail = 1 - ndtr(math.log(a_star / 0.4) / 0.5)
+    no = s["no_inspection"]
+    assert no["pof"] == pytest.approx(p_fail, abs=4 * no["std_error"] + 2e-3)
