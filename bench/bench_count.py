@@ -52,10 +52,12 @@ def main(argv=None):
     n = args.samples
     rng = np.random.default_rng(1)
     histories = {
-        "Gaussian, irregularity 0.7 (smooth, 80 samples a period)":
-            gaussian_from_irregularity(n, 0.7, rms=20.0, mean=50.0, seed=1)[0],
-        "random walk + white noise (about 2 reversals in 3 samples)":
-            np.cumsum(rng.normal(size=n)) * 0.01 + rng.normal(size=n),
+        "Gaussian, irregularity 0.7 (smooth, 80 samples a period)": gaussian_from_irregularity(
+            n, 0.7, rms=20.0, mean=50.0, seed=1
+        )[0],
+        "random walk + white noise (about 2 reversals in 3 samples)": np.cumsum(rng.normal(size=n))
+        * 0.01
+        + rng.normal(size=n),
     }
     cycj.count_cycles(np.arange(10.0) % 3)  # compile (or load the numba cache) before timing
     for label, x in histories.items():

@@ -42,22 +42,47 @@ def main(n_loops=10_000, samples=500):
         spec = read_specimen(p)
     t0 = time.perf_counter()
     # choose the recording interval that gives about n_loops loops over the test
-    sim0 = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, crack_end=30,
-                         record_every=100, samples=8, opening_fraction=0.2)
+    sim0 = simulate_test(
+        spec,
+        6e-5,
+        1.5,
+        p_max=14000,
+        r_ratio=0.1,
+        crack_end=30,
+        record_every=100,
+        samples=8,
+        opening_fraction=0.2,
+    )
     life = sim0.truth.cycle.iloc[-1]
     every = max(int(life / n_loops), 1)
-    sim = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, opening_fraction=0.2,
-                        crack_end=30, record_every=every, samples=samples, seed=1)
+    sim = simulate_test(
+        spec,
+        6e-5,
+        1.5,
+        p_max=14000,
+        r_ratio=0.1,
+        opening_fraction=0.2,
+        crack_end=30,
+        record_every=every,
+        samples=samples,
+        seed=1,
+    )
     n = min(len(sim.truth), n_loops)
     t_gen = time.perf_counter() - t0
     cyc = sim.raw["cycle"].to_numpy()
     starts = np.arange(n) * samples
-    log = RawLog("bench", cyc[starts].astype(float), starts, starts + samples,
-                 sim.raw["load"].to_numpy(float)[:n * samples],
-                 sim.raw["displacement"].to_numpy(float)[:n * samples])
+    log = RawLog(
+        "bench",
+        cyc[starts].astype(float),
+        starts,
+        starts + samples,
+        sim.raw["load"].to_numpy(float)[: n * samples],
+        sim.raw["displacement"].to_numpy(float)[: n * samples],
+    )
     t0 = time.perf_counter()
-    loops.reduce_loops(log.load[:samples * 2], log.displacement[:samples * 2], starts[:2],
-                       starts[:2] + samples)
+    loops.reduce_loops(
+        log.load[: samples * 2], log.displacement[: samples * 2], starts[:2], starts[:2] + samples
+    )
     t_first = time.perf_counter() - t0
     t0 = time.perf_counter()
     loops.reduce_loops(log.load, log.displacement, log.starts, log.ends)
@@ -66,12 +91,16 @@ def main(n_loops=10_000, samples=500):
     rows, skipped, _, _ = reduction.reduce_raw_log(log, spec)
     reduction.rates_for_rows(rows, spec)
     t_all = time.perf_counter() - t0
-    print(f"loops: {n} x {samples} samples ({n * samples / 1e6:.1f} M samples); "
-          f"synthesis {t_gen:.1f} s (not part of the figure)")
+    print(
+        f"loops: {n} x {samples} samples ({n * samples / 1e6:.1f} M samples); "
+        f"synthesis {t_gen:.1f} s (not part of the figure)"
+    )
     print(f"first call (compile or cache load): {t_first:.2f} s")
     print(f"compiled loop kernel:    {t_kernel:.2f} s  ({1e6 * t_kernel / n:.1f} µs per loop)")
-    print(f"whole per-log reduction: {t_all:.2f} s  (target < 30 s); "
-          f"{len(rows['cycle'])} loops kept, {len(skipped)} skipped")
+    print(
+        f"whole per-log reduction: {t_all:.2f} s  (target < 30 s); "
+        f"{len(rows['cycle'])} loops kept, {len(skipped)} skipped"
+    )
 
 
 if __name__ == "__main__":

@@ -46,8 +46,9 @@ def main():
     growth, critical = engine.curve_functions(case, float(tough.max()))
     table = build_table(growth, critical, sc.initial_crack.quantile(1e-7), loads, tough)
     t_table = time.perf_counter() - t0
-    spec = McSpec(table, sc, inp.pod, life, args.samples, inp.seed, inp.repair,
-                  n_max=args.inspections)
+    spec = McSpec(
+        table, sc, inp.pod, life, args.samples, inp.seed, inp.repair, n_max=args.inspections
+    )
     sched, n = pack_schedules([[], uniform_schedule(interval, life)], args.inspections)
     # compile once on a small spec, then time
     Runner().run(replace(spec, samples=200, chunk_size=200), sched, n)
@@ -55,24 +56,34 @@ def main():
     res = summarise(Runner().run(spec, sched, n))
     t_core = time.perf_counter() - t0
     print(f"curve table (7 load × 9 toughness factors, life engine): {t_table:.2f} s")
-    print(f"Monte Carlo core: {args.samples:.3g} samples × {int(n[1])} inspections "
-          f"(+ no inspection): {t_core:.2f} s  "
-          f"({t_core / args.samples / (int(n[1]) + 1) * 1e9:.0f} ns per sample-inspection)")
-    print(f"  pof no inspection {res['pof'][0]:.4g} ± {res['std_error'][0]:.2g}; "
-          f"every {interval:.4g} cycles {res['pof'][1]:.4g} ± {res['std_error'][1]:.2g}")
+    print(
+        f"Monte Carlo core: {args.samples:.3g} samples × {int(n[1])} inspections "
+        f"(+ no inspection): {t_core:.2f} s  "
+        f"({t_core / args.samples / (int(n[1]) + 1) * 1e9:.0f} ns per sample-inspection)"
+    )
+    print(
+        f"  pof no inspection {res['pof'][0]:.4g} ± {res['std_error'][0]:.2g}; "
+        f"every {interval:.4g} cycles {res['pof'][1]:.4g} ± {res['std_error'][1]:.2g}"
+    )
     if not args.core_only:
         raw = tomllib.loads((ROOT / "examples" / "plate_inspection.toml").read_text())
-        raw_i = dict(raw["inspection"], samples=args.samples,
-                     intervals=[interval, 2 * interval], max_inspections=args.inspections)
+        raw_i = dict(
+            raw["inspection"],
+            samples=args.samples,
+            intervals=[interval, 2 * interval],
+            max_inspections=args.inspections,
+        )
         c2 = replace(case, inspection=raw_i)
         t0 = time.perf_counter()
         r = plan_inspections(c2)
         t_plan = time.perf_counter() - t0
         n_sched = 1 + 2 + 1 + 16 + 16
-        print(f"whole plan_inspections, {args.samples:.3g} samples, up to "
-              f"{args.inspections} inspections, ~{n_sched} schedules incl. the search: "
-              f"{t_plan:.2f} s; recommended interval "
-              f"{r.summary['recommended_interval_cycles']:.4g} cycles")
+        print(
+            f"whole plan_inspections, {args.samples:.3g} samples, up to "
+            f"{args.inspections} inspections, ~{n_sched} schedules incl. the search: "
+            f"{t_plan:.2f} s; recommended interval "
+            f"{r.summary['recommended_interval_cycles']:.4g} cycles"
+        )
     peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     print(f"peak resident memory: {peak:.0f} MB")
 

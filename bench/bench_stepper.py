@@ -29,19 +29,27 @@ from cycj.life import stepper as K  # noqa: E402
 
 
 def ct_case(closure="newman", max_cycles=1e12):
-    return case_from_dict({
-        "material": {"elastic_modulus": "205 GPa", "poisson_ratio": 0.3,
-                     "yield_strength": "340 MPa", "tensile_strength": "510 MPa",
-                     "cyclic_curve": {"strength_coefficient": "880 MPa",
-                                      "hardening_exponent": 0.16},
-                     "monotonic_curve": {"strength_coefficient": "780 MPa",
-                                         "hardening_exponent": 0.19},
-                     "growth": {"C": 2e-7, "m": 1.5, "basis": "effective"}},
-        "geometry": {"shape": "compact-tension", "width": "50 mm", "thickness": "12.5 mm",
-                     "crack_length": "15 mm"},
-        "loading": {"constant": {"max": "6 kN", "min": "0.6 kN"}, "closure": closure},
-        "run": {"criteria": ["collapse", "size-limit"], "max_cycles": max_cycles},
-    })
+    return case_from_dict(
+        {
+            "material": {
+                "elastic_modulus": "205 GPa",
+                "poisson_ratio": 0.3,
+                "yield_strength": "340 MPa",
+                "tensile_strength": "510 MPa",
+                "cyclic_curve": {"strength_coefficient": "880 MPa", "hardening_exponent": 0.16},
+                "monotonic_curve": {"strength_coefficient": "780 MPa", "hardening_exponent": 0.19},
+                "growth": {"C": 2e-7, "m": 1.5, "basis": "effective"},
+            },
+            "geometry": {
+                "shape": "compact-tension",
+                "width": "50 mm",
+                "thickness": "12.5 mm",
+                "crack_length": "15 mm",
+            },
+            "loading": {"constant": {"max": "6 kN", "min": "0.6 kN"}, "closure": closure},
+            "run": {"criteria": ["collapse", "size-limit"], "max_cycles": max_cycles},
+        }
+    )
 
 
 def stepper_vs_c(n_block=200_000, blocks=10):
@@ -63,48 +71,74 @@ def stepper_vs_c(n_block=200_000, blocks=10):
         st[M.ST_A] = 15.0
         return st
 
-    K.run_cycles(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9, rec, 0,
-                 acc)  # compile / load from cache
+    K.run_cycles(
+        lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9, rec, 0, acc
+    )  # compile / load from cache
     acc[:] = 0
     t_py = t_c = float("inf")
     with tempfile.TemporaryDirectory() as tmp:
         data = Path(tmp) / "block.bin"
         np.concatenate([smax, smin]).tofile(data)
         exe = Path(tmp) / "stepper_ref"
-        subprocess.run(["gcc", "-O2", "-o", str(exe), str(HERE / "stepper_ref.c"), "-lm"],
-                       check=True)
+        subprocess.run(
+            ["gcc", "-O2", "-o", str(exe), str(HERE / "stepper_ref.c"), "-lm"], check=True
+        )
         for _ in range(3):  # alternate, keep the best of three of each (noisy shared machine)
             st = state()
             t = time.perf_counter()
-            K.run_cycles(lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9,
-                         rec, 0, acc)
+            K.run_cycles(
+                lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9, rec, 0, acc
+            )
             t_py = min(t_py, time.perf_counter() - t)
             t = time.perf_counter()
-            res = subprocess.run([str(exe), str(n_block), str(blocks), str(data), "15.0"],
-                                 check=True, capture_output=True, text=True)
+            res = subprocess.run(
+                [str(exe), str(n_block), str(blocks), str(data), "15.0"],
+                check=True,
+                capture_output=True,
+                text=True,
+            )
             t_c = min(t_c, time.perf_counter() - t)
     c_cycles, c_a = res.stdout.split()
     n = n_block * blocks
-    print(f"stepper: {n:.3g} cycles in {t_py:.3f} s = {n / t_py / 1e6:.2f} M cycles/s; "
-          f"a = {st[M.ST_A]:.9f} mm")
-    print(f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = "
-          f"{float(c_a):.9f} mm")
+    print(
+        f"stepper: {n:.3g} cycles in {t_py:.3f} s = {n / t_py / 1e6:.2f} M cycles/s; "
+        f"a = {st[M.ST_A]:.9f} mm"
+    )
+    print(
+        f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = {float(c_a):.9f} mm"
+    )
     print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.8)")
     for name, code in (("Wheeler", 1), ("Willenborg", 2)):
         mp_s = mp.copy()
         mp_s[M.SEQ_MODEL], mp_s[M.SEQ_EXPONENT], mp_s[M.SEQ_SHUT_OFF] = code, 1.3, 3.0
         mp_s[M.ZONE_BETA] = 6.0
         seq_stepper = K.stepper_for(False, False, True)
-        seq_stepper(lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp_s, 1e9,
-                    rec, 0, acc)
+        seq_stepper(
+            lmax, lmin, state(), 1, 1e18, geo.code, geo.params.copy(), ct, mp_s, 1e9, rec, 0, acc
+        )
         t_s = float("inf")
         for _ in range(3):
             t = time.perf_counter()
-            seq_stepper(lmax, lmin, state(), blocks, 1e18, geo.code, geo.params.copy(), ct,
-                        mp_s, 1e9, rec, 0, acc)
+            seq_stepper(
+                lmax,
+                lmin,
+                state(),
+                blocks,
+                1e18,
+                geo.code,
+                geo.params.copy(),
+                ct,
+                mp_s,
+                1e9,
+                rec,
+                0,
+                acc,
+            )
             t_s = min(t_s, time.perf_counter() - t)
-        print(f"with {name}: {n / t_s / 1e6:.2f} M cycles/s; throughput ratio to no sequence "
-              f"model = {t_py / t_s:.2f} (target ≥ 0.5)")
+        print(
+            f"with {name}: {n / t_s / 1e6:.2f} M cycles/s; throughput ratio to no sequence "
+            f"model = {t_py / t_s:.2f} (target ≥ 0.5)"
+        )
     return n / t_py
 
 
@@ -113,20 +147,35 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
     against one uniform-stress channel on the same edge-crack plate."""
     from cycj.life.loads import channel_block
 
-    base = {"material": {"elastic_modulus": "200 GPa", "yield_strength": "350 MPa",
-                         "tensile_strength": "500 MPa",
-                         "cyclic_curve": {"strength_coefficient": "900 MPa",
-                                          "hardening_exponent": 0.15},
-                         "growth": {"C": 1e-9, "m": 1.6}},
-            "geometry": {"shape": "edge-crack-plate", "width": "40 mm", "thickness": "10 mm",
-                         "crack_length": "2 mm"},
-            "loading": {"constant": {"max": "100 MPa", "min": "10 MPa"}},
-            "run": {"criteria": ["size-limit"]}}
+    base = {
+        "material": {
+            "elastic_modulus": "200 GPa",
+            "yield_strength": "350 MPa",
+            "tensile_strength": "500 MPa",
+            "cyclic_curve": {"strength_coefficient": "900 MPa", "hardening_exponent": 0.15},
+            "growth": {"C": 1e-9, "m": 1.6},
+        },
+        "geometry": {
+            "shape": "edge-crack-plate",
+            "width": "40 mm",
+            "thickness": "10 mm",
+            "crack_length": "2 mm",
+        },
+        "loading": {"constant": {"max": "100 MPa", "min": "10 MPa"}},
+        "run": {"criteria": ["size-limit"]},
+    }
     rng = np.random.default_rng(2)
     plain = case_from_dict(base)
-    prof = case_from_dict({**base, "geometry": {**base["geometry"], "stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0, -0.5]},
-        "residual_stress": {"uniform": "50 MPa"}}})
+    prof = case_from_dict(
+        {
+            **base,
+            "geometry": {
+                **base["geometry"],
+                "stress_profile": {"kind": "polynomial", "coefficients": [1.0, -0.5]},
+                "residual_stress": {"uniform": "50 MPa"},
+            },
+        }
+    )
     geo = plain.geometry
     rec = np.zeros((10, K.N_REC))
     acc = np.zeros(8)
@@ -140,7 +189,7 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
             mp = model_array(case)
         else:
             _, _, ct1, _, slots, _, _ = channel_block(case, 1.0, "closing")
-            ct = np.concatenate([ct1[:1], ct1[:1] * 0.5, ct1[1:]])   # two channels + residual
+            ct = np.concatenate([ct1[:1], ct1[:1] * 0.5, ct1[1:]])  # two channels + residual
             mp = model_array(case)
             for k, v in slots.items():
                 mp[k] = v
@@ -151,14 +200,17 @@ def channels_vs_uniform(n_block=200_000, blocks=5):
             st = np.zeros(M.N_STATE)
             st[M.ST_A] = 2.0
             t = time.perf_counter()
-            stepper(lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9,
-                    rec, 0, acc)
+            stepper(
+                lmax, lmin, st, blocks, 1e18, geo.code, geo.params.copy(), ct, mp, 1e9, rec, 0, acc
+            )
             best = min(best, time.perf_counter() - t)
         times.append(best)
     n = n_block * blocks
-    print(f"edge crack, one uniform channel: {n / times[0] / 1e6:.2f} M cycles/s; two "
-          f"profiled channels + residual stress: {n / times[1] / 1e6:.2f} M cycles/s → "
-          f"ratio {times[0] / times[1]:.2f} (target ≥ 0.67, i.e. within 1.5×)")
+    print(
+        f"edge crack, one uniform channel: {n / times[0] / 1e6:.2f} M cycles/s; two "
+        f"profiled channels + residual stress: {n / times[1] / 1e6:.2f} M cycles/s → "
+        f"ratio {times[0] / times[1]:.2f} (target ≥ 0.67, i.e. within 1.5×)"
+    )
 
 
 def block_vs_stepper(throughput):
@@ -170,9 +222,11 @@ def block_vs_stepper(throughput):
     res = predict_life(case, method="block")
     tb = time.perf_counter() - t
     n = res.summary["cycles_to_end"]
-    print(f"block mode: {n:.4g} cycles ({res.summary['end_reason']}) in {tb:.3f} s; the "
-          f"stepper at {throughput / 1e6:.1f} M cycles/s would need {n / throughput:.1f} s "
-          f"→ ratio {n / throughput / tb:.0f}× (targets < 1 s, ≥ 1000×)")
+    print(
+        f"block mode: {n:.4g} cycles ({res.summary['end_reason']}) in {tb:.3f} s; the "
+        f"stepper at {throughput / 1e6:.1f} M cycles/s would need {n / throughput:.1f} s "
+        f"→ ratio {n / throughput / tb:.0f}× (targets < 1 s, ≥ 1000×)"
+    )
 
 
 if __name__ == "__main__":

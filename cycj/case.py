@@ -24,8 +24,16 @@ from cycj.units import registry, to_internal
 CLOSURE_MODELS = models.names("closure")
 SEQUENCE_MODELS = models.names("retardation")
 CRITERIA = models.names("end_criterion")
-END_REASONS = ("toughness", "tearing", "fad", "collapse", "size-limit", "leak", "max-cycles",
-               "no-growth")
+END_REASONS = (
+    "toughness",
+    "tearing",
+    "fad",
+    "collapse",
+    "size-limit",
+    "leak",
+    "max-cycles",
+    "no-growth",
+)
 
 
 @dataclass(frozen=True)
@@ -44,9 +52,9 @@ class Loading:
     unit: str | None = None
     quantity: str = "force"
     scale: float = 1.0
-    gate: float = 0.0                 # in the load's internal unit (N or MPa)
-    duration_h: float | None = None   # one pass of the history
-    constant: tuple[float, float] | None = None   # (max, min) in the load's internal unit
+    gate: float = 0.0  # in the load's internal unit (N or MPa)
+    duration_h: float | None = None  # one pass of the history
+    constant: tuple[float, float] | None = None  # (max, min) in the load's internal unit
     closure: Closure = field(default_factory=Closure)
     compressive_part: str = "ignore"
     sequence: str = "none"
@@ -65,7 +73,7 @@ class RunOptions:
     max_cycles: float = 1e9
     crack_length_limit: float | None = None
     criteria: tuple[str, ...] = ("toughness", "collapse", "size-limit")
-    after_leak: str = "stop"      # surface crack through the wall: "stop" or "through-crack"
+    after_leak: str = "stop"  # surface crack through the wall: "stop" or "through-crack"
 
 
 @dataclass(frozen=True)
@@ -83,7 +91,7 @@ class Case:
     inspection: dict | None = None
     raw: dict = field(default_factory=dict, repr=False)
     toughness_source: str = "J_c"
-    fields: object | None = None   # cycj.fields.inputs.FieldSpec (stress fields, channels)
+    fields: object | None = None  # cycj.fields.inputs.FieldSpec (stress fields, channels)
 
     @property
     def sha256(self) -> str | None:
@@ -96,13 +104,22 @@ class Case:
         geo = self.geometry
         out = {
             "title": self.title,
-            "units": {"force": "N", "length": "mm", "stress": "MPa", "J": "kJ/m^2",
-                      "K": "MPa*mm^0.5", "rate": "mm/cycle", "time": "h"},
+            "units": {
+                "force": "N",
+                "length": "mm",
+                "stress": "MPa",
+                "J": "kJ/m^2",
+                "K": "MPa*mm^0.5",
+                "rate": "mm/cycle",
+                "time": "h",
+            },
             "material": _plain(asdict(self.material)),
-            "geometry": {"shape": geo.shape.name, "crack_length_mm": geo.crack_length,
-                         "constraint": "plane-strain" if geo.plane_strain else "plane-stress",
-                         **{f"{k}_mm" if k != "bending_ratio" else k: v
-                            for k, v in geo.dims.items()}},
+            "geometry": {
+                "shape": geo.shape.name,
+                "crack_length_mm": geo.crack_length,
+                "constraint": "plane-strain" if geo.plane_strain else "plane-stress",
+                **{f"{k}_mm" if k != "bending_ratio" else k: v for k, v in geo.dims.items()},
+            },
             "growth": _plain(asdict(self.growth)),
             "loading": _plain(asdict(self.loading)),
             "analysis": asdict(self.analysis),
@@ -121,17 +138,33 @@ class Case:
 
 def _fields_plain(spec) -> dict:
     """Stress-field inputs as plain data (profiles by kind and coefficients or table)."""
+
     def prof(p):
         if p is None or isinstance(p, float):
             return p
-        return {"kind": p.kind, "coefficients": list(p.coefficients),
-                "x_over_t": list(p.x_over_t), "stress": list(p.stress), "scale": p.scale}
+        return {
+            "kind": p.kind,
+            "coefficients": list(p.coefficients),
+            "x_over_t": list(p.x_over_t),
+            "stress": list(p.stress),
+            "scale": p.scale,
+        }
 
-    return {"stress_profile": prof(spec.profile), "residual_stress": prof(spec.residual),
-            "residual_relaxation": spec.relaxation,
-            "channels": [{"name": c.name, "column": c.column, "unit_factor": c.unit_factor,
-                          "scale": c.scale, "stress_profile": prof(c.profile)}
-                         for c in spec.channels]}
+    return {
+        "stress_profile": prof(spec.profile),
+        "residual_stress": prof(spec.residual),
+        "residual_relaxation": spec.relaxation,
+        "channels": [
+            {
+                "name": c.name,
+                "column": c.column,
+                "unit_factor": c.unit_factor,
+                "scale": c.scale,
+                "stress_profile": prof(c.profile),
+            }
+            for c in spec.channels
+        ],
+    }
 
 
 def _plain(obj):
@@ -153,8 +186,9 @@ def load_case(path) -> Case:
     return case_from_dict(raw, source=str(path), base=path.parent, path=path)
 
 
-def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = None,
-                   path: Path | None = None) -> Case:
+def case_from_dict(
+    raw: dict, *, source: str | None = None, base: Path | None = None, path: Path | None = None
+) -> Case:
     """Validate a case given as a dict (the parsed TOML)."""
     top = Table(raw, "", source)
     title = top.string("title", default=path.stem if path else "untitled case")
@@ -169,41 +203,79 @@ def case_from_dict(raw: dict, *, source: str | None = None, base: Path | None = 
     run = _run(top.table("run"), geometry, source)
     inspection = top.get("inspection")
     if inspection is not None and not isinstance(inspection, dict):
-        raise CycjInputError("must be a table", source=source, key="inspection",
-                             expected="a TOML table [inspection]", found=inspection)
+        raise CycjInputError(
+            "must be a table",
+            source=source,
+            key="inspection",
+            expected="a TOML table [inspection]",
+            found=inspection,
+        )
     top.finish()
     if loading.closure.model != "none" and growth.basis == "applied":
         raise CycjInputError(
             "closure with a growth law fitted on the applied range would count closure twice; "
-            "use a law with basis = \"effective\" or closure = \"none\"", source=source,
-            key="loading.closure", expected="'none' for an applied-basis law",
-            found=loading.closure.model)
+            'use a law with basis = "effective" or closure = "none"',
+            source=source,
+            key="loading.closure",
+            expected="'none' for an applied-basis law",
+            found=loading.closure.model,
+        )
     if analysis.j_method != "elastic" and material.cyclic_curve is None:
-        raise CycjInputError(f"j_method '{analysis.j_method}' needs the cyclic curve",
-                             source=source, key="material.cyclic_curve",
-                             expected="{ strength_coefficient = ..., hardening_exponent = ... }")
+        raise CycjInputError(
+            f"j_method '{analysis.j_method}' needs the cyclic curve",
+            source=source,
+            key="material.cyclic_curve",
+            expected="{ strength_coefficient = ..., hardening_exponent = ... }",
+        )
     if analysis.j_method == "notch" and geometry.notch is None:
-        raise CycjInputError("j_method 'notch' needs [geometry] notch = { kt, depth } (or the "
-                             "crack-at-hole shape)", source=source, key="analysis.j_method")
+        raise CycjInputError(
+            "j_method 'notch' needs [geometry] notch = { kt, depth } (or the crack-at-hole shape)",
+            source=source,
+            key="analysis.j_method",
+        )
     if analysis.j_method == "small-crack" and geometry.shape.name not in (
-            "edge-crack-semi-infinite", "center-crack-infinite-plate"):
-        raise CycjInputError("the small-crack estimate is for a small crack in a smooth "
-                             "section", source=source, key="analysis.j_method",
-                             expected="'reference-stress' or 'elastic' for "
-                                      f"{geometry.shape.name}", found="small-crack")
+        "edge-crack-semi-infinite",
+        "center-crack-infinite-plate",
+    ):
+        raise CycjInputError(
+            "the small-crack estimate is for a small crack in a smooth section",
+            source=source,
+            key="analysis.j_method",
+            expected=f"'reference-stress' or 'elastic' for {geometry.shape.name}",
+            found="small-crack",
+        )
     for crit in run.criteria:
         if crit == "toughness" and material.J_c is None:
-            raise CycjInputError("criterion 'toughness' needs material.toughness.J_c (or K_c)",
-                                 source=source, key="run.criteria")
+            raise CycjInputError(
+                "criterion 'toughness' needs material.toughness.J_c (or K_c)",
+                source=source,
+                key="run.criteria",
+            )
         if crit == "tearing" and material.resistance_curve is None:
-            raise CycjInputError("criterion 'tearing' needs material.toughness."
-                                 "resistance_curve", source=source, key="run.criteria")
+            raise CycjInputError(
+                "criterion 'tearing' needs material.toughness.resistance_curve",
+                source=source,
+                key="run.criteria",
+            )
         if crit == "fad" and material.J_c is None:
-            raise CycjInputError("criterion 'fad' needs a toughness (J_c or K_c)",
-                                 source=source, key="run.criteria")
+            raise CycjInputError(
+                "criterion 'fad' needs a toughness (J_c or K_c)", source=source, key="run.criteria"
+            )
     fields = _fields(raw, source, base or Path("."), geometry, loading)
-    return Case(title, material, geometry, growth, loading, analysis, run, path, inspection,
-                raw, jc_note, fields)
+    return Case(
+        title,
+        material,
+        geometry,
+        growth,
+        loading,
+        analysis,
+        run,
+        path,
+        inspection,
+        raw,
+        jc_note,
+        fields,
+    )
 
 
 #: shapes whose stress-field (weight-function) solutions are wired into the life engine
@@ -213,33 +285,52 @@ FIELD_SHAPES = ("edge-crack-plate", "surface-crack-plate")
 def _fields(raw, source, base, geometry, loading):
     from cycj.fields.inputs import read_fields
 
-    spec = read_fields(raw.get("geometry", {}), raw.get("loading", {}).get("channels"),
-                       source, base)
+    spec = read_fields(
+        raw.get("geometry", {}), raw.get("loading", {}).get("channels"), source, base
+    )
     if spec is None:
         return None
     if geometry.shape.name not in FIELD_SHAPES:
-        raise CycjInputError("stress profiles, residual stress and load channels are "
-                             f"available for {', '.join(FIELD_SHAPES)}", source=source,
-                             key="geometry.shape", found=geometry.shape.name)
+        raise CycjInputError(
+            "stress profiles, residual stress and load channels are "
+            f"available for {', '.join(FIELD_SHAPES)}",
+            source=source,
+            key="geometry.shape",
+            found=geometry.shape.name,
+        )
     if not spec.channels and loading.quantity != "stress":
-        raise CycjInputError("with stress fields the loads are stresses (MPa)",
-                             source=source, key="loading.quantity",
-                             expected="'stress'", found=loading.quantity)
+        raise CycjInputError(
+            "with stress fields the loads are stresses (MPa)",
+            source=source,
+            key="loading.quantity",
+            expected="'stress'",
+            found=loading.quantity,
+        )
     if spec.channels and loading.history is None:
-        raise CycjInputError("load channels read their columns from loading.history",
-                             source=source, key="loading.history")
+        raise CycjInputError(
+            "load channels read their columns from loading.history",
+            source=source,
+            key="loading.history",
+        )
     return spec
 
 
 def _geometry(t: Table, base: Path) -> Geometry:
     shape = t.choice("shape", SHAPE_NAMES, required=True)
     kw = {}
-    for k in ("width", "thickness", "net_thickness", "span", "half_length", "inner_radius",
-              "hole_radius"):
+    for k in (
+        "width",
+        "thickness",
+        "net_thickness",
+        "span",
+        "half_length",
+        "inner_radius",
+        "hole_radius",
+    ):
         v = t.quantity(k, "length", positive=True)
         if v is not None:
             kw[k] = v
-    t.known |= {"stress_profile", "residual_stress"}   # read by cycj.fields.inputs
+    t.known |= {"stress_profile", "residual_stress"}  # read by cycj.fields.inputs
     cracks = t.number("cracks", integer=True)
     if cracks is not None:
         kw["cracks"] = cracks
@@ -263,11 +354,10 @@ def _geometry(t: Table, base: Path) -> Geometry:
             raise t.error("table", "table file not found", found=str(path))
         kw["table"] = read_table(path, source=str(path))
     a = t.quantity("crack_length", "length", required=True, positive=True)
-    constraint = t.choice("constraint", ("plane-strain", "plane-stress"),
-                          default="plane-strain")
+    constraint = t.choice("constraint", ("plane-strain", "plane-stress"), default="plane-strain")
     t.finish()
     geo = make_geometry(shape, a, constraint=constraint, source=t.source, prefix=t.path, **kw)
-    if notch is None and shape == "crack-at-hole":   # the hole is the notch: K_t = 3, depth R
+    if notch is None and shape == "crack-at-hole":  # the hole is the notch: K_t = 3, depth R
         notch = {"kt": 3.0, "depth": kw["hole_radius"], "root_radius": kw["hole_radius"]}
     from dataclasses import replace
 
@@ -302,8 +392,9 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     unit = t.string("unit")
     kind_from_unit = _quantity_kind(unit)
     if unit is not None and kind_from_unit is None:
-        raise t.error("unit", "not a unit of force or stress", expected="e.g. 'kN' or 'MPa'",
-                      found=unit)
+        raise t.error(
+            "unit", "not a unit of force or stress", expected="e.g. 'kN' or 'MPa'", found=unit
+        )
     default_q = kind_from_unit or geometry.shape.loading[0]
     if const is not None and unit is None:
         s = str(const.get("max", ""))
@@ -311,24 +402,30 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         default_q = default_q or "stress"
     if default_q == "stress" and "pressure" in geometry.shape.loading:
         default_q = "pressure"
-    if t.raw.get("channels"):   # load channels carry stresses
+    if t.raw.get("channels"):  # load channels carry stresses
         default_q = "stress"
     quantity = t.choice("quantity", ("force", "stress", "pressure"), default=default_q)
     if quantity not in geometry.shape.loading:
         takes = " or ".join(geometry.shape.loading)
-        raise t.error("quantity", f"{geometry.shape.name} takes {takes}",
-                      expected=" or ".join(repr(x) for x in geometry.shape.loading),
-                      found=quantity)
+        raise t.error(
+            "quantity",
+            f"{geometry.shape.name} takes {takes}",
+            expected=" or ".join(repr(x) for x in geometry.shape.loading),
+            found=quantity,
+        )
     kind = "force" if quantity == "force" else "stress"
     if unit is not None and kind_from_unit != kind:
         raise t.error("unit", f"a {quantity} history needs a {kind} unit", found=unit)
-    unit_factor = 1.0 if unit is None else to_internal(f"1 {unit}", kind, key=t.key("unit"),
-                                                       source=t.source)
+    unit_factor = (
+        1.0 if unit is None else to_internal(f"1 {unit}", kind, key=t.key("unit"), source=t.source)
+    )
     scale = t.number("scale", default=1.0, positive=True)
     gate_raw = t.get("gate", 0.0)
-    gate = (gate_raw * unit_factor * scale
-            if isinstance(gate_raw, (int, float)) and not isinstance(gate_raw, bool)
-            else t.quantity("gate", kind, nonnegative=True) * scale)
+    gate = (
+        gate_raw * unit_factor * scale
+        if isinstance(gate_raw, (int, float)) and not isinstance(gate_raw, bool)
+        else t.quantity("gate", kind, nonnegative=True) * scale
+    )
     if not gate >= 0:
         raise t.error("gate", "out of range", expected="≥ 0", found=gate_raw)
     duration = t.quantity("duration", "time", positive=True)
@@ -338,32 +435,40 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         vals = []
         for k in ("max", "min"):
             raw = const.get(k, required=True)
-            v = raw * unit_factor if isinstance(raw, (int, float)) and not isinstance(
-                raw, bool) else to_internal(raw, kind, key=const.key(k), source=const.source)
+            v = (
+                raw * unit_factor
+                if isinstance(raw, (int, float)) and not isinstance(raw, bool)
+                else to_internal(raw, kind, key=const.key(k), source=const.source)
+            )
             vals.append(v * scale)
         const.finish()
         if not vals[0] > vals[1]:
-            raise const.error("max", "max must exceed min", expected=f"> {vals[1]:g}",
-                              found=vals[0])
+            raise const.error(
+                "max", "max must exceed min", expected=f"> {vals[1]:g}", found=vals[0]
+            )
         if not vals[0] > 0:
-            raise const.error("max", "no tensile load: the crack cannot grow",
-                              expected="> 0", found=vals[0])
+            raise const.error(
+                "max", "no tensile load: the crack cannot grow", expected="> 0", found=vals[0]
+            )
         constant = (vals[0], vals[1])
     history = None
     if hist is not None:
-        history = (base / hist)
+        history = base / hist
         if not history.is_file():
             raise t.error("history", "history file not found", found=str(history))
     closure = _closure(t)
     comp = t.choice("compressive_part", ("ignore", "include"), default="ignore")
-    t.known.add("channels")   # read by cycj.fields.inputs
+    t.known.add("channels")  # read by cycj.fields.inputs
     seq_raw = t.get("sequence", "none")
     seq_opts: dict = {}
     if isinstance(seq_raw, dict):
         st = Table(seq_raw, t.key("sequence"), t.source)
         seq = st.choice("model", SEQUENCE_MODELS, required=True)
-        for key, lo, hi in (("shaping_exponent", 0.0, 10.0), ("shut_off_ratio", 1.01, 10.0),
-                            ("zone_factor", 1.0, 10.0)):
+        for key, lo, hi in (
+            ("shaping_exponent", 0.0, 10.0),
+            ("shut_off_ratio", 1.01, 10.0),
+            ("zone_factor", 1.0, 10.0),
+        ):
             v = st.number(key, lo=(lo, f"{lo:g}"), hi=(hi, f"{hi:g}"))
             if v is not None:
                 seq_opts[key] = v
@@ -371,8 +476,20 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     else:
         seq = t.choice("sequence", SEQUENCE_MODELS, default="none")
     t.finish()
-    return Loading(history, column, unit, quantity, scale, gate,
-                   duration, constant, closure, comp, seq, seq_opts)
+    return Loading(
+        history,
+        column,
+        unit,
+        quantity,
+        scale,
+        gate,
+        duration,
+        constant,
+        closure,
+        comp,
+        seq,
+        seq_opts,
+    )
 
 
 def _closure(t: Table) -> Closure:
@@ -380,8 +497,9 @@ def _closure(t: Table) -> Closure:
     if isinstance(raw, dict):
         ct = Table(raw, t.key("closure"), t.source)
         model = ct.choice("model", CLOSURE_MODELS, required=True)
-        u = ct.number("U", default=1.0, lo=(0.0, "> 0"), hi=(1.0, "1"),
-                      required=model == "constant")
+        u = ct.number(
+            "U", default=1.0, lo=(0.0, "> 0"), hi=(1.0, "1"), required=model == "constant"
+        )
         if model == "constant" and not u > 0:
             raise ct.error("U", "out of range", expected="0 < U ≤ 1", found=u)
         alpha = ct.number("constraint_factor", lo=(1.0, "1"), hi=(3.0, "3"))
@@ -389,16 +507,19 @@ def _closure(t: Table) -> Closure:
         return Closure(model, u, alpha)
     model = t.choice("closure", CLOSURE_MODELS, default="none")
     if model == "constant":
-        raise t.error("closure", "constant closure needs U",
-                      expected="closure = { model = \"constant\", U = 0.8 }", found=raw)
+        raise t.error(
+            "closure",
+            "constant closure needs U",
+            expected='closure = { model = "constant", U = 0.8 }',
+            found=raw,
+        )
     return Closure(model)
 
 
 def _analysis(t: Table | None) -> Analysis:
     if t is None:
         return Analysis()
-    jm = t.choice("j_method", models.names("j_method"),
-                  default="reference-stress")
+    jm = t.choice("j_method", models.names("j_method"), default="reference-stress")
     fad = t.choice("fad", models.names("fad"), default="option-2")
     t.finish()
     return Analysis(jm, fad)
@@ -406,41 +527,58 @@ def _analysis(t: Table | None) -> Analysis:
 
 #: largest crack size a run may aim at [mm] (beyond it growth and J overflow)
 MAX_CRACK_MM = 1e5
-NEEDS_LIMIT = ("an infinite or semi-infinite body sets no size limit of its own: give "
-               "crack_length_limit")
+NEEDS_LIMIT = (
+    "an infinite or semi-infinite body sets no size limit of its own: give crack_length_limit"
+)
 
 
 def _run(t: Table | None, geometry: Geometry, source: str | None = None) -> RunOptions:
     unbounded = math.isinf(geometry.size_limits[1])
     if t is None:
         if unbounded:
-            raise CycjInputError(NEEDS_LIMIT, source=source, key="run.crack_length_limit",
-                                 expected='a size such as "100 mm"')
+            raise CycjInputError(
+                NEEDS_LIMIT,
+                source=source,
+                key="run.crack_length_limit",
+                expected='a size such as "100 mm"',
+            )
         return RunOptions()
     method = t.choice("method", ("auto", "cycle", "block"), default="auto")
     maxc = t.number("max_cycles", default=1e9, positive=True)
-    limit = t.quantity("crack_length_limit", "length", lo=(1e-9, "0 mm"),
-                       hi=(MAX_CRACK_MM, f"{MAX_CRACK_MM:g} mm"))
+    limit = t.quantity(
+        "crack_length_limit", "length", lo=(1e-9, "0 mm"), hi=(MAX_CRACK_MM, f"{MAX_CRACK_MM:g} mm")
+    )
     if limit is None and unbounded:
         raise t.error("crack_length_limit", NEEDS_LIMIT, expected='a size such as "100 mm"')
     if limit is not None and not limit > geometry.crack_length:
-        raise t.error("crack_length_limit", "must exceed the initial crack",
-                      expected=f"> {geometry.crack_length:g} mm", found=limit)
+        raise t.error(
+            "crack_length_limit",
+            "must exceed the initial crack",
+            expected=f"> {geometry.crack_length:g} mm",
+            found=limit,
+        )
     crit = t.get("criteria", ["toughness", "collapse", "size-limit"])
     if not isinstance(crit, list) or not crit:
-        raise t.error("criteria", "must be a list", expected=f"a list from {CRITERIA}",
-                      found=crit)
+        raise t.error("criteria", "must be a list", expected=f"a list from {CRITERIA}", found=crit)
     for c in crit:
         if c not in CRITERIA:
             import difflib
 
             near = difflib.get_close_matches(str(c), CRITERIA, n=1)
             hint = f" (did you mean '{near[0]}'?)" if near else ""
-            raise t.error("criteria", f"unknown criterion{hint}",
-                          expected="any of " + ", ".join(CRITERIA), found=c)
+            raise t.error(
+                "criteria",
+                f"unknown criterion{hint}",
+                expected="any of " + ", ".join(CRITERIA),
+                found=c,
+            )
     after = t.choice("after_leak", ("stop", "through-crack"), default="stop")
     if after != "stop" and not geometry.two_d:
-        raise t.error("after_leak", "only a surface crack leaks and becomes a through crack",
-                      expected="'stop'", found=after)
+        raise t.error(
+            "after_leak",
+            "only a surface crack leaks and becomes a through crack",
+            expected="'stop'",
+            found=after,
+        )
     t.finish()
     return RunOptions(method, maxc, limit, tuple(crit), after)

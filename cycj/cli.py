@@ -68,8 +68,9 @@ def main(argv=None):
         sys.exit(2)
     except KeyboardInterrupt as exc:
         where = f": {exc}" if str(exc) else ""
-        click.echo(f"cycj: stopped by the user (Ctrl-C){where}; no partial outputs were kept",
-                   err=True)
+        click.echo(
+            f"cycj: stopped by the user (Ctrl-C){where}; no partial outputs were kept", err=True
+        )
         sys.exit(130)
     except (OSError, UnicodeDecodeError) as exc:
         click.echo(f"cycj: error: {exc}", err=True)
@@ -79,8 +80,11 @@ def main(argv=None):
 
         if os.environ.get("CYCJ_DEBUG"):
             raise
-        click.echo(f"cycj: internal error: {type(exc).__name__}: {exc} (set CYCJ_DEBUG=1 for "
-                   "the traceback, and please report it)", err=True)
+        click.echo(
+            f"cycj: internal error: {type(exc).__name__}: {exc} (set CYCJ_DEBUG=1 for "
+            "the traceback, and please report it)",
+            err=True,
+        )
         sys.exit(1)
     sys.exit(rv if isinstance(rv, int) else 0)
 

@@ -126,21 +126,25 @@ def write_inputs(folder: Path, *, seed: int = 20) -> dict:
     spec_path.write_text(SPECIMEN, encoding="utf-8")
     spec = read_specimen(spec_path)
     logs = []
-    for name, kw in (("lab_r01.csv", dict(p_max=15000, r_ratio=0.1, opening_fraction=0.2,
-                                          seed=seed + 1)),
-                     ("lab_r05.csv", dict(p_max=17000, r_ratio=0.5, opening_fraction=0.0,
-                                          seed=seed + 2))):
-        sim = simulate_test(spec, TRUE_C, TRUE_M, record_every=1500, samples=40,
-                            crack_end=27, **kw)
+    for name, kw in (
+        ("lab_r01.csv", dict(p_max=15000, r_ratio=0.1, opening_fraction=0.2, seed=seed + 1)),
+        ("lab_r05.csv", dict(p_max=17000, r_ratio=0.5, opening_fraction=0.0, seed=seed + 2)),
+    ):
+        sim = simulate_test(spec, TRUE_C, TRUE_M, record_every=1500, samples=40, crack_end=27, **kw)
         raw = sim.raw.copy()
         raw["load"] = (raw["load"] / 1000).round(5)
         raw["displacement"] = raw["displacement"].round(6)
         raw.to_csv(folder / name, index=False)
         logs.append(folder / name)
     pd.DataFrame({"stress": lift_history(seed).round(3)}).to_csv(
-        folder / "lift_history.csv", index=False)
-    return {"specimen": spec_path, "logs": logs, "history": folder / "lift_history.csv",
-            "case": folder / "lug.toml"}
+        folder / "lift_history.csv", index=False
+    )
+    return {
+        "specimen": spec_path,
+        "logs": logs,
+        "history": folder / "lift_history.csv",
+        "case": folder / "lug.toml",
+    }
 
 
 def case_text(snippet: str) -> str:
@@ -174,8 +178,10 @@ def run_demo(folder, *, force: bool = False, echo=print) -> dict:
     logs = [inp / "lab_r01.csv", inp / "lab_r05.csv"]
     fit = fit_logs(logs, inp / "specimen.toml")
     write_outputs(fit, paths["fit"], logs=logs, specimens=[inp / "specimen.toml"])
-    echo(f"fit:    C = {fit.C:.4g}, m = {fit.m:.4g} (virtual lab: {TRUE_C:g}, {TRUE_M:g}) "
-         f"-> {paths['fit']}/")
+    echo(
+        f"fit:    C = {fit.C:.4g}, m = {fit.m:.4g} (virtual lab: {TRUE_C:g}, {TRUE_M:g}) "
+        f"-> {paths['fit']}/"
+    )
 
     case_path = inp / "lug.toml"
     case_path.write_text(case_text(fit.snippet), encoding="utf-8")

@@ -37,32 +37,78 @@ from cycj.kernel_slots import (
 from cycj.models import register
 
 # end codes (0 = still running)
-RUNNING, END_TOUGHNESS, END_TEARING, END_FAD, END_COLLAPSE, END_SIZE, END_MAX_CYCLES, \
-    END_NO_GROWTH, END_LEAK = range(9)
+(
+    RUNNING,
+    END_TOUGHNESS,
+    END_TEARING,
+    END_FAD,
+    END_COLLAPSE,
+    END_SIZE,
+    END_MAX_CYCLES,
+    END_NO_GROWTH,
+    END_LEAK,
+) = range(9)
 
 # criteria a case may select (one record each; the end code is the kernel code)
-register("end_criterion", "toughness", END_TOUGHNESS, slots=("J_C", "K_PEAK", "N_PEAK"),
-         validity="J_max at the peak load ≥ J_c (or J_Ic)",
-         citation=("ASTM E1820: fracture toughness J_c, J_Ic", "Ainsworth, R. A., Eng. Fract. "
-                   "Mech. 19 (1984) 633–642: J at peak load by the reference stress method"))
-register("end_criterion", "tearing", END_TEARING, slots=("A_TEAR",),
-         validity="J–R curve J_R = C1·(Δa/1 mm)^C2 within its measured extension",
-         citation=("Paris, P. C., Tada, H., Zahoor, A., Ernst, H., ASTM STP 668 (1979) 5–36: "
-                   "tearing instability", "ASTM E1820: J–R curve"))
-register("end_criterion", "fad", END_FAD, slots=("FAD_CURVE", "J_C", "LR_MAX"),
-         validity="assessment point on or outside the failure assessment curve",
-         citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and "
-                   "L_r,max",))
-register("end_criterion", "collapse", END_COLLAPSE, slots=("LR_MAX",),
-         validity="L_r = P_max/P_L(a) ≥ L_r,max = (σ_y + σ_u)/(2σ_y)",
-         citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and "
-                   "L_r,max",))
-register("end_criterion", "size-limit", END_SIZE, slots=("A_LIMIT",),
-         validity="crack size limit of the user or of the K solution's range", citation=())
+register(
+    "end_criterion",
+    "toughness",
+    END_TOUGHNESS,
+    slots=("J_C", "K_PEAK", "N_PEAK"),
+    validity="J_max at the peak load ≥ J_c (or J_Ic)",
+    citation=(
+        "ASTM E1820: fracture toughness J_c, J_Ic",
+        "Ainsworth, R. A., Eng. Fract. "
+        "Mech. 19 (1984) 633–642: J at peak load by the reference stress method",
+    ),
+)
+register(
+    "end_criterion",
+    "tearing",
+    END_TEARING,
+    slots=("A_TEAR",),
+    validity="J–R curve J_R = C1·(Δa/1 mm)^C2 within its measured extension",
+    citation=(
+        "Paris, P. C., Tada, H., Zahoor, A., Ernst, H., ASTM STP 668 (1979) 5–36: "
+        "tearing instability",
+        "ASTM E1820: J–R curve",
+    ),
+)
+register(
+    "end_criterion",
+    "fad",
+    END_FAD,
+    slots=("FAD_CURVE", "J_C", "LR_MAX"),
+    validity="assessment point on or outside the failure assessment curve",
+    citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",),
+)
+register(
+    "end_criterion",
+    "collapse",
+    END_COLLAPSE,
+    slots=("LR_MAX",),
+    validity="L_r = P_max/P_L(a) ≥ L_r,max = (σ_y + σ_u)/(2σ_y)",
+    citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",),
+)
+register(
+    "end_criterion",
+    "size-limit",
+    END_SIZE,
+    slots=("A_LIMIT",),
+    validity="crack size limit of the user or of the K solution's range",
+    citation=(),
+)
 
-END_NAMES = {END_TOUGHNESS: "toughness", END_TEARING: "tearing", END_FAD: "fad",
-             END_COLLAPSE: "collapse", END_SIZE: "size-limit", END_MAX_CYCLES: "max-cycles",
-             END_NO_GROWTH: "no-growth", END_LEAK: "leak"}
+END_NAMES = {
+    END_TOUGHNESS: "toughness",
+    END_TEARING: "tearing",
+    END_FAD: "fad",
+    END_COLLAPSE: "collapse",
+    END_SIZE: "size-limit",
+    END_MAX_CYCLES: "max-cycles",
+    END_NO_GROWTH: "no-growth",
+    END_LEAK: "leak",
+}
 
 
 @jit
@@ -79,8 +125,7 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
     if mp[CHECK_FAD] > 0.5:
         kr = math.sqrt(j_el_max / mp[J_C]) + rho
         if int(mp[FAD_CURVE]) == FAD_OPTION_2:
-            f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK],
-                                   mp[N_PEAK])
+            f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
         else:
             f = fad_option1_scalar(lr, mp[LR_MAX])
         if kr >= f:
@@ -88,5 +133,3 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
     if a >= mp[A_LIMIT]:
         return END_SIZE, a
     return RUNNING, 0.0
-
-

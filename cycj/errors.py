@@ -6,9 +6,16 @@ from __future__ import annotations
 class CycjInputError(ValueError):
     """Bad input: names where (file, key path or line), what was expected and what was found."""
 
-    def __init__(self, message: str, *, source: str | None = None, key: str | None = None,
-                 line: int | None = None, expected: str | None = None,
-                 found: object | None = None):
+    def __init__(
+        self,
+        message: str,
+        *,
+        source: str | None = None,
+        key: str | None = None,
+        line: int | None = None,
+        expected: str | None = None,
+        found: object | None = None,
+    ):
         self.source, self.key, self.line = source, key, line
         self.expected, self.found = expected, found
         parts = []

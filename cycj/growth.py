@@ -31,29 +31,49 @@ from cycj.models import register
 # closure model codes of the stepper
 # closure models: one record each (name, kernel code, slots read, validity, citation)
 NONE = register(
-    "closure", "none", 0, slots=("INCLUDE_COMP",),
-    validity="opening at the minimum load, or at zero load when the compressive part is "
-    "excluded", citation=()).code
+    "closure",
+    "none",
+    0,
+    slots=("INCLUDE_COMP",),
+    validity="opening at the minimum load, or at zero load when the compressive part is excluded",
+    citation=(),
+).code
 CONSTANT = register(
-    "closure", "constant", 1, slots=("U_CONST",), validity="0 < U ≤ 1 (measured or assumed)",
-    citation=("Elber, W., ASTM STP 486 (1971) 230–242: effective range U·ΔK above the opening "
-              "load",)).code
+    "closure",
+    "constant",
+    1,
+    slots=("U_CONST",),
+    validity="0 < U ≤ 1 (measured or assumed)",
+    citation=(
+        "Elber, W., ASTM STP 486 (1971) 230–242: effective range U·ΔK above the opening load",
+    ),
+).code
 ELBER = register(
-    "closure", "elber", 2, validity="−0.1 ≤ R ≤ 0.7 (2024-T3); R is clipped and counted",
-    citation=("Elber, W., ASTM STP 486 (1971) 230–242: U = 0.5 + 0.4R",)).code
+    "closure",
+    "elber",
+    2,
+    validity="−0.1 ≤ R ≤ 0.7 (2024-T3); R is clipped and counted",
+    citation=("Elber, W., ASTM STP 486 (1971) 230–242: U = 0.5 + 0.4R",),
+).code
 NEWMAN = register(
-    "closure", "newman", 3, slots=("ALPHA_NEWMAN", "FLOW_RATIO"),
+    "closure",
+    "newman",
+    3,
+    slots=("ALPHA_NEWMAN", "FLOW_RATIO"),
     validity="−1 ≤ R < 1, S_max/σ_0 ≤ 0.8 (clipped and counted), 1 ≤ α ≤ 3",
-    citation=("Newman, J. C., Jr., Int. J. Fract. 24 (1984) R131–R135: crack-opening "
-              "function",)).code
+    citation=("Newman, J. C., Jr., Int. J. Fract. 24 (1984) R131–R135: crack-opening function",),
+).code
 #: closure name → kernel code (from the records)
 CLOSURE_CODES = {"none": NONE, "constant": CONSTANT, "elber": ELBER, "newman": NEWMAN}
 
 # growth laws
 PARIS = register(
-    "growth_law", "paris", 0, slots=("C_LAW", "M_LAW", "DJ_TH", "Q_TOUGH"),
+    "growth_law",
+    "paris",
+    0,
+    slots=("C_LAW", "M_LAW", "DJ_TH", "Q_TOUGH"),
     validity="the ΔJ range of the data the law was fitted on",
-    citation=("Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: da/dN = C·ΔJ^m",)
+    citation=("Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: da/dN = C·ΔJ^m",),
 ).code
 
 ELBER_R_RANGE = (-0.1, 0.7)
@@ -71,8 +91,9 @@ def elber_u(r):
 def newman_opening_ratio(r, smax_flow, alpha):
     """Newman's S_o/S_max for stress ratio R (−1 ≤ R < 1), S_max/σ_0 (≤ 0.8) and constraint
     factor α (1 plane stress … 3 plane strain); never below R (S_o ≥ S_min)."""
-    a0 = (0.825 - 0.34 * alpha + 0.05 * alpha * alpha) * math.cos(
-        0.5 * math.pi * smax_flow) ** (1.0 / alpha)
+    a0 = (0.825 - 0.34 * alpha + 0.05 * alpha * alpha) * math.cos(0.5 * math.pi * smax_flow) ** (
+        1.0 / alpha
+    )
     a1 = (0.415 - 0.071 * alpha) * smax_flow
     a3 = 2.0 * a0 + a1 - 1.0
     a2 = 1.0 - a0 - a1 - a3
@@ -164,6 +185,7 @@ def newman_closure(r, smax_flow, alpha):
 
 # ------------------------------------------------------------------ law parameters as data
 
+
 @dataclass(frozen=True)
 class GrowthLaw:
     """da/dN [mm/cycle] = C·ΔJ^m (ΔJ in kJ/m²), zero below ``threshold`` [kJ/m²].
@@ -185,15 +207,18 @@ class GrowthLaw:
         """da/dN [mm/cycle] for ΔJ [kJ/m²] (vectorised; no acceleration term)."""
         import numpy as np
 
-        return np.vectorize(paris_rate, otypes=[float])(np.asarray(delta_j, float), self.C,
-                                                        self.m, self.threshold)
+        return np.vectorize(paris_rate, otypes=[float])(
+            np.asarray(delta_j, float), self.C, self.m, self.threshold
+        )
 
 
-def from_delta_k(C_k: float, m_k: float, e_prime: float, threshold_k: float = 0.0,
-                 **kw) -> GrowthLaw:
+def from_delta_k(
+    C_k: float, m_k: float, e_prime: float, threshold_k: float = 0.0, **kw
+) -> GrowthLaw:
     """Convert da/dN = C_K·ΔK^m_K (mm/cycle, ΔK in MPa√mm) to the ΔJ form.
 
     ΔK = √(E'·ΔJ) ⇒ da/dN = C_K·E'^(m_K/2)·ΔJ^(m_K/2);  ΔJ_th = ΔK_th²/E'.
     """
-    return GrowthLaw(C=C_k * e_prime ** (m_k / 2), m=m_k / 2,
-                     threshold=threshold_k**2 / e_prime, **kw)
+    return GrowthLaw(
+        C=C_k * e_prime ** (m_k / 2), m=m_k / 2, threshold=threshold_k**2 / e_prime, **kw
+    )

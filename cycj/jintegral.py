@@ -33,40 +33,78 @@ from cycj.models import register
 
 # j_method codes used by the compiled stepper
 _RICE = "Rice, J. R., J. Appl. Mech. 35 (1968) 379–386: J = K²/E' in the elastic limit"
-_MASING = ("Masing, G. (1926); Morrow, J. D., ASTM STP 378 (1965) 45–87: cyclic (Masing) "
-           "branch Δε = Δσ/E + 2(Δσ/2K')^(1/n')")
+_MASING = (
+    "Masing, G. (1926); Morrow, J. D., ASTM STP 378 (1965) 45–87: cyclic (Masing) "
+    "branch Δε = Δσ/E + 2(Δσ/2K')^(1/n')"
+)
 ELASTIC = register(
-    "j_method", "elastic", 0, slots=("E_PRIME",), validity="small-scale yielding (LEFM)",
-    citation=(_RICE,)).code
+    "j_method",
+    "elastic",
+    0,
+    slots=("E_PRIME",),
+    validity="small-scale yielding (LEFM)",
+    citation=(_RICE,),
+).code
 REFERENCE_STRESS = register(
-    "j_method", "reference-stress", 1, slots=("E_MOD", "E_PRIME", "SIGMA_Y", "K_CYC", "N_CYC"),
+    "j_method",
+    "reference-stress",
+    1,
+    slots=("E_MOD", "E_PRIME", "SIGMA_Y", "K_CYC", "N_CYC"),
     validity="any L_r below collapse; conservative in the fully plastic limit",
-    citation=(_RICE, "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: reference stress "
-              "J estimate", _MASING)).code
+    citation=(
+        _RICE,
+        "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: reference stress J estimate",
+        _MASING,
+    ),
+).code
 SMALL_CRACK = register(
-    "j_method", "small-crack", 2, slots=("E_MOD", "K_CYC", "N_CYC"),
+    "j_method",
+    "small-crack",
+    2,
+    slots=("E_MOD", "K_CYC", "N_CYC"),
     validity="small semicircular surface crack in a smooth section (a ≪ section size)",
-    citation=(_RICE, "Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p) "
-              "for small cracks", _MASING)).code
+    citation=(
+        _RICE,
+        "Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p) for small cracks",
+        _MASING,
+    ),
+).code
 NOTCH = register(
-    "j_method", "notch", 3, slots=("NOTCH_KT", "NOTCH_DEPTH", "NOTCH_OWN_LONG", "E_MOD",
-                                   "K_CYC", "N_CYC"),
+    "j_method",
+    "notch",
+    3,
+    slots=("NOTCH_KT", "NOTCH_DEPTH", "NOTCH_OWN_LONG", "E_MOD", "K_CYC", "N_CYC"),
     validity="crack growing from a notch root; notch keys required",
-    citation=(_RICE, "Neuber, H., J. Appl. Mech. 28 (1961) 544; Topper, Wetzel & Morrow, J. "
-              "Materials 4 (1969) 200: notch-root loop on the Masing branch",
-              "Dowling, N. E., ASTM STP 677 (1979) 247–273: crack at a notch (from memory)",
-              _MASING)).code
+    citation=(
+        _RICE,
+        "Neuber, H., J. Appl. Mech. 28 (1961) 544; Topper, Wetzel & Morrow, J. "
+        "Materials 4 (1969) 200: notch-root loop on the Masing branch",
+        "Dowling, N. E., ASTM STP 677 (1979) 247–273: crack at a notch (from memory)",
+        _MASING,
+    ),
+).code
 _FAD_SOURCE = "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max"
 FAD_OPTION_1 = register(
-    "fad", "option-1", 1, slots=("LR_MAX",), validity="0 ≤ L_r ≤ L_r,max",
-    citation=(_FAD_SOURCE,)).code
+    "fad", "option-1", 1, slots=("LR_MAX",), validity="0 ≤ L_r ≤ L_r,max", citation=(_FAD_SOURCE,)
+).code
 FAD_OPTION_2 = register(
-    "fad", "option-2", 2, slots=("LR_MAX", "SIGMA_Y", "E_MOD", "K_PEAK", "N_PEAK"),
+    "fad",
+    "option-2",
+    2,
+    slots=("LR_MAX", "SIGMA_Y", "E_MOD", "K_PEAK", "N_PEAK"),
     validity="0 ≤ L_r ≤ L_r,max; needs the material's monotonic curve",
-    citation=(_FAD_SOURCE, "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
-              "K_r = (J_e/J)^½ from the material's own curve")).code
-J_METHODS = {"elastic": ELASTIC, "reference-stress": REFERENCE_STRESS,
-             "small-crack": SMALL_CRACK, "notch": NOTCH}
+    citation=(
+        _FAD_SOURCE,
+        "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
+        "K_r = (J_e/J)^½ from the material's own curve",
+    ),
+).code
+J_METHODS = {
+    "elastic": ELASTIC,
+    "reference-stress": REFERENCE_STRESS,
+    "small-crack": SMALL_CRACK,
+    "notch": NOTCH,
+}
 
 
 # --------------------------------------------------------------------------- compiled scalars
@@ -228,9 +266,14 @@ def reference_stress_delta_j(delta_j_el, delta_sigma_ref, material, u=1.0):
     .. [1] Ainsworth, Eng. Fract. Mech. 19 (1984) 633, applied to the cyclic (doubled) curve.
     """
     c = _curve(material)
-    return _ref_stress_dj(_nonneg("ΔJ_el", delta_j_el), _nonneg("Δσ_ref", delta_sigma_ref),
-                          material.elastic_modulus, c.strength_coefficient,
-                          c.hardening_exponent, _closure_u(u))
+    return _ref_stress_dj(
+        _nonneg("ΔJ_el", delta_j_el),
+        _nonneg("Δσ_ref", delta_sigma_ref),
+        material.elastic_modulus,
+        c.strength_coefficient,
+        c.hardening_exponent,
+        _closure_u(u),
+    )
 
 
 def small_crack_delta_j(a, delta_sigma, material, u=1.0):
@@ -253,8 +296,14 @@ def small_crack_delta_j(a, delta_sigma, material, u=1.0):
     """
     a = _nonneg("a", a)
     c = _curve(material)
-    return _small_crack_dj(a, _nonneg("Δσ", delta_sigma), material.elastic_modulus,
-                           c.strength_coefficient, c.hardening_exponent, _closure_u(u))
+    return _small_crack_dj(
+        a,
+        _nonneg("Δσ", delta_sigma),
+        material.elastic_modulus,
+        c.strength_coefficient,
+        c.hardening_exponent,
+        _closure_u(u),
+    )
 
 
 def lr_monotonic(geometry, a, s_max, sigma_y):
@@ -276,8 +325,9 @@ def delta_j(geometry, material, a, delta_s, u=1.0, method="reference-stress"):
     u = _closure_u(u)
     if method == "small-crack":
         return small_crack_delta_j(a, ds, material, u)
-    dj_el = delta_j_elastic(ds * geometry.k_over_s(a),
-                            material.effective_modulus(geometry.plane_strain))
+    dj_el = delta_j_elastic(
+        ds * geometry.k_over_s(a), material.effective_modulus(geometry.plane_strain)
+    )
     if method == "elastic":
         return u * u * dj_el
     if method == "reference-stress":
@@ -293,11 +343,18 @@ def j_max(geometry, material, a, s_max):
     if curve is None:
         raise ValidityRangeError("J_max needs a monotonic or cyclic stress–strain curve")
     s = _nonneg("S_max", s_max)
-    j_el = delta_j_elastic(s * geometry.k_over_s(a),
-                           material.effective_modulus(geometry.plane_strain))
+    j_el = delta_j_elastic(
+        s * geometry.k_over_s(a), material.effective_modulus(geometry.plane_strain)
+    )
     lr = lr_monotonic(geometry, a, s, material.yield_strength)
-    return _j_peak(j_el, lr, material.yield_strength, material.elastic_modulus,
-                   curve.strength_coefficient, curve.hardening_exponent)
+    return _j_peak(
+        j_el,
+        lr,
+        material.yield_strength,
+        material.elastic_modulus,
+        curve.strength_coefficient,
+        curve.hardening_exponent,
+    )
 
 
 def fad_option1(lr, lr_max=np.inf):
@@ -310,15 +367,22 @@ def fad_option2(lr, material):
     curve = material.peak_curve
     if curve is None:
         raise ValidityRangeError("Option 2 needs a stress–strain curve")
-    return _fad2(_nonneg("L_r", lr), material.lr_max, material.yield_strength,
-                 material.elastic_modulus, curve.strength_coefficient,
-                 curve.hardening_exponent)
+    return _fad2(
+        _nonneg("L_r", lr),
+        material.lr_max,
+        material.yield_strength,
+        material.elastic_modulus,
+        curve.strength_coefficient,
+        curve.hardening_exponent,
+    )
 
 
 # Shih (1981) D_n = d_n/(αε_0)^(1/n) at αε_0 = 0.002, computed from the HRR field (REFERENCE 15)
 _SHIH_N = np.array([3.0, 5.0, 10.0, 13.0])
-_SHIH_DN = {True: np.array([1.326, 1.085, 0.931, 0.898]),
-            False: np.array([2.036, 1.641, 1.369, 1.306])}
+_SHIH_DN = {
+    True: np.array([1.326, 1.085, 0.931, 0.898]),
+    False: np.array([2.036, 1.641, 1.369, 1.306]),
+}
 
 
 def shih_dn(n, alpha_eps0=0.002, plane_strain=True):

@@ -3,12 +3,53 @@
 This module is the only place the layout is defined; :func:`cycj.life.model_array` fills it.
 """
 
-(E_MOD, E_PRIME, SIGMA_Y, K_CYC, N_CYC, K_PEAK, N_PEAK, FLOW_RATIO, LR_MAX, J_C, C_LAW, M_LAW,
- DJ_TH, Q_TOUGH, J_METHOD, CLOSURE, U_CONST, ALPHA_NEWMAN, INCLUDE_COMP, FAD_CURVE,
- CHECK_TOUGH, CHECK_FAD, CHECK_COLLAPSE, A_LIMIT, A_TEAR, SEQ_MODEL, SEQ_EXPONENT,
- SEQ_SHUT_OFF, ZONE_BETA, TWO_D, LEAK_SIZE, ASPECT_MAX, C_LIMIT, CH_MODE, CH_N, CH_A_LO,
- CH_A_HI, CH_THICKNESS, NOTCH_KT, NOTCH_DEPTH, NOTCH_OWN_LONG, CH_C_LO, CH_C_HI, CH_SURFACE,
- CH_WIDTH) = range(45)
+(
+    E_MOD,
+    E_PRIME,
+    SIGMA_Y,
+    K_CYC,
+    N_CYC,
+    K_PEAK,
+    N_PEAK,
+    FLOW_RATIO,
+    LR_MAX,
+    J_C,
+    C_LAW,
+    M_LAW,
+    DJ_TH,
+    Q_TOUGH,
+    J_METHOD,
+    CLOSURE,
+    U_CONST,
+    ALPHA_NEWMAN,
+    INCLUDE_COMP,
+    FAD_CURVE,
+    CHECK_TOUGH,
+    CHECK_FAD,
+    CHECK_COLLAPSE,
+    A_LIMIT,
+    A_TEAR,
+    SEQ_MODEL,
+    SEQ_EXPONENT,
+    SEQ_SHUT_OFF,
+    ZONE_BETA,
+    TWO_D,
+    LEAK_SIZE,
+    ASPECT_MAX,
+    C_LIMIT,
+    CH_MODE,
+    CH_N,
+    CH_A_LO,
+    CH_A_HI,
+    CH_THICKNESS,
+    NOTCH_KT,
+    NOTCH_DEPTH,
+    NOTCH_OWN_LONG,
+    CH_C_LO,
+    CH_C_HI,
+    CH_SURFACE,
+    CH_WIDTH,
+) = range(45)
 #: membrane and bending stress per unit value of each load channel (up to MAX_CHANNELS)
 MAX_CHANNELS = 6
 CH_PM = 45
@@ -20,4 +61,3 @@ N_MP = CH_SECONDARY + MAX_CHANNELS
 # crack-state slots (float64 array carried between compiled calls)
 (ST_A, ST_C, ST_CYCLES, ST_BLOCKS, ST_A_OL, ST_Z_OL, ST_K_OL) = range(7)
 N_STATE = 8
-

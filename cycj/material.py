@@ -69,7 +69,8 @@ class StressStrainCurve:
         """Total strain at stress ``sigma`` [MPa] (amplitude for the cyclic curve)."""
         s = np.asarray(sigma, float)
         return s / e_mod + np.abs(s / self.strength_coefficient) ** (
-            1 / self.hardening_exponent) * np.sign(s)
+            1 / self.hardening_exponent
+        ) * np.sign(s)
 
     def masing_strain_range(self, dsigma, e_mod: float):
         """Total strain range of the Masing branch for stress range ``dsigma`` [MPa]."""
@@ -77,7 +78,8 @@ class StressStrainCurve:
         if np.any(d < 0):
             raise ValidityRangeError("stress range must be ≥ 0")
         return d / e_mod + 2 * (d / (2 * self.strength_coefficient)) ** (
-            1 / self.hardening_exponent)
+            1 / self.hardening_exponent
+        )
 
     def masing_plastic_work(self, dsigma):
         """Plastic work of the loading branch ΔσΔε_p/(1+n') [MJ/m³ = MPa] (Morrow 1965)."""

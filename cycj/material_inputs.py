@@ -36,8 +36,9 @@ def read_material(t: Table, geometry: Geometry) -> tuple[Material, str]:
     sy = t.quantity("yield_strength", "stress", required=True, positive=True)
     su = t.quantity("tensile_strength", "stress", positive=True)
     if su is not None and su < sy:
-        raise t.error("tensile_strength", "below the yield strength",
-                      expected=f"≥ {sy:g} MPa", found=su)
+        raise t.error(
+            "tensile_strength", "below the yield strength", expected=f"≥ {sy:g} MPa", found=su
+        )
     cyc = _curve(t.table("cyclic_curve"))
     mono = _curve(t.table("monotonic_curve"))
     jc, rcurve, note = None, None, "none"
@@ -86,15 +87,35 @@ def read_growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
     kind = _driving_kind(driving_unit, t, "driving_unit")
     if kind == "stress_intensity":  # a ΔK law entered directly: convert exactly
         c_k = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
-        thr = 0.0 if thr_raw is None else to_internal(thr_raw, kind, key=t.key("threshold"),
-                                                      source=t.source)
-        return _finite_law(from_delta_k(
-            c_k, m, e_prime, thr, basis=basis, law=law, toughness_exponent=q,
-            converted_from={"C": c, "m": m, "rate_unit": rate_unit,
-                            "driving_unit": driving_unit}), t)
+        thr = (
+            0.0
+            if thr_raw is None
+            else to_internal(thr_raw, kind, key=t.key("threshold"), source=t.source)
+        )
+        return _finite_law(
+            from_delta_k(
+                c_k,
+                m,
+                e_prime,
+                thr,
+                basis=basis,
+                law=law,
+                toughness_exponent=q,
+                converted_from={
+                    "C": c,
+                    "m": m,
+                    "rate_unit": rate_unit,
+                    "driving_unit": driving_unit,
+                },
+            ),
+            t,
+        )
     c_int = c * rate_factor(rate_unit, driving_unit, kind, m, key=t.path, source=t.source)
-    thr = 0.0 if thr_raw is None else to_internal(thr_raw, "energy_per_area",
-                                                  key=t.key("threshold"), source=t.source)
+    thr = (
+        0.0
+        if thr_raw is None
+        else to_internal(thr_raw, "energy_per_area", key=t.key("threshold"), source=t.source)
+    )
     if thr < 0:
         raise t.error("threshold", "out of range", expected="≥ 0", found=thr_raw)
     return _finite_law(GrowthLaw(c_int, m, thr, basis, law, q), t)
@@ -103,9 +124,12 @@ def read_growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
 def _finite_law(law: GrowthLaw, t: Table) -> GrowthLaw:
     """The law in internal units must have a finite C > 0 (units or m can push it out)."""
     if not (math.isfinite(law.C) and law.C > 0 and math.isfinite(law.threshold)):
-        raise t.error("C", "the coefficient in internal units (mm/cycle, kJ/m²) is not a "
-                      "finite number > 0", expected="C, m and units that give a finite law",
-                      found=law.C)
+        raise t.error(
+            "C",
+            "the coefficient in internal units (mm/cycle, kJ/m²) is not a finite number > 0",
+            expected="C, m and units that give a finite law",
+            found=law.C,
+        )
     return law
 
 
@@ -116,8 +140,9 @@ def _driving_kind(unit: str, t: Table, key: str) -> str:
             return kind
         except CycjInputError:
             continue
-    raise t.error(key, "not a unit of ΔJ or ΔK", expected="e.g. 'kJ/m^2' or 'MPa*m**0.5'",
-                  found=unit)
+    raise t.error(
+        key, "not a unit of ΔJ or ΔK", expected="e.g. 'kJ/m^2' or 'MPa*m**0.5'", found=unit
+    )
 
 
 def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
@@ -127,8 +152,14 @@ def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
     driving_unit = t.string("driving_unit", default="MPa*mm**0.5")
     thr = t.quantity("threshold", "stress_intensity", nonnegative=True, default=0.0)
     t.finish()
-    c_k = c * rate_factor(rate_unit, driving_unit, "stress_intensity", m, key=t.path,
-                          source=t.source)
-    return from_delta_k(c_k, m, e_prime, thr, converted_from={
-        "C": c, "m": m, "rate_unit": rate_unit, "driving_unit": driving_unit}, **kw)
-
+    c_k = c * rate_factor(
+        rate_unit, driving_unit, "stress_intensity", m, key=t.path, source=t.source
+    )
+    return from_delta_k(
+        c_k,
+        m,
+        e_prime,
+        thr,
+        converted_from={"C": c, "m": m, "rate_unit": rate_unit, "driving_unit": driving_unit},
+        **kw,
+    )

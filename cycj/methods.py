@@ -12,48 +12,74 @@ from cycj.models import register
 
 _METHODS = {
     # job 1: life
-    "rainflow": ("ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
-                 "Fatigue Analysis: rainflow counting",),
-    "compressive-part-excluded": ("ASTM E647: the compressive part of a cycle (P < 0) is "
-                                  "excluded from the driving-force range",),
-    "delta-k-conversion": ("Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528–534: "
-                           "da/dN = C·ΔK^m, converted with ΔJ = ΔK²/E'",),
-    "block-integration": ("Block integration of the repeated history with the crack frozen "
-                          "within a block, dN/da = n/G(a) (common practice; checked against "
-                          "the cycle stepper)",),
-    "weight-functions": ("Glinka, G., Shen, G., Eng. Fract. Mech. 40 (1991) 1135–1146: "
-                         "universal weight functions, K of an arbitrary stress profile",),
-    "plate-reference-stress": ("BS 7910:2013+A1:2015, Annex P: reference stress of a surface "
-                               "flaw in a plate under membrane and bending stress "
-                               "(from memory)",),
-    "residual-stress": ("R6 Rev. 4, Section II.2 and BS 7910:2013+A1:2015 §7.3: secondary "
-                        "(residual) stresses in K_r with the plasticity interaction ρ",),
-    "surface-to-through": ("BS 7910:2013+A1:2015 §8: a surface flaw that breaks through is "
-                           "re-characterised as a through-thickness flaw of the same length "
-                           "(from memory)",),
-    "through-crack-plate": ("Tada, H., Paris, P. C., Irwin, G. R., The Stress Analysis of "
-                            "Cracks Handbook (1973): centre-cracked plate",),
+    "rainflow": (
+        "ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
+        "Fatigue Analysis: rainflow counting",
+    ),
+    "compressive-part-excluded": (
+        "ASTM E647: the compressive part of a cycle (P < 0) is "
+        "excluded from the driving-force range",
+    ),
+    "delta-k-conversion": (
+        "Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528–534: "
+        "da/dN = C·ΔK^m, converted with ΔJ = ΔK²/E'",
+    ),
+    "block-integration": (
+        "Block integration of the repeated history with the crack frozen "
+        "within a block, dN/da = n/G(a) (common practice; checked against "
+        "the cycle stepper)",
+    ),
+    "weight-functions": (
+        "Glinka, G., Shen, G., Eng. Fract. Mech. 40 (1991) 1135–1146: "
+        "universal weight functions, K of an arbitrary stress profile",
+    ),
+    "plate-reference-stress": (
+        "BS 7910:2013+A1:2015, Annex P: reference stress of a surface "
+        "flaw in a plate under membrane and bending stress "
+        "(from memory)",
+    ),
+    "residual-stress": (
+        "R6 Rev. 4, Section II.2 and BS 7910:2013+A1:2015 §7.3: secondary "
+        "(residual) stresses in K_r with the plasticity interaction ρ",
+    ),
+    "surface-to-through": (
+        "BS 7910:2013+A1:2015 §8: a surface flaw that breaks through is "
+        "re-characterised as a through-thickness flaw of the same length "
+        "(from memory)",
+    ),
+    "through-crack-plate": (
+        "Tada, H., Paris, P. C., Irwin, G. R., The Stress Analysis of "
+        "Cracks Handbook (1973): centre-cracked plate",
+    ),
     # job 2: calibration
-    "e647-reduction": ("ASTM E647, Standard Test Method for Measurement of Fatigue Crack Growth "
-                       "Rates: secant and incremental polynomial da/dN, reading spacing, "
-                       "operational threshold",),
-    "compliance-crack-length": ("ASTM E647: crack length from unloading compliance, opening "
-                                "load by compliance offset",
-                                "Saxena, A., Hudak, S. J., Int. J. Fract. 14 (1978) 453: C(T) "
-                                "load-line compliance",
-                                "Tada, Paris & Irwin, The Stress Analysis of Cracks Handbook "
-                                "(2000): compliance from K"),
-    "loop-area-delta-j": ("Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: ΔJ from "
-                          "the loop area above the crack-opening point",
-                          "ASTM E1820, Standard Test Method for Measurement of Fracture "
-                          "Toughness: η factors, B_e, ligament size b > 10·J/σ_Y"),
-    "reference-stress-specimen": ("Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
-                                  "reference stress J (shapes without an η factor)",),
+    "e647-reduction": (
+        "ASTM E647, Standard Test Method for Measurement of Fatigue Crack Growth "
+        "Rates: secant and incremental polynomial da/dN, reading spacing, "
+        "operational threshold",
+    ),
+    "compliance-crack-length": (
+        "ASTM E647: crack length from unloading compliance, opening load by compliance offset",
+        "Saxena, A., Hudak, S. J., Int. J. Fract. 14 (1978) 453: C(T) load-line compliance",
+        "Tada, Paris & Irwin, The Stress Analysis of Cracks Handbook (2000): compliance from K",
+    ),
+    "loop-area-delta-j": (
+        "Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: ΔJ from "
+        "the loop area above the crack-opening point",
+        "ASTM E1820, Standard Test Method for Measurement of Fracture "
+        "Toughness: η factors, B_e, ligament size b > 10·J/σ_Y",
+    ),
+    "reference-stress-specimen": (
+        "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
+        "reference stress J (shapes without an η factor)",
+    ),
     # job 3: planning
-    "life-scaling": ("Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528–534: life scales "
-                     "as 1/C",),
-    "monte-carlo": ("Rubinstein, R. Y., Kroese, D. P., Simulation and the Monte Carlo Method, "
-                    "3rd ed. (2016): common random numbers, importance weights",),
+    "life-scaling": (
+        "Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528–534: life scales as 1/C",
+    ),
+    "monte-carlo": (
+        "Rubinstein, R. Y., Kroese, D. P., Simulation and the Monte Carlo Method, "
+        "3rd ed. (2016): common random numbers, importance weights",
+    ),
 }
 
 for _code, (_name, _citation) in enumerate(_METHODS.items()):

@@ -60,8 +60,9 @@ class ModelRecord:
 _RECORDS: dict[str, dict[str, ModelRecord]] = {kind: {} for kind in KINDS}
 
 
-def register(kind: str, name: str, code: int, *, slots=(), validity: str = "",
-             citation=()) -> ModelRecord:
+def register(
+    kind: str, name: str, code: int, *, slots=(), validity: str = "", citation=()
+) -> ModelRecord:
     """Declare a model; returns its record.  Raises ValueError on an unknown kind or a name or
     code already taken by another model of the kind."""
     if kind not in KINDS:
@@ -109,8 +110,7 @@ def record(kind: str, name: str) -> ModelRecord:
         known = names(kind)
         near = difflib.get_close_matches(str(name), known, n=1)
         hint = f" (did you mean {near[0]!r}?)" if near else ""
-        raise ValueError(f"unknown {kind} model {name!r}{hint}; expected one of "
-                         f"{', '.join(known)}")
+        raise ValueError(f"unknown {kind} model {name!r}{hint}; expected one of {', '.join(known)}")
     return table[name]
 
 

@@ -60,13 +60,17 @@ class OutputDir:
         if self.target.exists() and not self.target.is_dir():
             raise CycjInputError("output path exists and is not a folder", source=str(target))
         if self.target.is_dir() and any(self.target.iterdir()) and not force:
-            raise CycjInputError("output folder is not empty (use --force to replace it)",
-                                 source=str(target))
+            raise CycjInputError(
+                "output folder is not empty (use --force to replace it)", source=str(target)
+            )
         tgt = self.target.resolve()
         for p in inputs:
             if p is not None and tgt in Path(p).resolve().parents:
-                raise CycjInputError("output folder contains an input file; choose another",
-                                     source=str(target), found=str(p))
+                raise CycjInputError(
+                    "output folder contains an input file; choose another",
+                    source=str(target),
+                    found=str(p),
+                )
         self.tmp: Path | None = None
 
     def __enter__(self):
@@ -134,9 +138,13 @@ def provenance(inputs: dict | None = None, **extra) -> dict:
 
     from cycj._version import __version__
 
-    out = {"cycj_version": __version__, "python": sys.version.split()[0],
-           "numpy": np.__version__, "platform": platform.platform(),
-           "created_utc": datetime.now(UTC).strftime("%Y-%m-%dT%H:%M:%SZ")}
+    out = {
+        "cycj_version": __version__,
+        "python": sys.version.split()[0],
+        "numpy": np.__version__,
+        "platform": platform.platform(),
+        "created_utc": datetime.now(UTC).strftime("%Y-%m-%dT%H:%M:%SZ"),
+    }
     for name, p in (inputs or {}).items():
         if p is not None and Path(p).is_file():
             out[f"{name}_sha256"] = sha256_of(p)

@@ -10,9 +10,11 @@ import base64
 import html
 from pathlib import Path
 
-CAUTION = ("Caution: these results are estimates for engineering judgement. They depend on the "
-           "quality of the inputs and do not replace the applicable design code, "
-           "fitness-for-service standard, or a qualified engineer's review.")
+CAUTION = (
+    "Caution: these results are estimates for engineering judgement. They depend on the "
+    "quality of the inputs and do not replace the applicable design code, "
+    "fitness-for-service standard, or a qualified engineer's review."
+)
 
 _CSS = """
 body{font-family:system-ui,-apple-system,Segoe UI,Roboto,sans-serif;margin:0 auto;max-width:60em;
@@ -39,13 +41,23 @@ def _table(frame, max_rows: int = 60) -> str:
     df = frame if isinstance(frame, pd.DataFrame) else pd.DataFrame(frame)
     if len(df) > max_rows:
         df = pd.concat([df.head(max_rows // 2), df.tail(max_rows // 2)])
-    return df.to_html(index=False, border=0, float_format=lambda x: f"{x:.6g}",
-                      escape=True)
+    return df.to_html(index=False, border=0, float_format=lambda x: f"{x:.6g}", escape=True)
 
 
-def render_report(*, title: str, question: str, answer: str, inputs=(), figures=(),
-                  tables=(), warnings=(), references=(), extra_html: str = "") -> str:
+def render_report(
+    *,
+    title: str,
+    question: str,
+    answer: str,
+    inputs=(),
+    figures=(),
+    tables=(),
+    warnings=(),
+    references=(),
+    extra_html: str = "",
+) -> str:
     """The report as one HTML string (images embedded as base64 PNG)."""
+
     def e(text):
         return html.escape(text, quote=False)
 
@@ -69,8 +81,10 @@ def render_report(*, title: str, question: str, answer: str, inputs=(), figures=
     if figures:
         parts.append("<h2>Plots</h2>")
     for caption, src in figures:
-        parts.append(f"<figure><img src='{_img(src)}' alt='{html.escape(caption)}'>"
-                     f"<figcaption>{e(caption)}</figcaption></figure>")
+        parts.append(
+            f"<figure><img src='{_img(src)}' alt='{html.escape(caption)}'>"
+            f"<figcaption>{e(caption)}</figcaption></figure>"
+        )
     for caption, frame in tables:
         parts.append(f"<h2>{e(caption)}</h2>{_table(frame)}")
     parts.append(extra_html)

@@ -24,19 +24,32 @@ from cycj._jit import jit
 from cycj.errors import ValidityRangeError
 from cycj.models import register
 
-NONE = register("retardation", "none", 0, validity="constant-amplitude growth, no sequence "
-               "effect").code
+NONE = register(
+    "retardation", "none", 0, validity="constant-amplitude growth, no sequence effect"
+).code
 WHEELER = register(
-    "retardation", "wheeler", 1, slots=("SEQ_EXPONENT", "ZONE_BETA", "SIGMA_Y", "E_PRIME"),
+    "retardation",
+    "wheeler",
+    1,
+    slots=("SEQ_EXPONENT", "ZONE_BETA", "SIGMA_Y", "E_PRIME"),
     validity="tensile overloads; the shaping exponent is fitted to the material",
-    citation=("Wheeler, O. E., J. Basic Eng. 94 (1972) 181–186: retardation factor C_p",
-              "Irwin, G. R. (1960): plastic zone size r_p = (K/σ_y)²/(βπ)")).code
+    citation=(
+        "Wheeler, O. E., J. Basic Eng. 94 (1972) 181–186: retardation factor C_p",
+        "Irwin, G. R. (1960): plastic zone size r_p = (K/σ_y)²/(βπ)",
+    ),
+).code
 WILLENBORG = register(
-    "retardation", "willenborg", 2, slots=("SEQ_SHUT_OFF", "ZONE_BETA", "SIGMA_Y", "E_PRIME"),
+    "retardation",
+    "willenborg",
+    2,
+    slots=("SEQ_SHUT_OFF", "ZONE_BETA", "SIGMA_Y", "E_PRIME"),
     validity="tensile overloads; growth stops above the shut-off overload ratio",
-    citation=("Willenborg, J., Engle, R. M., Wood, H. A., AFFDL-TM-71-1-FBR (1971): effective "
-              "stress retardation (from memory)",
-              "Irwin, G. R. (1960): plastic zone size r_p = (K/σ_y)²/(βπ)")).code
+    citation=(
+        "Willenborg, J., Engle, R. M., Wood, H. A., AFFDL-TM-71-1-FBR (1971): effective "
+        "stress retardation (from memory)",
+        "Irwin, G. R. (1960): plastic zone size r_p = (K/σ_y)²/(βπ)",
+    ),
+).code
 SEQUENCE_CODES = {"none": NONE, "wheeler": WHEELER, "willenborg": WILLENBORG}
 
 
@@ -71,8 +84,10 @@ def wheeler(r_i, a_i, a_ol, r_ol, shaping_exponent):
     arrs = [np.asarray(x, float) for x in (r_i, a_i, a_ol, r_ol)]
     if any(np.any(x < 0) for x in arrs) or shaping_exponent < 0:
         raise ValidityRangeError("Wheeler: sizes and the shaping exponent must be ≥ 0")
-    f = np.vectorize(wheeler_factor.py_func if hasattr(wheeler_factor, "py_func")
-                     else wheeler_factor, otypes=[float])
+    f = np.vectorize(
+        wheeler_factor.py_func if hasattr(wheeler_factor, "py_func") else wheeler_factor,
+        otypes=[float],
+    )
     return f(*arrs, float(shaping_exponent))
 
 

@@ -33,8 +33,13 @@ class Table:
 
     def __init__(self, raw, path: str, source: str | None):
         if not isinstance(raw, dict):
-            raise CycjInputError("must be a table", source=source, key=path or None,
-                                 expected="a TOML table { ... }", found=raw)
+            raise CycjInputError(
+                "must be a table",
+                source=source,
+                key=path or None,
+                expected="a TOML table { ... }",
+                found=raw,
+            )
         self.raw, self.path, self.source = raw, path, source
         self.known: set[str] = set()
 
@@ -42,8 +47,9 @@ class Table:
         return f"{self.path}.{name}" if self.path else name
 
     def error(self, name: str, message: str, expected=None, found=None) -> CycjInputError:
-        return CycjInputError(message, source=self.source, key=self.key(name),
-                              expected=expected, found=found)
+        return CycjInputError(
+            message, source=self.source, key=self.key(name), expected=expected, found=found
+        )
 
     def has(self, name: str) -> bool:
         self.known.add(name)
@@ -57,8 +63,18 @@ class Table:
             return default
         return self.raw[name]
 
-    def quantity(self, name, kind, *, required=False, default=None, positive=False,
-                 nonnegative=False, lo=None, hi=None):
+    def quantity(
+        self,
+        name,
+        kind,
+        *,
+        required=False,
+        default=None,
+        positive=False,
+        nonnegative=False,
+        lo=None,
+        hi=None,
+    ):
         """A quantity in internal units (unit strings allowed; bare numbers are internal)."""
         raw = self.get(name, required=required)
         if raw is None:
@@ -67,8 +83,18 @@ class Table:
         self._range(name, val, raw, positive, nonnegative, lo, hi)
         return val
 
-    def number(self, name, *, required=False, default=None, positive=False,
-               nonnegative=False, lo=None, hi=None, integer=False):
+    def number(
+        self,
+        name,
+        *,
+        required=False,
+        default=None,
+        positive=False,
+        nonnegative=False,
+        lo=None,
+        hi=None,
+        integer=False,
+    ):
         raw = self.get(name, required=required)
         if raw is None:
             return default
@@ -76,8 +102,7 @@ class Table:
             raise self.error(name, "not a number", expected="a number", found=raw)
         val = float(raw)
         if not math.isfinite(val):
-            raise self.error(name, "not a finite number", expected="a finite number",
-                             found=raw)
+            raise self.error(name, "not a finite number", expected="a finite number", found=raw)
         if integer and val != int(val):
             raise self.error(name, "not a whole number", expected="an integer", found=raw)
         self._range(name, val, raw, positive, nonnegative, lo, hi)
@@ -98,9 +123,12 @@ class Table:
         if not isinstance(raw, str) or raw not in options:
             near = difflib.get_close_matches(str(raw), list(options), n=1)
             hint = f" (did you mean '{near[0]}'?)" if near else ""
-            raise self.error(name, f"unknown value{hint}",
-                             expected="one of " + ", ".join(repr(o) for o in options),
-                             found=raw)
+            raise self.error(
+                name,
+                f"unknown value{hint}",
+                expected="one of " + ", ".join(repr(o) for o in options),
+                found=raw,
+            )
         return raw
 
     def string(self, name, *, default=None, required=False):
@@ -122,5 +150,6 @@ class Table:
             if k not in known:
                 near = difflib.get_close_matches(k, sorted(known), n=1)
                 hint = f" (did you mean '{near[0]}'?)" if near else ""
-                raise self.error(k, f"unknown key{hint}",
-                                 expected="one of " + ", ".join(sorted(known)))
+                raise self.error(
+                    k, f"unknown key{hint}", expected="one of " + ", ".join(sorted(known))
+                )

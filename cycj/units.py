@@ -18,8 +18,10 @@ INTERNAL = {
     "length": ("millimeter", "a length (e.g. '25 mm')"),
     "stress": ("megapascal", "a stress (e.g. '350 MPa')"),
     "energy_per_area": ("kilojoule / meter ** 2", "energy per area (e.g. '150 kJ/m^2')"),
-    "stress_intensity": ("megapascal * millimeter ** 0.5",
-                         "a stress intensity (e.g. '60 MPa*m**0.5')"),
+    "stress_intensity": (
+        "megapascal * millimeter ** 0.5",
+        "a stress intensity (e.g. '60 MPa*m**0.5')",
+    ),
     "time": ("hour", "a time (e.g. '8 h')"),
     "dimensionless": ("dimensionless", "a plain number"),
 }
@@ -39,8 +41,14 @@ def registry():
 
 
 def _clean(text: str) -> str:
-    return (text.replace("√", "sqrt").replace("²", "**2").replace("³", "**3")
-            .replace("^", "**").replace("·", "*").strip())
+    return (
+        text.replace("√", "sqrt")
+        .replace("²", "**2")
+        .replace("³", "**3")
+        .replace("^", "**")
+        .replace("·", "*")
+        .strip()
+    )
 
 
 def to_internal(value, kind: str, *, key: str = "", source: str | None = None) -> float:
@@ -48,39 +56,54 @@ def to_internal(value, kind: str, *, key: str = "", source: str | None = None) -
     ``kind`` (a key of :data:`INTERNAL`).  Raises :class:`CycjInputError` naming ``key``."""
     human = INTERNAL[kind][1]
     if isinstance(value, bool):
-        raise CycjInputError("not a quantity", source=source, key=key, expected=human,
-                             found=value)
+        raise CycjInputError("not a quantity", source=source, key=key, expected=human, found=value)
     if isinstance(value, (int, float)):
         out = float(value)
     elif isinstance(value, str):
         out = _parse(value, kind, key, source)
     else:
-        raise CycjInputError("not a quantity", source=source, key=key, expected=human,
-                             found=value)
+        raise CycjInputError("not a quantity", source=source, key=key, expected=human, found=value)
     if not math.isfinite(out):
-        raise CycjInputError("not a finite number", source=source, key=key, expected=human,
-                             found=value)
+        raise CycjInputError(
+            "not a finite number", source=source, key=key, expected=human, found=value
+        )
     return out
 
 
 #: common units → (kind, factor to the internal unit); anything else goes through pint.
 #: tests/physics/test_units.py checks every entry against pint.
 FAST_UNITS = {
-    "N": ("force", 1.0), "kN": ("force", 1e3), "MN": ("force", 1e6),
-    "mm": ("length", 1.0), "m": ("length", 1e3), "cm": ("length", 10.0),
-    "in": ("length", 25.4), "um": ("length", 1e-3),
-    "MPa": ("stress", 1.0), "GPa": ("stress", 1e3), "kPa": ("stress", 1e-3),
-    "Pa": ("stress", 1e-6), "bar": ("stress", 0.1), "ksi": ("stress", 6.894757293168361),
-    "kJ/m^2": ("energy_per_area", 1.0), "kJ/m**2": ("energy_per_area", 1.0),
-    "J/m^2": ("energy_per_area", 1e-3), "J/m**2": ("energy_per_area", 1e-3),
+    "N": ("force", 1.0),
+    "kN": ("force", 1e3),
+    "MN": ("force", 1e6),
+    "mm": ("length", 1.0),
+    "m": ("length", 1e3),
+    "cm": ("length", 10.0),
+    "in": ("length", 25.4),
+    "um": ("length", 1e-3),
+    "MPa": ("stress", 1.0),
+    "GPa": ("stress", 1e3),
+    "kPa": ("stress", 1e-3),
+    "Pa": ("stress", 1e-6),
+    "bar": ("stress", 0.1),
+    "ksi": ("stress", 6.894757293168361),
+    "kJ/m^2": ("energy_per_area", 1.0),
+    "kJ/m**2": ("energy_per_area", 1.0),
+    "J/m^2": ("energy_per_area", 1e-3),
+    "J/m**2": ("energy_per_area", 1e-3),
     "N/mm": ("energy_per_area", 1.0),
-    "MPa*m**0.5": ("stress_intensity", MPA_SQRT_M), "MPa*m^0.5": ("stress_intensity",
-                                                                 MPA_SQRT_M),
-    "MPa*sqrt(m)": ("stress_intensity", MPA_SQRT_M), "MPa√m": ("stress_intensity",
-                                                              MPA_SQRT_M),
-    "MPa*mm**0.5": ("stress_intensity", 1.0), "MPa*mm^0.5": ("stress_intensity", 1.0),
-    "h": ("time", 1.0), "s": ("time", 1 / 3600), "min": ("time", 1 / 60),
-    "d": ("time", 24.0), "day": ("time", 24.0), "days": ("time", 24.0),
+    "MPa*m**0.5": ("stress_intensity", MPA_SQRT_M),
+    "MPa*m^0.5": ("stress_intensity", MPA_SQRT_M),
+    "MPa*sqrt(m)": ("stress_intensity", MPA_SQRT_M),
+    "MPa√m": ("stress_intensity", MPA_SQRT_M),
+    "MPa*mm**0.5": ("stress_intensity", 1.0),
+    "MPa*mm^0.5": ("stress_intensity", 1.0),
+    "h": ("time", 1.0),
+    "s": ("time", 1 / 3600),
+    "min": ("time", 1 / 60),
+    "d": ("time", 24.0),
+    "day": ("time", 24.0),
+    "days": ("time", 24.0),
 }
 
 
@@ -106,21 +129,42 @@ def _parse(text: str, kind: str, key: str, source: str | None) -> float:
     ureg = registry()
     try:
         q = ureg.Quantity(_clean(text))
-    except (pint.errors.PintError, ValueError, SyntaxError, TypeError, AttributeError,
-            KeyError, ZeroDivisionError, OverflowError) as exc:
-        raise CycjInputError(f"cannot read the quantity ({type(exc).__name__})", source=source,
-                             key=key, expected=human, found=text) from None
+    except (
+        pint.errors.PintError,
+        ValueError,
+        SyntaxError,
+        TypeError,
+        AttributeError,
+        KeyError,
+        ZeroDivisionError,
+        OverflowError,
+    ) as exc:
+        raise CycjInputError(
+            f"cannot read the quantity ({type(exc).__name__})",
+            source=source,
+            key=key,
+            expected=human,
+            found=text,
+        ) from None
     if not isinstance(q, ureg.Quantity):  # a bare number written as a string
         return float(q)
     try:
         return float(q.to(unit).magnitude)
     except pint.errors.DimensionalityError:
-        raise CycjInputError("wrong dimension", source=source, key=key, expected=human,
-                             found=text) from None
+        raise CycjInputError(
+            "wrong dimension", source=source, key=key, expected=human, found=text
+        ) from None
 
 
-def rate_factor(rate_unit: str, driving_unit: str, driving_kind: str, m: float,
-                *, key: str = "growth", source: str | None = None) -> float:
+def rate_factor(
+    rate_unit: str,
+    driving_unit: str,
+    driving_kind: str,
+    m: float,
+    *,
+    key: str = "growth",
+    source: str | None = None,
+) -> float:
     """Factor that turns C of a law da/dN = C·X^m printed in ``rate_unit`` per cycle and X in
     ``driving_unit`` into internal units (mm/cycle, X in kJ/m² or MPa√mm).
 
@@ -128,6 +172,5 @@ def rate_factor(rate_unit: str, driving_unit: str, driving_kind: str, m: float,
     so C_int = C·f_r/f_x^m.
     """
     f_r = to_internal(f"1 {rate_unit}", "length", key=f"{key}.rate_unit", source=source)
-    f_x = to_internal(f"1 {driving_unit}", driving_kind, key=f"{key}.driving_unit",
-                      source=source)
+    f_x = to_internal(f"1 {driving_unit}", driving_kind, key=f"{key}.driving_unit", source=source)
     return f_r / f_x**m

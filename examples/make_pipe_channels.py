@@ -31,9 +31,11 @@ if __name__ == "__main__":
     p, t = make()
     out = Path(__file__).with_name("pipe_startstop_channels.csv")
     with out.open("w") as fh:
-        fh.write("# Invented demonstration data (not a measurement): thick steam pipe, 12 "
-                 "start/stop cycles\n# pressure_MPa: membrane hoop stress; thermal_bore_MPa: "
-                 "bore value of a linear through-wall thermal stress\n")
+        fh.write(
+            "# Invented demonstration data (not a measurement): thick steam pipe, 12 "
+            "start/stop cycles\n# pressure_MPa: membrane hoop stress; thermal_bore_MPa: "
+            "bore value of a linear through-wall thermal stress\n"
+        )
         fh.write("pressure_MPa,thermal_bore_MPa\n")
         for a, b in zip(p, t, strict=True):
             fh.write(f"{a:.3f},{b:.3f}\n")

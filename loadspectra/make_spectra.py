@@ -47,10 +47,16 @@ def crane_duty(seed=101):
         idle = hook + rng.normal(0.0, 0.08, n_idle)
         parts += [rise, hold, lower, idle]
     load = np.clip(np.concatenate(parts), 0.0, None)
-    return load, 0.5, "kN", (
-        "Overhead crane hoist: rope anchor force over one shift of 60 lifts",
-        "Hook block 2 kN; payloads 6-55 kN (mostly light); lift-off overshoot and a decaying",
-        "rope oscillation while travelling; valleys near the hook weight (never below 0)")
+    return (
+        load,
+        0.5,
+        "kN",
+        (
+            "Overhead crane hoist: rope anchor force over one shift of 60 lifts",
+            "Hook block 2 kN; payloads 6-55 kN (mostly light); lift-off overshoot and a decaying",
+            "rope oscillation while travelling; valleys near the hook weight (never below 0)",
+        ),
+    )
 
 
 def pressure_vessel(seed=202):
@@ -61,18 +67,25 @@ def pressure_vessel(seed=202):
         full = 150.0 * float(rng.uniform(0.9, 1.0))
         ramp = np.linspace(0.0, full, 40)
         n_op = int(rng.integers(500, 800))
-        swings, _, _ = gaussian_from_irregularity(n_op, 0.9, rms=4.0, mean=0.0,
-                                                  seed=int(rng.integers(1 << 31)))
+        swings, _, _ = gaussian_from_irregularity(
+            n_op, 0.9, rms=4.0, mean=0.0, seed=int(rng.integers(1 << 31))
+        )
         op = full - 10.0 + swings
         trips = rng.choice(n_op, size=2, replace=False)
         op[trips] -= rng.uniform(25.0, 45.0, size=2)  # upsets: sudden pressure dips
         down = np.linspace(op[-1], 0.0, 40)
         parts += [ramp, op, down, np.zeros(20)]
     load = np.clip(np.concatenate(parts), 0.0, None)
-    return load, 60.0, "MPa", (
-        "Pressure vessel shell: nominal membrane stress over 16 start/stop cycles",
-        "0 to about 150 MPa at each start-up; operating pressure swings (rms 4 MPa)",
-        "and two upsets (dips of 25-45 MPa) per run; unit MPa of nominal membrane stress")
+    return (
+        load,
+        60.0,
+        "MPa",
+        (
+            "Pressure vessel shell: nominal membrane stress over 16 start/stop cycles",
+            "0 to about 150 MPa at each start-up; operating pressure swings (rms 4 MPa)",
+            "and two upsets (dips of 25-45 MPa) per run; unit MPa of nominal membrane stress",
+        ),
+    )
 
 
 def wind_member(seed=303):
@@ -81,10 +94,16 @@ def wind_member(seed=303):
     gust = 120.0 / (1.0 + (f / 0.05) ** 2) ** (5.0 / 6.0)  # low-frequency gust part
     resonance = 40.0 * np.exp(-0.5 * ((f - 1.2) / 0.05) ** 2)  # first bending mode 1.2 Hz
     load = gaussian_from_psd(f, gust + resonance, 16384, 0.1, mean=35.0, seed=seed)
-    return load, 0.1, "MPa", (
-        "Wind-excited lattice tower diagonal: axial stress over about 27 minutes",
-        "Mean 35 MPa from dead load and mean wind; gust spectrum plus a narrow resonant",
-        "peak at the member's first bending mode (1.2 Hz); Gaussian, spectral synthesis")
+    return (
+        load,
+        0.1,
+        "MPa",
+        (
+            "Wind-excited lattice tower diagonal: axial stress over about 27 minutes",
+            "Mean 35 MPa from dead load and mean wind; gust spectrum plus a narrow resonant",
+            "peak at the member's first bending mode (1.2 Hz); Gaussian, spectral synthesis",
+        ),
+    )
 
 
 def press_frame(seed=404):
@@ -97,10 +116,16 @@ def press_frame(seed=404):
     load = insert_excursions(base, 2001, 1200.0, offset=600)
     load = load + rng.normal(0.0, 2.0, load.shape[0])
     load = np.clip(load, 0.0, None)
-    return load, 1.0, "kN", (
-        "Mechanical press frame: throat force over two rounds of three tool programmes",
-        "Tools at 850, 520 and 300 kN nominal tonnage in a random order; a double-blank",
-        "overload of 1200 kN about every 1000 strokes; 2 kN measurement noise")
+    return (
+        load,
+        1.0,
+        "kN",
+        (
+            "Mechanical press frame: throat force over two rounds of three tool programmes",
+            "Tools at 850, 520 and 300 kN nominal tonnage in a random order; a double-blank",
+            "overload of 1200 kN about every 1000 strokes; 2 kN measurement noise",
+        ),
+    )
 
 
 def suspension_arm(seed=505):
@@ -112,10 +137,16 @@ def suspension_arm(seed=505):
     load = np.repeat(events, 2) + rough
     # two rebound hits (underloads) on kerbs
     load = insert_excursions(load, 7000, -9.0, offset=2500)
-    return load, 0.01, "kN", (
-        "Road vehicle lower suspension arm: ball-joint vertical force over a test track lap",
-        "Static wheel share 4 kN; load cycles from an invented exceedance table in 8",
-        "randomised sub-blocks, rough-road noise (irregularity 0.6) and two rebound hits")
+    return (
+        load,
+        0.01,
+        "kN",
+        (
+            "Road vehicle lower suspension arm: ball-joint vertical force over a test track lap",
+            "Static wheel share 4 kN; load cycles from an invented exceedance table in 8",
+            "randomised sub-blocks, rough-road noise (irregularity 0.6) and two rebound hits",
+        ),
+    )
 
 
 SPECTRA = {
@@ -148,22 +179,41 @@ def main():
         assert load.shape[0] <= 20_000, name
         path = write(name, load, dt, unit, lines)
         df = count_cycles(np.round(load, 3))
-        rows.append((name, lines[0], unit, load.shape[0], df["count"].sum(),
-                     load.min(), load.max(), path.stat().st_size))
-    table = ["| file | scenario | unit | samples | cycles (rainflow) | min | max |",
-             "|---|---|---|---|---|---|---|"]
+        rows.append(
+            (
+                name,
+                lines[0],
+                unit,
+                load.shape[0],
+                df["count"].sum(),
+                load.min(),
+                load.max(),
+                path.stat().st_size,
+            )
+        )
+    table = [
+        "| file | scenario | unit | samples | cycles (rainflow) | min | max |",
+        "|---|---|---|---|---|---|---|",
+    ]
     for name, scen, unit, n, cyc, lo, hi, _ in rows:
         table.append(f"| `{name}` | {scen} | {unit} | {n} | {cyc:g} | {lo:.1f} | {hi:.1f} |")
     readme = HERE / "README.md"
     text = readme.read_text() if readme.exists() else ""
     start, end = "<!-- table -->", "<!-- /table -->"
     if start in text and end in text:
-        text = text[: text.index(start) + len(start)] + "\n" + "\n".join(table) + "\n" + \
-            text[text.index(end):]
+        text = (
+            text[: text.index(start) + len(start)]
+            + "\n"
+            + "\n".join(table)
+            + "\n"
+            + text[text.index(end) :]
+        )
         readme.write_text(text)
     for r in rows:
-        print(f"{r[0]}: {r[3]} samples, {r[4]:g} cycles, {r[5]:.1f}..{r[6]:.1f} {r[2]}, "
-              f"{r[7] / 1024:.0f} KiB")
+        print(
+            f"{r[0]}: {r[3]} samples, {r[4]:g} cycles, {r[5]:.1f}..{r[6]:.1f} {r[2]}, "
+            f"{r[7] / 1024:.0f} KiB"
+        )
 
 
 if __name__ == "__main__":

@@ -5,7 +5,9 @@ import copy
 BASE = {
     "title": "test case",
     "material": {
-        "elastic_modulus": "200 GPa", "poisson_ratio": 0.3, "yield_strength": "350 MPa",
+        "elastic_modulus": "200 GPa",
+        "poisson_ratio": 0.3,
+        "yield_strength": "350 MPa",
         "tensile_strength": "500 MPa",
         "cyclic_curve": {"strength_coefficient": "900 MPa", "hardening_exponent": 0.15},
         "toughness": {"J_c": "200 kJ/m^2"},

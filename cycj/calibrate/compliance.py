@@ -27,7 +27,7 @@ from cycj.errors import ValidityRangeError
 
 #: E647 C(T) coefficients C0..C5 of a/W = Σ C_i u^i, by measuring point (X/W from the load line)
 E647_CT_COEFFICIENTS = {
-    "front-face": (1.0010, -4.6695, 18.460, -236.82, 1214.9, -2143.6),   # V_0, X/W = −0.25
+    "front-face": (1.0010, -4.6695, 18.460, -236.82, 1214.9, -2143.6),  # V_0, X/W = −0.25
     "load-line": (1.000196, -4.06319, 11.242, -106.043, 464.335, -650.677),  # V_LL (E1820)
 }
 #: a/W range of the E647 C(T) compliance expressions
@@ -63,8 +63,10 @@ def e647_ct_crack_ratio(normalised_compliance, location="load-line"):
     .. [1] ASTM E647, Annex A1 (coefficients from memory, REFERENCE item 5).
     """
     if location not in E647_CT_COEFFICIENTS:
-        raise ValueError(f"unknown measuring point {location!r}; expected one of "
-                         + ", ".join(E647_CT_COEFFICIENTS))
+        raise ValueError(
+            f"unknown measuring point {location!r}; expected one of "
+            + ", ".join(E647_CT_COEFFICIENTS)
+        )
     x = np.asarray(normalised_compliance, float)
     with np.errstate(invalid="ignore"):
         u = 1.0 / (np.sqrt(np.where(x > 0, x, np.nan)) + 1.0)
@@ -103,8 +105,8 @@ def e647_ct_normalised_compliance(alpha, location="load-line"):
     if location not in E647_CT_COEFFICIENTS:
         raise ValueError(f"unknown measuring point {location!r}")
     c = E647_CT_COEFFICIENTS[location]
-    lo = np.full(np.shape(a), 0.005)   # u small ⇒ a/W near 1
-    hi = np.full(np.shape(a), 0.5)     # u large ⇒ a/W small
+    lo = np.full(np.shape(a), 0.005)  # u small ⇒ a/W near 1
+    hi = np.full(np.shape(a), 0.5)  # u large ⇒ a/W small
     for _ in range(60):  # a/W decreases with u on this interval
         mid = 0.5 * (lo + hi)
         f = ((((c[5] * mid + c[4]) * mid + c[3]) * mid + c[2]) * mid + c[1]) * mid + c[0]
@@ -150,7 +152,7 @@ def castigliano_compliance_table(geometry, e_prime, n_points=400, tips=1):
     lo, hi = geometry.size_limits
     lo = max(lo, 1e-3 * hi)
     a = np.linspace(lo, hi, n_points)
-    k_per_p = geometry.k_over_s(a) * geometry.nominal_stress_per_force()   # [mm^-1.5]
+    k_per_p = geometry.k_over_s(a) * geometry.nominal_stress_per_force()  # [mm^-1.5]
     bn = geometry.dims["net_thickness"]
     slope = 2.0 * tips * bn * k_per_p**2 / e_prime
     dc = np.concatenate([[0.0], np.cumsum(0.5 * (slope[1:] + slope[:-1]) * np.diff(a))])

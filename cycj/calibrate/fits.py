@@ -66,17 +66,28 @@ def power_law_fit(delta_j, dadn, confidence=0.95):
     pivot = math.exp(xm)
     rate_pivot = math.exp(b0 + m * xm)
     ss_tot = float(np.sum((y - y.mean()) ** 2))
-    return {"C": math.exp(b0), "m": m, "lnC": b0,
-            "cov_lnC_m": [[var_b0, cov], [cov, var_m]],
-            "C_interval": [math.exp(b0 - t * math.sqrt(var_b0)),
-                           math.exp(b0 + t * math.sqrt(var_b0))],
-            "m_interval": [m - t * math.sqrt(var_m), m + t * math.sqrt(var_m)],
-            "sigma_ln": math.sqrt(s2), "n": int(x.size), "dof": dof, "t": t,
-            "pivot_dJ_kJm2": pivot, "rate_at_pivot": rate_pivot,
-            "rate_at_pivot_interval": [rate_pivot * math.exp(-t * se_pivot),
-                                       rate_pivot * math.exp(t * se_pivot)],
-            "r2": 1 - float(np.sum(res**2)) / ss_tot if ss_tot > 0 else 1.0,
-            "x_mean": xm, "sxx": sxx, "confidence": confidence}
+    return {
+        "C": math.exp(b0),
+        "m": m,
+        "lnC": b0,
+        "cov_lnC_m": [[var_b0, cov], [cov, var_m]],
+        "C_interval": [math.exp(b0 - t * math.sqrt(var_b0)), math.exp(b0 + t * math.sqrt(var_b0))],
+        "m_interval": [m - t * math.sqrt(var_m), m + t * math.sqrt(var_m)],
+        "sigma_ln": math.sqrt(s2),
+        "n": int(x.size),
+        "dof": dof,
+        "t": t,
+        "pivot_dJ_kJm2": pivot,
+        "rate_at_pivot": rate_pivot,
+        "rate_at_pivot_interval": [
+            rate_pivot * math.exp(-t * se_pivot),
+            rate_pivot * math.exp(t * se_pivot),
+        ],
+        "r2": 1 - float(np.sum(res**2)) / ss_tot if ss_tot > 0 else 1.0,
+        "x_mean": xm,
+        "sxx": sxx,
+        "confidence": confidence,
+    }
 
 
 def prediction_band(fit, delta_j):
@@ -84,8 +95,11 @@ def prediction_band(fit, delta_j):
     at the fit's confidence level (ordinary least squares prediction interval in ln)."""
     x = np.log(np.asarray(delta_j, float))
     mid = fit["lnC"] + fit["m"] * x
-    half = fit["t"] * fit["sigma_ln"] * np.sqrt(1 + 1 / fit["n"] + (x - fit["x_mean"]) ** 2
-                                                / fit["sxx"])
+    half = (
+        fit["t"]
+        * fit["sigma_ln"]
+        * np.sqrt(1 + 1 / fit["n"] + (x - fit["x_mean"]) ** 2 / fit["sxx"])
+    )
     return np.exp(mid - half), np.exp(mid + half)
 
 
@@ -122,8 +136,12 @@ def e647_threshold(delta_j, dadn, rate=1e-7, upper=1e-6, min_points=5):
     if sel.sum() < min_points:
         return None
     b1, b0 = np.polyfit(np.log(r[sel]), np.log(dj[sel]), 1)
-    return {"threshold_kJm2": float(math.exp(b0 + b1 * math.log(rate))),
-            "rate_mm_per_cycle": rate, "points": int(sel.sum()), "slope_dlnJ_dlnrate": float(b1)}
+    return {
+        "threshold_kJm2": float(math.exp(b0 + b1 * math.log(rate))),
+        "rate_mm_per_cycle": rate,
+        "points": int(sel.sum()),
+        "slope_dlnJ_dlnrate": float(b1),
+    }
 
 
 def k_gradient(a, delta_j):
@@ -171,7 +189,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
         tail = ag > s["a_tab"][-1]
         if tail.any() and len(s["a_tab"]) > 1 and min(s["dj_tab"][-2:]) > 0:
             k = np.log(s["dj_tab"][-1] / s["dj_tab"][-2]) / max(
-                s["a_tab"][-1] - s["a_tab"][-2], 1e-9)
+                s["a_tab"][-1] - s["a_tab"][-2], 1e-9
+            )
             dj[tail] = s["dj_tab"][-1] * np.exp(k * (ag[tail] - s["a_tab"][-1]))
         grids.append((ag, np.maximum(dj, 1e-12)))
 
@@ -208,13 +227,21 @@ def direct_fit(series, C0, m0, confidence=0.95):
     sd = np.sqrt(np.abs(np.diag(cov)[:2]))
     cyc = [np.linspace(s["cycle"][0], s["cycle"][-1], 200) for s in series]
     curves = [{"cycle": c, "a_mm": a} for c, a in zip(cyc, predict(sol.x, cyc), strict=True)]
-    return {"C": math.exp(lnc), "m": m, "lnC": lnc,
-            "cov_lnC_m": cov[:2, :2].tolist(),
-            "C_interval": [math.exp(lnc - t * sd[0]), math.exp(lnc + t * sd[0])],
-            "m_interval": [m - t * sd[1], m + t * sd[1]],
-            "sigma_a_mm": math.sqrt(s2), "n": int(n), "a0_mm": sol.x[2:].tolist(),
-            "curves": curves, "success": bool(sol.success), "message": str(sol.message),
-            "confidence": confidence}
+    return {
+        "C": math.exp(lnc),
+        "m": m,
+        "lnC": lnc,
+        "cov_lnC_m": cov[:2, :2].tolist(),
+        "C_interval": [math.exp(lnc - t * sd[0]), math.exp(lnc + t * sd[0])],
+        "m_interval": [m - t * sd[1], m + t * sd[1]],
+        "sigma_a_mm": math.sqrt(s2),
+        "n": int(n),
+        "a0_mm": sol.x[2:].tolist(),
+        "curves": curves,
+        "success": bool(sol.success),
+        "message": str(sol.message),
+        "confidence": confidence,
+    }
 
 
 def r_ratio_collapse(residuals, r_values, step=0.05):
@@ -232,8 +259,14 @@ def r_ratio_collapse(residuals, r_values, step=0.05):
     groups = []
     for r in np.unique(key):
         sel = key == r
-        groups.append({"R": float(r), "n": int(sel.sum()), "mean_ln_residual":
-                       float(res[sel].mean()), "rate_factor": float(np.exp(res[sel].mean()))})
+        groups.append(
+            {
+                "R": float(r),
+                "n": int(sel.sum()),
+                "mean_ln_residual": float(res[sel].mean()),
+                "rate_factor": float(np.exp(res[sel].mean())),
+            }
+        )
     if len(groups) < 2:
         return {"groups": groups, "collapses": None, "note": "one R ratio only"}
     samples = [res[key == g["R"]] for g in groups if g["n"] >= 2]
@@ -241,7 +274,11 @@ def r_ratio_collapse(residuals, r_values, step=0.05):
         return {"groups": groups, "collapses": None, "note": "too few points per R ratio"}
     f, p = stats.f_oneway(*samples)
     close = all(abs(g["mean_ln_residual"]) < math.log(1.25) for g in groups)
-    return {"groups": groups, "F": float(f), "p_value": float(p),
-            "collapses": bool(p > 0.01 or close),
-            "note": "ANOVA of ln-residuals by R; collapse if p > 0.01 or all groups within "
-                    "a factor 1.25"}
+    return {
+        "groups": groups,
+        "F": float(f),
+        "p_value": float(p),
+        "collapses": bool(p > 0.01 or close),
+        "note": "ANOVA of ln-residuals by R; collapse if p > 0.01 or all groups within "
+        "a factor 1.25",
+    }

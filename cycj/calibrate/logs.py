@@ -72,21 +72,32 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     elif set(CRACK_COLUMNS) <= cols:
         kind, want = "crack", CRACK_COLUMNS
     else:
-        raise CycjInputError("unknown log layout", source=src,
-                             expected="columns " + ", ".join(RAW_COLUMNS) + " or "
-                             + ", ".join(CRACK_COLUMNS), found=", ".join(df.columns))
+        raise CycjInputError(
+            "unknown log layout",
+            source=src,
+            expected="columns " + ", ".join(RAW_COLUMNS) + " or " + ", ".join(CRACK_COLUMNS),
+            found=", ".join(df.columns),
+        )
     data = {}
     for c in want:
         vals = pd.to_numeric(df[c], errors="coerce").to_numpy(float)
         bad = np.flatnonzero(~np.isfinite(vals))
         if bad.size and (c == "cycle" or kind == "crack"):
-            raise CycjInputError(f"column '{c}' holds a value that is not a finite number",
-                                 source=src, line=int(bad[0]) + 2, found=str(df[c].iloc[bad[0]]))
+            raise CycjInputError(
+                f"column '{c}' holds a value that is not a finite number",
+                source=src,
+                line=int(bad[0]) + 2,
+                found=str(df[c].iloc[bad[0]]),
+            )
         big = np.flatnonzero(np.abs(vals) > MAX_LOAD)
         if big.size:
-            raise CycjInputError(f"column '{c}' holds an implausible value", source=src,
-                                 line=int(big[0]) + 2, expected=f"magnitude below {MAX_LOAD:g}",
-                                 found=str(df[c].iloc[big[0]]))
+            raise CycjInputError(
+                f"column '{c}' holds an implausible value",
+                source=src,
+                line=int(big[0]) + 2,
+                expected=f"magnitude below {MAX_LOAD:g}",
+                found=str(df[c].iloc[big[0]]),
+            )
         data[c] = vals
     _check_cycles(data["cycle"], src)
     name = path.name
@@ -99,12 +110,21 @@ def _check_cycles(cyc, src):
     """Cycle counts are ≥ 0 and, once they change, span at least one cycle."""
     neg = np.flatnonzero(cyc < 0)
     if neg.size:
-        raise CycjInputError("negative cycle count", source=src, line=int(neg[0]) + 2,
-                             expected="a count ≥ 0", found=float(cyc[neg[0]]))
+        raise CycjInputError(
+            "negative cycle count",
+            source=src,
+            line=int(neg[0]) + 2,
+            expected="a count ≥ 0",
+            found=float(cyc[neg[0]]),
+        )
     if cyc.size and 0 < cyc.max() - cyc.min() < 1.0:
-        raise CycjInputError("the cycle counts of the whole log span less than one cycle",
-                             source=src, key="cycle", expected="counts in cycles",
-                             found=float(cyc.max() - cyc.min()))
+        raise CycjInputError(
+            "the cycle counts of the whole log span less than one cycle",
+            source=src,
+            key="cycle",
+            expected="counts in cycles",
+            found=float(cyc.max() - cyc.min()),
+        )
 
 
 def _increasing(name, cycles):
@@ -115,8 +135,9 @@ def _increasing(name, cycles):
     for i, c in enumerate(cycles):
         if c <= last:
             keep[i] = False
-            skipped.append({"log": name, "cycle": float(c),
-                            "reason": "cycle count does not increase"})
+            skipped.append(
+                {"log": name, "cycle": float(c), "reason": "cycle count does not increase"}
+            )
         else:
             last = c
     return keep, skipped
@@ -125,9 +146,14 @@ def _increasing(name, cycles):
 def _crack_log(name, data, crack_factor, load_factor):
     n = data["cycle"]
     keep, skipped = _increasing(name, n)
-    return CrackLog(name, n[keep], data["crack_length"][keep] * crack_factor,
-                    data["load_max"][keep] * load_factor, data["load_min"][keep] * load_factor,
-                    skipped)
+    return CrackLog(
+        name,
+        n[keep],
+        data["crack_length"][keep] * crack_factor,
+        data["load_max"][keep] * load_factor,
+        data["load_min"][keep] * load_factor,
+        skipped,
+    )
 
 
 def _raw_log(name, data, load_factor, displacement_factor):
@@ -139,6 +165,12 @@ def _raw_log(name, data, load_factor, displacement_factor):
     ends = np.concatenate([change, [cyc.size]])
     run_cycles = cyc[starts]
     keep, skipped = _increasing(name, run_cycles)
-    return RawLog(name, run_cycles[keep], starts[keep], ends[keep],
-                  data["load"] * load_factor, data["displacement"] * displacement_factor,
-                  skipped)
+    return RawLog(
+        name,
+        run_cycles[keep],
+        starts[keep],
+        ends[keep],
+        data["load"] * load_factor,
+        data["displacement"] * displacement_factor,
+        skipped,
+    )

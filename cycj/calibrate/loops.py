@@ -115,8 +115,8 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
     if dp <= 0.0:
         out[STATUS] = 2
         return
-    pu, vu = _cyclic_slice(p_in, v_in, imax, imin)    # unloading branch
-    pl, vl = _cyclic_slice(p_in, v_in, imin, imax)    # loading branch
+    pu, vu = _cyclic_slice(p_in, v_in, imax, imin)  # unloading branch
+    pl, vl = _cyclic_slice(p_in, v_in, imin, imax)  # loading branch
     c_ref = _slope(pu, vu, pmax - fit_hi * dp, pmax - fit_lo * dp)
     if not math.isfinite(c_ref):
         out[STATUS] = 3
@@ -142,8 +142,11 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
             offs[k] = (c_ref - c_seg) / c_ref
     p_op = pmin
     for k in range(n_seg):
-        if offs[k] >= criterion and (k + 1 >= n_seg or not offs[k + 1] < criterion) and (
-                _mean_finite(offs, k) >= criterion):
+        if (
+            offs[k] >= criterion
+            and (k + 1 >= n_seg or not offs[k + 1] < criterion)
+            and (_mean_finite(offs, k) >= criterion)
+        ):
             if k == 0 or not math.isfinite(offs[k - 1]):
                 p_op = mids[k]
             else:
@@ -197,7 +200,7 @@ def loop_area_kernel(load, disp, starts, ends, p_open):
     out = np.full(m, math.nan)
     for i in range(m):
         if ends[i] - starts[i] >= 3 and math.isfinite(p_open[i]):
-            pl, vl = _loading_branch(load[starts[i]:ends[i]], disp[starts[i]:ends[i]])
+            pl, vl = _loading_branch(load[starts[i] : ends[i]], disp[starts[i] : ends[i]])
             out[i] = _area_above(pl, vl, p_open[i])
     return out
 
@@ -225,8 +228,9 @@ def _area_above(pl, vl, p_op):
 
 
 @jit
-def reduce_loops_kernel(load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg_step,
-                        criterion, min_points):
+def reduce_loops_kernel(
+    load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg_step, criterion, min_points
+):
     """Reduce every loop ``load[starts[i]:ends[i]]`` (compiled).
 
     Returns an array (n_loops, 7) with columns P_max, P_min [N], compliance dV/dP [mm/N] of the
@@ -238,13 +242,31 @@ def reduce_loops_kernel(load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg
     m = starts.size
     out = np.full((m, 7), math.nan)
     for i in range(m):
-        _one_loop(load[starts[i]:ends[i]], disp[starts[i]:ends[i]], fit_lo, fit_hi,
-                  seg_width, seg_step, criterion, min_points, out[i])
+        _one_loop(
+            load[starts[i] : ends[i]],
+            disp[starts[i] : ends[i]],
+            fit_lo,
+            fit_hi,
+            seg_width,
+            seg_step,
+            criterion,
+            min_points,
+            out[i],
+        )
     return out
 
 
-def reduce_loops(load, disp, starts, ends, *, fit_window=(0.02, 0.5), segment=(0.10, 0.05),
-                 offset_criterion=0.02, min_points=20):
+def reduce_loops(
+    load,
+    disp,
+    starts,
+    ends,
+    *,
+    fit_window=(0.02, 0.5),
+    segment=(0.10, 0.05),
+    offset_criterion=0.02,
+    min_points=20,
+):
     """Reduce recorded loops to P_max, P_min, compliance, opening load and area.
 
     Parameters
@@ -270,11 +292,18 @@ def reduce_loops(load, disp, starts, ends, *, fit_window=(0.02, 0.5), segment=(0
         raise ValidityRangeError("segment width in (0, 0.5] and step in (0, width]")
     if not 0 < offset_criterion < 0.5:
         raise ValidityRangeError("offset criterion must lie in (0, 0.5)")
-    res = reduce_loops_kernel(np.ascontiguousarray(load, float),
-                              np.ascontiguousarray(disp, float),
-                              np.asarray(starts, np.int64), np.asarray(ends, np.int64),
-                              float(fit_window[0]), float(fit_window[1]), float(segment[0]),
-                              float(segment[1]), float(offset_criterion), int(min_points))
+    res = reduce_loops_kernel(
+        np.ascontiguousarray(load, float),
+        np.ascontiguousarray(disp, float),
+        np.asarray(starts, np.int64),
+        np.asarray(ends, np.int64),
+        float(fit_window[0]),
+        float(fit_window[1]),
+        float(segment[0]),
+        float(segment[1]),
+        float(offset_criterion),
+        int(min_points),
+    )
     names = ("p_max", "p_min", "compliance", "p_open", "area_above", "n_samples", "status")
     out = {k: res[:, i] for i, k in enumerate(names)}
     out["status"] = out["status"].astype(int)
@@ -348,12 +377,15 @@ def e1820_j(k, e_mod, poisson, plastic_area, net_thickness, ligament, eta):
     """
     if not e_mod > 0:
         raise ValidityRangeError("E must be > 0")
-    return (np.asarray(k, float) ** 2 * (1 - poisson**2) / e_mod
-            + dowling_begley_delta_j(plastic_area, net_thickness, ligament, eta))
+    return np.asarray(k, float) ** 2 * (1 - poisson**2) / e_mod + dowling_begley_delta_j(
+        plastic_area, net_thickness, ligament, eta
+    )
 
 
 def plastic_area_above_opening(area_above, delta_p_eff, compliance):
     """Plastic part of the loading-branch area above the opening load [N·mm]:
     ΔA_pl = ΔA − ½·C·ΔP_eff² (the elastic triangle of the open-crack compliance C [mm/N])."""
-    return np.asarray(area_above, float) - 0.5 * np.asarray(compliance, float) * np.asarray(
-        delta_p_eff, float) ** 2
+    return (
+        np.asarray(area_above, float)
+        - 0.5 * np.asarray(compliance, float) * np.asarray(delta_p_eff, float) ** 2
+    )

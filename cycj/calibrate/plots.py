@@ -32,13 +32,23 @@ def rate_plot(result):
     lo, hi = s["dJ_range_kJm2"]
     lo = max(lo, 1e-6)
     x = np.geomspace(lo, hi, 100)
-    ax.loglog(x, s["C"] * x ** s["m"], "k-",
-              label=f"{s['recommended_fit']}: C={s['C']:.3g}, m={s['m']:.3g}")
+    ax.loglog(
+        x,
+        s["C"] * x ** s["m"],
+        "k-",
+        label=f"{s['recommended_fit']}: C={s['C']:.3g}, m={s['m']:.3g}",
+    )
     reg = result.fits.get(meth)
     if reg is not None:
         blo, bhi = prediction_band(reg, x)
-        ax.fill_between(x, blo, bhi, color="0.8", alpha=0.6,
-                        label=f"{100 * reg['confidence']:g} % prediction band")
+        ax.fill_between(
+            x,
+            blo,
+            bhi,
+            color="0.8",
+            alpha=0.6,
+            label=f"{100 * reg['confidence']:g} % prediction band",
+        )
     if s.get("threshold_kJm2"):
         ax.axvline(s["threshold_kJm2"], color="r", ls="--", lw=1, label="E647 threshold")
     ax.set_xlabel("ΔJ_eff [kJ/m²]")
@@ -53,8 +63,13 @@ def crack_plot(result):
     fig, ax = _figure()
     for c in result.curves:
         line = ax.plot(c["cycle"], c["a_mm"], ".", ms=3, label=f"{c['log']} measured")[0]
-        ax.plot(c["fit_cycle"], c["fit_a_mm"], "-", color=line.get_color(),
-                label=f"{c['log']} direct fit")
+        ax.plot(
+            c["fit_cycle"],
+            c["fit_a_mm"],
+            "-",
+            color=line.get_color(),
+            label=f"{c['log']} direct fit",
+        )
     ax.set_xlabel("cycles N")
     ax.set_ylabel("crack length a [mm]")
     ax.grid(True, alpha=0.3)
@@ -70,10 +85,19 @@ def loop_plot(typical):
     pmax = typical["p_max"]
     imax = int(np.argmax(p))
     pp = np.linspace(p.min(), pmax, 20)
-    ax.plot(v[imax] - typical["compliance"] * (pmax - pp), pp, "k--", lw=1,
-            label="compliance line (upper unloading)")
-    ax.axhline(typical["p_open"], color="r", lw=1,
-               label=f"opening load {typical['p_open']:.0f} N (this loop)")
+    ax.plot(
+        v[imax] - typical["compliance"] * (pmax - pp),
+        pp,
+        "k--",
+        lw=1,
+        label="compliance line (upper unloading)",
+    )
+    ax.axhline(
+        typical["p_open"],
+        color="r",
+        lw=1,
+        label=f"opening load {typical['p_open']:.0f} N (this loop)",
+    )
     ax.set_xlabel("displacement [mm]")
     ax.set_ylabel("load [N]")
     ax.grid(True, alpha=0.3)

@@ -66,9 +66,10 @@ def incremental_polynomial_rate(cycles, crack_length, half_width=3):
     c1 = 0.5 * (nw[:, 0] + nw[:, -1])
     c2 = 0.5 * (nw[:, -1] - nw[:, 0])
     x = (nw - c1[:, None]) / c2[:, None]
-    design = np.stack([np.ones_like(x), x, x * x], axis=-1)          # (m, 2k+1, 3)
-    coef = np.linalg.solve(np.einsum("mij,mik->mjk", design, design),
-                           np.einsum("mij,mi->mj", design, aw)[..., None])[..., 0]
+    design = np.stack([np.ones_like(x), x, x * x], axis=-1)  # (m, 2k+1, 3)
+    coef = np.linalg.solve(
+        np.einsum("mij,mik->mjk", design, design), np.einsum("mij,mi->mj", design, aw)[..., None]
+    )[..., 0]
     xi = (n[idx] - c1) / c2
     a_hat = coef[:, 0] + coef[:, 1] * xi + coef[:, 2] * xi**2
     rate = coef[:, 1] / c2 + 2 * coef[:, 2] * (n[idx] - c1) / c2**2

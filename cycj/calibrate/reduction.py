@@ -40,21 +40,23 @@ def crack_from_compliance(specimen, comp, ok, cycles=None):
         alpha = np.where((alpha >= lo) & (alpha <= min(hi, 0.95)), alpha, np.nan)
         return alpha * specimen.width, (
             f"ASTM E647 C(T) compliance expression, {specimen.compliance_point} row, "
-            "E·B_e·V/P with B_e = B − (B − B_N)²/B")
+            "E·B_e·V/P with B_e = B − (B − B_N)²/B"
+        )
     from cycj.calibrate.simulate import _tips
 
-    a_grid, dc = cm.castigliano_compliance_table(geo, specimen.e_prime,
-                                                 tips=_tips(specimen.shape))
+    a_grid, dc = cm.castigliano_compliance_table(geo, specimen.e_prime, tips=_tips(specimen.shape))
     first = np.flatnonzero(ok)[:5]
-    if first.size >= 3 and cycles is not None:   # trend of the first loops, at the first one
+    if first.size >= 3 and cycles is not None:  # trend of the first loops, at the first one
         c_first = np.polyval(np.polyfit(cycles[first], comp[first], 1), cycles[first[0]])
     else:
         c_first = comp[first[0]]
     c0 = c_first - np.interp(specimen.initial_crack, a_grid, dc)
     a = cm.crack_from_table(comp - c0, a_grid, dc)
-    return a, ("load-point compliance from K by Castigliano's theorem (Tada, Paris & Irwin), "
-               "uncracked-body part anchored at the initial crack length (trend of the first five "
-               "loops)")
+    return a, (
+        "load-point compliance from K by Castigliano's theorem (Tada, Paris & Irwin), "
+        "uncracked-body part anchored at the initial crack length (trend of the first five "
+        "loops)"
+    )
 
 
 def _outliers(a, ok, cycles):
@@ -94,8 +96,10 @@ def _correct(specimen, a, ok):
         return a + (specimen.initial_crack - a_first), "offset to the initial optical reading"
     a_last = np.median(a[idx[-3:]])
     scale = (specimen.final_crack - specimen.initial_crack) / (a_last - a_first)
-    return (specimen.initial_crack + (a - a_first) * scale,
-            "linear in extension to the first and last optical readings")
+    return (
+        specimen.initial_crack + (a - a_first) * scale,
+        "linear in extension to the first and last optical readings",
+    )
 
 
 def _finite_delta_j(specimen, dj_el, dsig, mat, u):
@@ -107,10 +111,12 @@ def _finite_delta_j(specimen, dj_el, dsig, mat, u):
     with np.errstate(over="ignore", invalid="ignore"):
         total = reference_stress_delta_j(dj_el, dsig, mat, u)
     if not np.all(np.isfinite(total)):
-        raise CycjInputError("ΔJ overflows with this cyclic curve at the logged loads",
-                             source=specimen.source, key="cyclic_curve",
-                             expected="K', n' of the material (σ'_y = K'·0.002^n' near the "
-                                      "cyclic yield strength)")
+        raise CycjInputError(
+            "ΔJ overflows with this cyclic curve at the logged loads",
+            source=specimen.source,
+            key="cyclic_curve",
+            expected="K', n' of the material (σ'_y = K'·0.002^n' near the cyclic yield strength)",
+        )
     return total
 
 
@@ -127,28 +133,49 @@ def _delta_j(specimen, a, p_max, p_min_eff, p_op, comp_pt, area_above):
     if specimen.shape in ETA_SHAPES:
         if specimen.shape == "compact-tension":
             alpha = a / specimen.width
-            ratio = (cm.e647_ct_normalised_compliance(alpha, "load-line")
-                     / cm.e647_ct_normalised_compliance(alpha, specimen.compliance_point))
+            ratio = cm.e647_ct_normalised_compliance(
+                alpha, "load-line"
+            ) / cm.e647_ct_normalised_compliance(alpha, specimen.compliance_point)
         else:
             ratio = np.ones_like(a)
         a_pl = lp.plastic_area_above_opening(ratio * area_above, dpe, ratio * comp_pt)
         eta = lp.eta_plastic(specimen.shape, a, specimen.width, "load-line")
         dj_pl = lp.dowling_begley_delta_j(a_pl, geo.dims["net_thickness"], b, eta)
-        how = ("loop area above the opening load, η of ASTM E1820 (load line"
-               + (", front-face readings scaled by the E647 compliance ratio)"
-                  if specimen.compliance_point == "front-face" else ")"))
+        how = "loop area above the opening load, η of ASTM E1820 (load line" + (
+            ", front-face readings scaled by the E647 compliance ratio)"
+            if specimen.compliance_point == "front-face"
+            else ")"
+        )
         return dk, dk_eff, dj_el, dj_pl, how
     if mat.cyclic_curve is None:
-        return dk, dk_eff, dj_el, np.zeros_like(a), (
-            "none: no published η for this shape and no cyclic curve for the reference "
-            "stress method (elastic ΔJ only)")
+        return (
+            dk,
+            dk_eff,
+            dj_el,
+            np.zeros_like(a),
+            (
+                "none: no published η for this shape and no cyclic curve for the reference "
+                "stress method (elastic ΔJ only)"
+            ),
+        )
     u = np.clip(dpe / dp, 0, 1)
-    dsig = dp * geo.nominal_stress_per_force() * mat.yield_strength / geo.limit_stress(
-        a, mat.yield_strength)
+    dsig = (
+        dp
+        * geo.nominal_stress_per_force()
+        * mat.yield_strength
+        / geo.limit_stress(a, mat.yield_strength)
+    )
     total = _finite_delta_j(specimen, dk**2 / specimen.e_prime, dsig, mat, u)
-    return dk, dk_eff, dj_el, total - dj_el, (
-        "cyclic reference stress method (jintegral.reference_stress_delta_j): no published η "
-        "for this shape")
+    return (
+        dk,
+        dk_eff,
+        dj_el,
+        total - dj_el,
+        (
+            "cyclic reference stress method (jintegral.reference_stress_delta_j): no published η "
+            "for this shape"
+        ),
+    )
 
 
 def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
@@ -158,9 +185,15 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
     typical: dict with one loop's samples and its compliance line for plotting).
     """
     skipped = list(log.skipped)
-    res = lp.reduce_loops(log.load, log.displacement, log.starts, log.ends,
-                          fit_window=fit_window, offset_criterion=specimen.opening_offset,
-                          min_points=min_points)
+    res = lp.reduce_loops(
+        log.load,
+        log.displacement,
+        log.starts,
+        log.ends,
+        fit_window=fit_window,
+        offset_criterion=specimen.opening_offset,
+        min_points=min_points,
+    )
     cyc = log.cycles
     ok = res["status"] == 0
     for code, reason in lp.LOOP_STATUS.items():
@@ -183,28 +216,49 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
         return None, skipped, {"crack_length": how_a}, None
     idx = np.flatnonzero(ok)
     p_max, p_min = res["p_max"][idx], res["p_min"][idx]
-    p_min_eff = np.maximum(p_min, 0.0)       # compressive part ignored (ASTM E647 convention)
+    p_min_eff = np.maximum(p_min, 0.0)  # compressive part ignored (ASTM E647 convention)
     p_op_raw = np.clip(res["p_open"][idx], p_min_eff, p_max)
     p_op = _smooth_opening(p_op_raw, p_max, p_min_eff)
-    area = lp.loop_area_kernel(log.load, log.displacement, log.starts[idx], log.ends[idx],
-                               p_op)
-    dk, dk_eff, dj_el, dj_pl, how_j = _delta_j(specimen, a[idx], p_max, p_min_eff, p_op,
-                                               comp[idx], area)
-    rows = {"cycle": cyc[idx], "a_mm": a[idx], "P_max_N": p_max, "P_min_N": p_min,
-            "P_open_N": p_op, "P_open_loop_N": p_op_raw,
-            "U": (p_max - p_op) / (p_max - p_min_eff),
-            "R": p_min / p_max, "compliance_mm_per_N": comp[idx],
-            "dK_MPa_sqrt_m": dk / MPA_SQRT_M, "dK_eff_MPa_sqrt_m": dk_eff / MPA_SQRT_M,
-            "dJ_el_kJm2": dj_el, "dJ_pl_kJm2": dj_pl, "dJ_eff_kJm2": dj_el + dj_pl}
+    area = lp.loop_area_kernel(log.load, log.displacement, log.starts[idx], log.ends[idx], p_op)
+    dk, dk_eff, dj_el, dj_pl, how_j = _delta_j(
+        specimen, a[idx], p_max, p_min_eff, p_op, comp[idx], area
+    )
+    rows = {
+        "cycle": cyc[idx],
+        "a_mm": a[idx],
+        "P_max_N": p_max,
+        "P_min_N": p_min,
+        "P_open_N": p_op,
+        "P_open_loop_N": p_op_raw,
+        "U": (p_max - p_op) / (p_max - p_min_eff),
+        "R": p_min / p_max,
+        "compliance_mm_per_N": comp[idx],
+        "dK_MPa_sqrt_m": dk / MPA_SQRT_M,
+        "dK_eff_MPa_sqrt_m": dk_eff / MPA_SQRT_M,
+        "dJ_el_kJm2": dj_el,
+        "dJ_pl_kJm2": dj_pl,
+        "dJ_eff_kJm2": dj_el + dj_pl,
+    }
     j = idx[len(idx) // 2]
     s, e = log.starts[j], log.ends[j]
-    typical = {"cycle": float(cyc[j]), "load": log.load[s:e], "disp": log.displacement[s:e],
-               "compliance": comp[j], "p_max": res["p_max"][j], "p_open": res["p_open"][j],
-               "fit_window": fit_window, "a_mm": float(a[j])}
-    notes = {"crack_length": how_a, "crack_correction": how_corr, "plastic_dJ": how_j,
-             "closure": f"opening load by compliance offset ({100 * specimen.opening_offset:g} %"
-                        " criterion, ASTM E647 X2), running median of 7 loops; ΔJ_eff above "
-                        "the opening load"}
+    typical = {
+        "cycle": float(cyc[j]),
+        "load": log.load[s:e],
+        "disp": log.displacement[s:e],
+        "compliance": comp[j],
+        "p_max": res["p_max"][j],
+        "p_open": res["p_open"][j],
+        "fit_window": fit_window,
+        "a_mm": float(a[j]),
+    }
+    notes = {
+        "crack_length": how_a,
+        "crack_correction": how_corr,
+        "plastic_dJ": how_j,
+        "closure": f"opening load by compliance offset ({100 * specimen.opening_offset:g} %"
+        " criterion, ASTM E647 X2), running median of 7 loops; ΔJ_eff above "
+        "the opening load",
+    }
     return rows, skipped, notes, typical
 
 
@@ -218,8 +272,13 @@ def reduce_crack_log(log, specimen):
     a = log.crack_length
     lo, hi = geo.size_limits
     ok = (a >= lo) & (a <= hi) & (log.load_max > log.load_min) & (log.load_max > 0)
-    _skip(skipped, log.name, log.cycles, ~ok,
-          "crack length outside the geometry's range or no load range")
+    _skip(
+        skipped,
+        log.name,
+        log.cycles,
+        ~ok,
+        "crack length outside the geometry's range or no load range",
+    )
     idx = np.flatnonzero(ok)
     if idx.size == 0:
         return None, skipped, {}
@@ -230,20 +289,37 @@ def reduce_crack_log(log, specimen):
     dk = dp * kos
     dj_el = dk**2 / specimen.e_prime
     if mat.cyclic_curve is not None:
-        dsig = dp * geo.nominal_stress_per_force() * mat.yield_strength / geo.limit_stress(
-            a, mat.yield_strength)
+        dsig = (
+            dp
+            * geo.nominal_stress_per_force()
+            * mat.yield_strength
+            / geo.limit_stress(a, mat.yield_strength)
+        )
         total = _finite_delta_j(specimen, dj_el, dsig, mat, 1.0)
         how = "cyclic reference stress method on the applied range"
     else:
         total = dj_el
         how = "none (elastic ΔJ only: no cyclic curve given)"
-    rows = {"cycle": log.cycles[idx], "a_mm": a, "P_max_N": p_max, "P_min_N": p_min,
-            "P_open_N": np.maximum(p_min, 0.0), "U": np.ones_like(a), "R": p_min / p_max,
-            "compliance_mm_per_N": np.full_like(a, np.nan),
-            "dK_MPa_sqrt_m": dk / MPA_SQRT_M, "dK_eff_MPa_sqrt_m": dk / MPA_SQRT_M,
-            "dJ_el_kJm2": dj_el, "dJ_pl_kJm2": total - dj_el, "dJ_eff_kJm2": total}
-    notes = {"crack_length": "measured (crack-length log)", "plastic_dJ": how,
-             "closure": "none measured: applied range (P_min < 0 counts as 0)"}
+    rows = {
+        "cycle": log.cycles[idx],
+        "a_mm": a,
+        "P_max_N": p_max,
+        "P_min_N": p_min,
+        "P_open_N": np.maximum(p_min, 0.0),
+        "U": np.ones_like(a),
+        "R": p_min / p_max,
+        "compliance_mm_per_N": np.full_like(a, np.nan),
+        "dK_MPa_sqrt_m": dk / MPA_SQRT_M,
+        "dK_eff_MPa_sqrt_m": dk / MPA_SQRT_M,
+        "dJ_el_kJm2": dj_el,
+        "dJ_pl_kJm2": total - dj_el,
+        "dJ_eff_kJm2": total,
+    }
+    notes = {
+        "crack_length": "measured (crack-length log)",
+        "plastic_dJ": how,
+        "closure": "none measured: applied range (P_min < 0 counts as 0)",
+    }
     return rows, skipped, notes
 
 
@@ -257,31 +333,41 @@ def rates_for_rows(rows, specimen, *, spacing="e647"):
     n, a = rows["cycle"], rows["a_mm"]
     minsp = rt.e647_minimum_spacing(specimen.shape, a, specimen.width)
     keep = rt.thin_to_spacing(n, a, minsp) if spacing == "e647" else np.arange(n.size)
-    info = {"readings": int(n.size), "kept": int(keep.size),
-            "median_spacing_mm": float(np.median(np.diff(a))) if a.size > 1 else None,
-            "e647_minimum_mm": [float(minsp.min()), float(minsp.max())]}
+    info = {
+        "readings": int(n.size),
+        "kept": int(keep.size),
+        "median_spacing_mm": float(np.median(np.diff(a))) if a.size > 1 else None,
+        "e647_minimum_mm": [float(minsp.min()), float(minsp.max())],
+    }
     if keep.size < 9:
         keep = np.arange(n.size)
-        info["note"] = ("too few readings at the E647 spacing; rates from all readings "
-                        "(scatter will be larger)")
+        info["note"] = (
+            "too few readings at the E647 spacing; rates from all readings (scatter will be larger)"
+        )
     info["kept"] = int(keep.size)
     nk, ak = n[keep], a[keep]
     out = {}
     edges = np.concatenate([[-np.inf], 0.5 * (nk[1:] + nk[:-1]), [np.inf]])
     bins = np.searchsorted(edges, n, side="right") - 1
-    means = {c: np.bincount(bins, rows[c], minlength=nk.size) / np.maximum(
-        np.bincount(bins, minlength=nk.size), 1) for c in ("dJ_eff_kJm2", "dK_eff_MPa_sqrt_m",
-                                                           "R")}
+    means = {
+        c: np.bincount(bins, rows[c], minlength=nk.size)
+        / np.maximum(np.bincount(bins, minlength=nk.size), 1)
+        for c in ("dJ_eff_kJm2", "dK_eff_MPa_sqrt_m", "R")
+    }
     if nk.size >= 7:
         ni, ahat, r = rt.incremental_polynomial_rate(nk, ak)
         sel = np.arange(3, nk.size - 3)
-        out["polynomial"] = {"cycle": ni, "a_mm": ahat, "dadN_mm_per_cycle": r,
-                             **{c: means[c][sel] for c in means}, "row": keep[sel]}
+        out["polynomial"] = {
+            "cycle": ni,
+            "a_mm": ahat,
+            "dadN_mm_per_cycle": r,
+            **{c: means[c][sel] for c in means},
+            "row": keep[sel],
+        }
     if nk.size >= 2:
         nm, am, r = rt.secant_rate(nk, ak)
         inside = (n[:, None] >= nk[None, :-1]) & (n[:, None] <= nk[None, 1:])
         cnt = np.maximum(inside.sum(0), 1)
         sec = {c: (rows[c][:, None] * inside).sum(0) / cnt for c in means}
-        out["secant"] = {"cycle": nm, "a_mm": am, "dadN_mm_per_cycle": r, **sec,
-                         "row": keep[:-1]}
+        out["secant"] = {"cycle": nm, "a_mm": am, "dadN_mm_per_cycle": r, **sec, "row": keep[:-1]}
     return out, info

@@ -58,8 +58,7 @@ def point_compliance(specimen, a):
         c_ll = cm.e647_ct_normalised_compliance(alpha, "load-line") / (e * be)
         c_pt = cm.e647_ct_normalised_compliance(alpha, specimen.compliance_point) / (e * be)
         return c_pt, c_ll
-    a_grid, dc = cm.castigliano_compliance_table(geo, specimen.e_prime,
-                                                 tips=_tips(specimen.shape))
+    a_grid, dc = cm.castigliano_compliance_table(geo, specimen.e_prime, tips=_tips(specimen.shape))
     c_ll = _C0_NORMALISED / (e * be) + np.interp(a, a_grid, dc)
     return c_ll, c_ll
 
@@ -91,22 +90,45 @@ def true_delta_j(specimen, a, p_max, p_min, p_open):
     if specimen.shape == "center-crack-plate":
         return reference_stress_delta_j(dj_el_full, dsig_ref, mat, u)
     return u**2 * dj_el_full + plastic_fraction(u, mat.cyclic_curve.hardening_exponent) * (
-        _plastic_ref(dj_el_full, dsig_ref, mat))
+        _plastic_ref(dj_el_full, dsig_ref, mat)
+    )
 
 
 def _plastic_ref(dj_el, dsig_ref, mat):
     c = mat.cyclic_curve
-    dep = np.array([masing_plastic_strain_range(float(s), c.strength_coefficient,
-                                                c.hardening_exponent) for s in np.ravel(dsig_ref)])
+    dep = np.array(
+        [
+            masing_plastic_strain_range(float(s), c.strength_coefficient, c.hardening_exponent)
+            for s in np.ravel(dsig_ref)
+        ]
+    )
     dep = dep.reshape(np.shape(dsig_ref))
     with np.errstate(invalid="ignore", divide="ignore"):
         return np.where(dsig_ref > 0, dj_el * mat.elastic_modulus * dep / dsig_ref, 0.0)
 
 
-def simulate_test(specimen, C, m, *, p_max, r_ratio=0.1, opening_fraction=0.0,
-                  threshold=0.0, crack_end=None, record_every=1000, samples=120,
-                  closed_stiffness=0.6, k_gradient=0.0, noise_load=0.0005, noise_disp=0.0005,
-                  crack_noise=0.0, max_cycles=5e7, rate_floor=2e-8, start_cycle=0, seed=0):
+def simulate_test(
+    specimen,
+    C,
+    m,
+    *,
+    p_max,
+    r_ratio=0.1,
+    opening_fraction=0.0,
+    threshold=0.0,
+    crack_end=None,
+    record_every=1000,
+    samples=120,
+    closed_stiffness=0.6,
+    k_gradient=0.0,
+    noise_load=0.0005,
+    noise_disp=0.0005,
+    crack_noise=0.0,
+    max_cycles=5e7,
+    rate_floor=2e-8,
+    start_cycle=0,
+    seed=0,
+):
     """Synthesise a fatigue crack growth test.
 
     Parameters
@@ -146,8 +168,11 @@ def simulate_test(specimen, C, m, *, p_max, r_ratio=0.1, opening_fraction=0.0,
     a_end = crack_end if crack_end is not None else 0.95 * geo.size_limits[1]
     a_grid = np.linspace(a0, a_end, 1500)
     k0 = geo.k_over_s(a0)
-    scale = np.exp(k_gradient * (a_grid - a0)) * k0 / geo.k_over_s(a_grid) \
-        if k_gradient else np.ones_like(a_grid)
+    scale = (
+        np.exp(k_gradient * (a_grid - a0)) * k0 / geo.k_over_s(a_grid)
+        if k_gradient
+        else np.ones_like(a_grid)
+    )
     pmax_g = p_max * scale
     pmin_g = r_ratio * pmax_g
     pop_g = pmin_g + opening_fraction * (pmax_g - pmin_g)
@@ -157,26 +182,52 @@ def simulate_test(specimen, C, m, *, p_max, r_ratio=0.1, opening_fraction=0.0,
     if stop.size:
         if stop[0] < 2:
             raise ValidityRangeError("the crack does not grow at these loads")
-        a_grid, rate_g = a_grid[:stop[0]], rate_g[:stop[0]]
-        pmax_g, pmin_g, pop_g, dj_g = (x[:stop[0]] for x in (pmax_g, pmin_g, pop_g, dj_g))
+        a_grid, rate_g = a_grid[: stop[0]], rate_g[: stop[0]]
+        pmax_g, pmin_g, pop_g, dj_g = (x[: stop[0]] for x in (pmax_g, pmin_g, pop_g, dj_g))
     inv = 1.0 / rate_g
     n_grid = start_cycle + np.concatenate(
-        [[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(a_grid))])
+        [[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(a_grid))]
+    )
     n_last = min(n_grid[-1], start_cycle + max_cycles)
     rec = np.arange(start_cycle, n_last + 1, record_every, dtype=float)
     a_rec = np.interp(rec, n_grid, a_grid)
-    pmax_r, pmin_r, pop_r, dj_r, rate_r = (np.interp(rec, n_grid, g) for g in
-                                           (pmax_g, pmin_g, pop_g, dj_g, rate_g))
-    truth = pd.DataFrame({"cycle": rec, "a_mm": a_rec, "P_max_N": pmax_r, "P_min_N": pmin_r,
-                          "P_open_N": pop_r, "dJ_eff_kJm2": dj_r,
-                          "dadN_mm_per_cycle": rate_r})
-    load, disp = _loops(specimen, a_rec, pmax_r, pmin_r, pop_r, samples, closed_stiffness,
-                        noise_load, noise_disp, rng)
-    raw = pd.DataFrame({"cycle": np.repeat(rec, samples).astype(np.int64), "load": load,
-                        "displacement": disp})
-    crack = pd.DataFrame({"cycle": rec.astype(np.int64),
-                          "crack_length": a_rec + crack_noise * rng.standard_normal(rec.size),
-                          "load_max": pmax_r, "load_min": pmin_r})
+    pmax_r, pmin_r, pop_r, dj_r, rate_r = (
+        np.interp(rec, n_grid, g) for g in (pmax_g, pmin_g, pop_g, dj_g, rate_g)
+    )
+    truth = pd.DataFrame(
+        {
+            "cycle": rec,
+            "a_mm": a_rec,
+            "P_max_N": pmax_r,
+            "P_min_N": pmin_r,
+            "P_open_N": pop_r,
+            "dJ_eff_kJm2": dj_r,
+            "dadN_mm_per_cycle": rate_r,
+        }
+    )
+    load, disp = _loops(
+        specimen,
+        a_rec,
+        pmax_r,
+        pmin_r,
+        pop_r,
+        samples,
+        closed_stiffness,
+        noise_load,
+        noise_disp,
+        rng,
+    )
+    raw = pd.DataFrame(
+        {"cycle": np.repeat(rec, samples).astype(np.int64), "load": load, "displacement": disp}
+    )
+    crack = pd.DataFrame(
+        {
+            "cycle": rec.astype(np.int64),
+            "crack_length": a_rec + crack_noise * rng.standard_normal(rec.size),
+            "load_max": pmax_r,
+            "load_min": pmin_r,
+        }
+    )
     return SimulatedTest(raw, crack, truth)
 
 
@@ -203,23 +254,28 @@ def _loops(specimen, a, pmax, pmin, pop, samples, kappa, noise_load, noise_disp,
         d_pl = np.zeros_like(a)
         p_exp = 1.0
     t = np.arange(samples) / samples
-    phase = 0.5 * (1 - np.cos(2 * np.pi * t))          # 0 → 1 → 0, starting at the minimum
+    phase = 0.5 * (1 - np.cos(2 * np.pi * t))  # 0 → 1 → 0, starting at the minimum
     rising = t <= 0.5
-    s = phase[None, :] * dp[:, None]                    # load above the minimum
+    s = phase[None, :] * dp[:, None]  # load above the minimum
     load = pmin[:, None] + s
     c = c_ll[:, None]
     cc = kappa * c
     sop = s_op[:, None]
-    v_load = cc * np.minimum(s, sop) + c * np.maximum(s - sop, 0) + d_pl[:, None] * (
-        s / dp[:, None]) ** p_exp
+    v_load = (
+        cc * np.minimum(s, sop)
+        + c * np.maximum(s - sop, 0)
+        + d_pl[:, None] * (s / dp[:, None]) ** p_exp
+    )
     top = cc * sop + c * (dp[:, None] - sop) + d_pl[:, None]
-    r = dp[:, None] - s                                 # drop below the maximum
-    v_unl = top - (c * np.minimum(r, dp[:, None] - sop) + cc * np.maximum(r - (dp[:, None] - sop),
-                                                                          0)
-                   + d_pl[:, None] * (r / dp[:, None]) ** p_exp)
+    r = dp[:, None] - s  # drop below the maximum
+    v_unl = top - (
+        c * np.minimum(r, dp[:, None] - sop)
+        + cc * np.maximum(r - (dp[:, None] - sop), 0)
+        + d_pl[:, None] * (r / dp[:, None]) ** p_exp
+    )
     v_ll = np.where(rising[None, :], v_load, v_unl) + c * pmin[:, None]
     v = v_ll * (c_pt / c_ll)[:, None]
-    v_range = (top * (c_pt / c_ll)[:, None])
+    v_range = top * (c_pt / c_ll)[:, None]
     load = load + noise_load * dp[:, None] * rng.standard_normal(load.shape)
     v = v + noise_disp * v_range * rng.standard_normal(v.shape)
     return load.ravel(), v.ravel()

@@ -76,8 +76,17 @@ def read_specimen(path) -> Specimen:
     a0 = t.quantity("crack_length", "length", required=True, positive=True)
     span = t.quantity("span", "length", positive=True)
     constraint = t.choice("constraint", ("plane-strain", "plane-stress"), default="plane-strain")
-    geo = make_geometry(shape, a0, width=width, thickness=thick, net_thickness=net, span=span,
-                        constraint=constraint, source=src, prefix="specimen")
+    geo = make_geometry(
+        shape,
+        a0,
+        width=width,
+        thickness=thick,
+        net_thickness=net,
+        span=span,
+        constraint=constraint,
+        source=src,
+        prefix="specimen",
+    )
     e = t.quantity("elastic_modulus", "stress", required=True, positive=True)
     nu = t.number("poisson_ratio", default=0.3, lo=(0.0, "0"), hi=(0.4999, "0.5"))
     sy = t.quantity("yield_strength", "stress", required=True, positive=True)
@@ -98,23 +107,47 @@ def read_specimen(path) -> Specimen:
     units = t.table("log_units")
     factors = {"load": 1.0, "displacement": 1.0, "crack_length": 1.0}
     if units is not None:
-        for key, kind in (("load", "force"), ("displacement", "length"),
-                          ("crack_length", "length")):
+        for key, kind in (
+            ("load", "force"),
+            ("displacement", "length"),
+            ("crack_length", "length"),
+        ):
             u = units.string(key)
             if u is not None:
                 factors[key] = to_internal(f"1 {u}", kind, key=units.key(key), source=src)
         units.finish()
     a1 = t.quantity("final_crack_length", "length", positive=True)
     if a1 is not None and not a0 < a1 < geo.size_limits[1] * (1 + 1e-9):
-        raise CycjInputError("final crack must exceed the initial one and lie in the range",
-                             source=src, key="final_crack_length",
-                             expected=f"{a0:g} < a ≤ {geo.size_limits[1]:g} mm", found=a1)
+        raise CycjInputError(
+            "final crack must exceed the initial one and lie in the range",
+            source=src,
+            key="final_crack_length",
+            expected=f"{a0:g} < a ≤ {geo.size_limits[1]:g} mm",
+            found=a1,
+        )
     corr = t.choice("crack_correction", ("none", "first", "first-last"), default="none")
     if corr == "first-last" and a1 is None:
-        raise CycjInputError("'first-last' needs final_crack_length", source=src,
-                             key="crack_correction", expected="'none' or 'first'", found=corr)
+        raise CycjInputError(
+            "'first-last' needs final_crack_length",
+            source=src,
+            key="crack_correction",
+            expected="'none' or 'first'",
+            found=corr,
+        )
     off = t.number("opening_offset", default=0.02, lo=(0.001, "0.001"), hi=(0.2, "0.2"))
     label = t.string("label", default=Path(src).stem)
     t.finish()
-    return Specimen(label, geo, mat, disp_at, factors["load"], factors["displacement"],
-                    factors["crack_length"], a0, a1, corr, off, src)
+    return Specimen(
+        label,
+        geo,
+        mat,
+        disp_at,
+        factors["load"],
+        factors["displacement"],
+        factors["crack_length"],
+        a0,
+        a1,
+        corr,
+        off,
+        src,
+    )

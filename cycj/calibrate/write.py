@@ -20,8 +20,9 @@ def write_outputs(result, out_dir, *, logs=(), specimens=(), force=False, plots=
         od.write_text("growth_snippet.toml", result.snippet)
         od.write_csv("reduced.csv", result.reduced)
         od.write_csv("rates.csv", result.rates)
-        od.write_csv("skipped.csv", pd.DataFrame(result.skipped,
-                                                 columns=["log", "cycle", "reason"]))
+        od.write_csv(
+            "skipped.csv", pd.DataFrame(result.skipped, columns=["log", "cycle", "reason"])
+        )
         if plots:
             _plots_and_report(od, result, s, logs, specimens)
         od.write_json("fit.json", s)
@@ -35,35 +36,65 @@ def _plots_and_report(od, result, s, logs, specimens):
     from cycj.calibrate.fit import CAUTION
     from cycj.report import write_report
 
-    figs = [("da/dN against ΔJ_eff with the recommended fit and prediction band",
-             od.savefig("dadn.png", plots.rate_plot(result)))]
+    figs = [
+        (
+            "da/dN against ΔJ_eff with the recommended fit and prediction band",
+            od.savefig("dadn.png", plots.rate_plot(result)),
+        )
+    ]
     if result.curves:
-        figs.append(("crack length against cycles: measured and integrated fit",
-                     od.savefig("crack_growth.png", plots.crack_plot(result))))
+        figs.append(
+            (
+                "crack length against cycles: measured and integrated fit",
+                od.savefig("crack_growth.png", plots.crack_plot(result)),
+            )
+        )
     if result.typical_loop is not None:
-        figs.append(("a typical recorded loop with its compliance line and opening load",
-                     od.savefig("loop.png", plots.loop_plot(result.typical_loop))))
-    fits = pd.DataFrame([{"fit": k, "C": v["C"], "m": v["m"], "C low": v["C_interval"][0],
-                          "C high": v["C_interval"][1], "m low": v["m_interval"][0],
-                          "m high": v["m_interval"][1], "points": v["n"]}
-                         for k, v in result.fits.items()])
+        figs.append(
+            (
+                "a typical recorded loop with its compliance line and opening load",
+                od.savefig("loop.png", plots.loop_plot(result.typical_loop)),
+            )
+        )
+    fits = pd.DataFrame(
+        [
+            {
+                "fit": k,
+                "C": v["C"],
+                "m": v["m"],
+                "C low": v["C_interval"][0],
+                "C high": v["C_interval"][1],
+                "m low": v["m_interval"][0],
+                "m high": v["m_interval"][1],
+                "points": v["n"],
+            }
+            for k, v in result.fits.items()
+        ]
+    )
     skipped = pd.DataFrame(result.skipped, columns=["log", "cycle", "reason"])
-    answer = (f"da/dN = {s['C']:.4g}·ΔJ^{s['m']:.4g} mm/cycle (ΔJ in kJ/m², basis "
-              f"{s['basis']}, {s['recommended_fit']} fit), valid for ΔJ "
-              f"{s['dJ_range_kJm2'][0]:.3g}–{s['dJ_range_kJm2'][1]:.3g} kJ/m².")
+    answer = (
+        f"da/dN = {s['C']:.4g}·ΔJ^{s['m']:.4g} mm/cycle (ΔJ in kJ/m², basis "
+        f"{s['basis']}, {s['recommended_fit']} fit), valid for ΔJ "
+        f"{s['dJ_range_kJm2'][0]:.3g}–{s['dJ_range_kJm2'][1]:.3g} kJ/m²."
+    )
     write_report(
-        od.path("report.html"), title="Growth constants in ΔJ from test logs",
+        od.path("report.html"),
+        title="Growth constants in ΔJ from test logs",
         question="Which constants C, m (and threshold) of da/dN = C·ΔJ^m describe these "
-                 "fatigue crack growth tests, and with what scatter?",
+        "fatigue crack growth tests, and with what scatter?",
         answer=answer,
-        inputs=[("logs", ", ".join(map(str, logs))),
-                ("specimen files", ", ".join(map(str, specimens))),
-                ("recommended fit", f"{s['recommended_fit']}: {s['recommended_reason']}"),
-                ("closure", s["closure"]), ("sigma_ln", s["sigma_ln"]),
-                ("threshold [kJ/m²]", s["threshold_kJm2"]),
-                ("R ratios collapse in ΔJ_eff", s["r_ratio_collapse"].get("collapses")),
-                ("growth snippet", result.snippet.splitlines()[-1])],
+        inputs=[
+            ("logs", ", ".join(map(str, logs))),
+            ("specimen files", ", ".join(map(str, specimens))),
+            ("recommended fit", f"{s['recommended_fit']}: {s['recommended_reason']}"),
+            ("closure", s["closure"]),
+            ("sigma_ln", s["sigma_ln"]),
+            ("threshold [kJ/m²]", s["threshold_kJm2"]),
+            ("R ratios collapse in ΔJ_eff", s["r_ratio_collapse"].get("collapses")),
+            ("growth snippet", result.snippet.splitlines()[-1]),
+        ],
         figures=figs,
         tables=[("Fits", fits), ("Skipped readings", skipped.head(200))],
         warnings=[*result.warnings, CAUTION],
-        references=s["references"])
+        references=s["references"],
+    )

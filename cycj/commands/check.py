@@ -44,11 +44,19 @@ def geometries(as_json):
     """List the crack configurations with their dimensions, nominal stress and validity."""
     from cycj.geometry import SHAPES
 
-    rows = [{"shape": s.name, "title": s.title,
-             "dimensions": ["crack_length", *s.required, *s.optional],
-             "loading": list(s.loading), "nominal_stress": s.nominal_stress,
-             "crack": s.crack, "validity": s.validity, "references": list(s.references)}
-            for s in SHAPES.values()]
+    rows = [
+        {
+            "shape": s.name,
+            "title": s.title,
+            "dimensions": ["crack_length", *s.required, *s.optional],
+            "loading": list(s.loading),
+            "nominal_stress": s.nominal_stress,
+            "crack": s.crack,
+            "validity": s.validity,
+            "references": list(s.references),
+        }
+        for s in SHAPES.values()
+    ]
     if as_json:
         click.echo(json.dumps(rows, indent=2))
         return

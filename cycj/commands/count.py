@@ -12,24 +12,42 @@ from cycj.errors import CycjInputError
 @click.command()
 @click.argument("history", type=click.Path(dir_okay=False))
 @click.option("--column", default=None, help="Channel to count (name or 0-based position).")
-@click.option("--gate", default="0", show_default=True,
-              help="Drop reversal pairs smaller than this: a number in the file's unit or a "
-                   "quantity such as '0.2 kN'.")
-@click.option("--unit", default=None, help="Unit of the file's loads (e.g. kN, MPa); loads are "
-              "converted to N or MPa.")
-@click.option("--scale", default=1.0, show_default=True, type=float,
-              help="Factor applied to the loads.")
-@click.option("--repeat", is_flag=True, help="Count the history as a repeating block "
-              "(full cycles only).")
-@click.option("--bins", default=32, show_default=True, type=click.IntRange(2, 1000),
-              help="Bins on each axis of the rainflow matrices.")
-@click.option("--out", "out_dir", default=None, type=click.Path(file_okay=False),
-              help="Folder for cycles.csv, the matrices and the plots.")
+@click.option(
+    "--gate",
+    default="0",
+    show_default=True,
+    help="Drop reversal pairs smaller than this: a number in the file's unit or a "
+    "quantity such as '0.2 kN'.",
+)
+@click.option(
+    "--unit",
+    default=None,
+    help="Unit of the file's loads (e.g. kN, MPa); loads are converted to N or MPa.",
+)
+@click.option(
+    "--scale", default=1.0, show_default=True, type=float, help="Factor applied to the loads."
+)
+@click.option(
+    "--repeat", is_flag=True, help="Count the history as a repeating block (full cycles only)."
+)
+@click.option(
+    "--bins",
+    default=32,
+    show_default=True,
+    type=click.IntRange(2, 1000),
+    help="Bins on each axis of the rainflow matrices.",
+)
+@click.option(
+    "--out",
+    "out_dir",
+    default=None,
+    type=click.Path(file_okay=False),
+    help="Folder for cycles.csv, the matrices and the plots.",
+)
 @click.option("--force", is_flag=True, help="Replace a non-empty --out folder.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots,
-          as_json):
+def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots, as_json):
     """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
     from cycj.outputs import OutputDir, dumps, record_provenance
     from cycj.spectrum.rainflow import rainflow_cycles
@@ -43,29 +61,43 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
 
     factor, internal, kind = history_unit(unit, key="--unit")
     if not math.isfinite(scale) or scale == 0:
-        raise CycjInputError("the scale must be a finite non-zero number", key="--scale",
-                             found=scale)
+        raise CycjInputError(
+            "the scale must be a finite non-zero number", key="--scale", found=scale
+        )
     gate_value = _gate(gate, factor * scale, kind)
     od = OutputDir(out_dir, force=force, inputs=[history]) if out_dir is not None else None
     values, times = read_history_with_time(history, column, factor, scale)
     cycles = rainflow_cycles(values, gate_value, repeat)
-    summary = {"history": str(history), "column": column, **count_summary(
-        values, cycles, gate_value, repeat, internal)}
+    summary = {
+        "history": str(history),
+        "column": column,
+        **count_summary(values, cycles, gate_value, repeat, internal),
+    }
     summary["method"] = "rainflow (ASTM E1049-85 §5.4)" + (
-        ", repeating block" if repeat else ", residue as half cycles")
-    summary["parameters"] = {"column": column, "unit": unit, "unit_factor": factor,
-                             "scale": scale, "gate": gate_value, "repeat": repeat,
-                             "bins": bins, "internal_unit": internal}
+        ", repeating block" if repeat else ", residue as half cycles"
+    )
+    summary["parameters"] = {
+        "column": column,
+        "unit": unit,
+        "unit_factor": factor,
+        "scale": scale,
+        "gate": gate_value,
+        "repeat": repeat,
+        "bins": bins,
+        "internal_unit": internal,
+    }
     record_provenance(summary, {"history": history}, method=summary["method"])
     if od is not None:
         with od:
-            files = write_count_outputs(od, values, cycles, internal, times, bins,
-                                        plots=not no_plots)
+            files = write_count_outputs(
+                od, values, cycles, internal, times, bins, plots=not no_plots
+            )
             if not no_plots:
                 figs = [(CAPTIONS[p.name], p) for p in files if p.suffix == ".png"]
                 files.append(write_count_report(od, summary, figs))
             summary["outputs"] = [str(od.final_path(p.name)) for p in files] + [
-                str(od.final_path("count.json"))]
+                str(od.final_path("count.json"))
+            ]
             od.write_json("count.json", summary)
     if as_json:
         click.echo(dumps(summary))
@@ -73,17 +105,22 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
     u = f" {internal}" if internal else ""
     click.echo(f"history: {history}")
     click.echo(f"samples: {summary['samples']}")
-    click.echo(f"reversals: {summary['reversals']}" + (f" (gate {gate_value:g}{u})"
-                                                      if gate_value else ""))
+    click.echo(
+        f"reversals: {summary['reversals']}" + (f" (gate {gate_value:g}{u})" if gate_value else "")
+    )
     if summary["full_cycles"] + summary["half_cycles"] == 0:
         click.echo("cycles: none (the history is constant or every change is below the gate)")
     else:
-        click.echo(f"cycles: {summary['cycles']:g} ({summary['full_cycles']} full + "
-                   f"{summary['half_cycles']} half)" + (" [repeating block]" if repeat else ""))
+        click.echo(
+            f"cycles: {summary['cycles']:g} ({summary['full_cycles']} full + "
+            f"{summary['half_cycles']} half)" + (" [repeating block]" if repeat else "")
+        )
         click.echo(f"largest range: {summary['largest_range']:.6g}{u}")
     if out_dir is not None:
-        click.echo(f"wrote {len(summary['outputs'])} files to {out_dir}/ (count.json, cycles.csv"
-                   + (", plots, report.html)" if not no_plots else ")"))
+        click.echo(
+            f"wrote {len(summary['outputs'])} files to {out_dir}/ (count.json, cycles.csv"
+            + (", plots, report.html)" if not no_plots else ")")
+        )
 
 
 def _gate(text: str, factor: float, kind: str | None) -> float:
@@ -94,8 +131,9 @@ def _gate(text: str, factor: float, kind: str | None) -> float:
         g = float(text) * factor
     except ValueError:
         if kind is None:
-            raise CycjInputError("a gate with a unit needs --unit", key="--gate",
-                                 found=text) from None
+            raise CycjInputError(
+                "a gate with a unit needs --unit", key="--gate", found=text
+            ) from None
         g = to_internal(text, kind, key="--gate")
     if not g >= 0:
         raise CycjInputError("the gate must be >= 0", key="--gate", found=text)

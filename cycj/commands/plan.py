@@ -9,10 +9,17 @@ import click
 
 @click.command()
 @click.argument("case_file", type=click.Path(dir_okay=False))
-@click.option("--out", "out_dir", type=click.Path(file_okay=False),
-              help="Output folder (default: <case name>-plan beside the case).")
-@click.option("--scheduler", default=None,
-              help="Dask scheduler address (tcp://HOST:PORT): run sample chunks on a cluster.")
+@click.option(
+    "--out",
+    "out_dir",
+    type=click.Path(file_okay=False),
+    help="Output folder (default: <case name>-plan beside the case).",
+)
+@click.option(
+    "--scheduler",
+    default=None,
+    help="Dask scheduler address (tcp://HOST:PORT): run sample chunks on a cluster.",
+)
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--json", "as_json", is_flag=True, help="Print plan.json to stdout.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
@@ -29,7 +36,7 @@ def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
 
     case = load_case(case_file)
     out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-plan")
-    OutputDir(out, force=force, inputs=[case.path])   # refuse early, before the long run
+    OutputDir(out, force=force, inputs=[case.path])  # refuse early, before the long run
     result = plan_inspections(case, scheduler=scheduler)
     summary = write_plan(result, case, out, force=force, plots=not no_plots)
     if as_json:
@@ -37,7 +44,9 @@ def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
         return
     click.echo(answer_sentence(summary))
     click.echo(result.what_if.to_string(index=False))
-    click.echo(f"outputs: {out}/ (plan.json, what_if.csv, schedule.csv"
-               + (", plots, report.html)" if not no_plots else ")"))
+    click.echo(
+        f"outputs: {out}/ (plan.json, what_if.csv, schedule.csv"
+        + (", plots, report.html)" if not no_plots else ")")
+    )
     for w in summary["warnings"]:
         click.echo(f"warning: {w}")

@@ -30,15 +30,26 @@ class _Progress:
 
 @click.command()
 @click.argument("case_files", nargs=-1, required=True, type=click.Path(dir_okay=False))
-@click.option("--out", "out_dir", type=click.Path(file_okay=False),
-              help="Output folder (default: <case name>-life beside the case).")
-@click.option("--method", type=click.Choice(["auto", "cycle", "block"]), default=None,
-              help="Override the case's run.method.")
+@click.option(
+    "--out",
+    "out_dir",
+    type=click.Path(file_okay=False),
+    help="Output folder (default: <case name>-life beside the case).",
+)
+@click.option(
+    "--method",
+    type=click.Choice(["auto", "cycle", "block"]),
+    default=None,
+    help="Override the case's run.method.",
+)
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
-@click.option("--scheduler", default=None,
-              help="Dask scheduler address (tcp://HOST:PORT) to run a fleet of cases.")
+@click.option(
+    "--scheduler",
+    default=None,
+    help="Dask scheduler address (tcp://HOST:PORT) to run a fleet of cases.",
+)
 def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     """Predict the remaining life of CASE_FILES (cycles to a J-based instability).
 
@@ -50,8 +61,7 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     if len(case_files) > 1 or scheduler:
         from cycj.life.fleet import run_fleet
 
-        table = run_fleet(case_files, out_dir, method=method, force=force,
-                          scheduler=scheduler)
+        table = run_fleet(case_files, out_dir, method=method, force=force, scheduler=scheduler)
         click.echo(table.to_string(index=False))
         return
     case_file = case_files[0]
@@ -61,16 +71,19 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     from cycj.life.write import run_and_write
 
     try:
-        summary = run_and_write(case, out, method=method, force=force, plots=not no_plots,
-                                progress=progress)
+        summary = run_and_write(
+            case, out, method=method, force=force, plots=not no_plots, progress=progress
+        )
     finally:
         progress.close()
     if as_json:
         click.echo(dumps(summary))
         return
     click.echo(answer_sentence(summary))
-    click.echo(f"outputs: {out}/ (summary.json, history.csv"
-               + (", plots, report.html)" if not no_plots else ")"))
+    click.echo(
+        f"outputs: {out}/ (summary.json, history.csv"
+        + (", plots, report.html)" if not no_plots else ")")
+    )
     for w in summary["warnings"]:
         click.echo(f"warning: {w}")
 

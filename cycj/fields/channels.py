@@ -76,8 +76,9 @@ def table_at(ct, row, i, f, j, g):
         if ct.shape[1] < 2:
             return ct[row, 0, 0]
         return ct[row, i, 0] * (1.0 - f) + ct[row, i + 1, 0] * f
-    return ((ct[row, i, j] * (1.0 - g) + ct[row, i, j + 1] * g) * (1.0 - f)
-            + (ct[row, i + 1, j] * (1.0 - g) + ct[row, i + 1, j + 1] * g) * f)
+    return (ct[row, i, j] * (1.0 - g) + ct[row, i, j + 1] * g) * (1.0 - f) + (
+        ct[row, i + 1, j] * (1.0 - g) + ct[row, i + 1, j + 1] * g
+    ) * f
 
 
 @jit
@@ -99,7 +100,7 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
     kres = table_at(ct, base + nch, ia, fa, jc, gc)
     kmax = kres
     kmin = kres
-    ks1 = kres          # secondary part of K at the peak (residual and secondary channels)
+    ks1 = kres  # secondary part of K at the peak (residual and secondary channels)
     ks0 = kres
     pm1 = pb1 = pm0 = pb0 = 0.0
     for j in range(nch):
@@ -123,10 +124,9 @@ def channel_k(lmax, lmin, i, a, c, ct, mp, point):
         ks1 = ks0
     t = mp[CH_THICKNESS]
     alpha = a / t
-    if mp[CH_SURFACE] > 0.5:   # BS 7910 Annex P: α″ of a surface flaw of length 2c
+    if mp[CH_SURFACE] > 0.5:  # BS 7910 Annex P: α″ of a surface flaw of length 2c
         w = mp[CH_WIDTH]
-        alpha = alpha / (1.0 + t / c) if (w <= 0.0 or w >= 2.0 * (c + t)) else 2.0 * a * c / (
-            t * w)
+        alpha = alpha / (1.0 + t / c) if (w <= 0.0 or w >= 2.0 * (c + t)) else 2.0 * a * c / (t * w)
     sy = mp[SIGMA_Y]
     lr_max = plate_reference_stress(pm1, pb1, alpha) / sy
     lr_range = plate_reference_stress(pm1 - pm0, pb1 - pb0, alpha) / sy

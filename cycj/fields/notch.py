@@ -237,8 +237,9 @@ def notch_delta_j(a, delta_s, kt, material, notch_depth, u=1.0, long_crack=None)
     d = float(_finite("notch depth", notch_depth))
     u = _u(u)
     if long_crack is None:
-        return _notch_dj(a, ds, kt, d, material.elastic_modulus, c.strength_coefficient,
-                         c.hardening_exponent, u)
+        return _notch_dj(
+            a, ds, kt, d, material.elastic_modulus, c.strength_coefficient, c.hardening_exponent, u
+        )
     root = notch_root_delta_j(a, ds, kt, material, u)
     return np.minimum(root, np.asarray(long_crack(a + d), float))
 

@@ -125,8 +125,7 @@ def tabulated_stress(x_over_t, table_x_over_t, table_stress):
     xt = _depth_ratio(x_over_t)
     tx, ts = _table(table_x_over_t, table_stress)
     if np.any(xt < tx[0] - 1e-12) or np.any(xt > tx[-1] + 1e-12):
-        raise ValidityRangeError(
-            f"x/t outside the stress table's range [{tx[0]:g}, {tx[-1]:g}]")
+        raise ValidityRangeError(f"x/t outside the stress table's range [{tx[0]:g}, {tx[-1]:g}]")
     return np.interp(xt, tx, ts)
 
 
@@ -236,8 +235,9 @@ class StressProfile:
         elif self.kind == "table":
             _table(self.x_over_t, self.stress)
         else:
-            raise ValueError(f"unknown stress profile kind {self.kind!r}; "
-                             "expected 'polynomial' or 'table'")
+            raise ValueError(
+                f"unknown stress profile kind {self.kind!r}; expected 'polynomial' or 'table'"
+            )
 
     def __call__(self, x_over_t):
         """σ [MPa] at depth ratio x/t."""
@@ -253,8 +253,9 @@ class StressProfile:
 
     def scaled(self, factor):
         """The same profile multiplied by ``factor`` (e.g. a relaxation factor)."""
-        return StressProfile(self.kind, self.coefficients, self.x_over_t, self.stress,
-                             self.scale * float(factor))
+        return StressProfile(
+            self.kind, self.coefficients, self.x_over_t, self.stress, self.scale * float(factor)
+        )
 
     def linearise(self):
         """(P_m, P_b) [MPa] over the section."""

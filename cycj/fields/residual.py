@@ -102,12 +102,19 @@ def residual_stress_k(a, residual, shape, relaxation=1.0, **dimensions):
             raise ValidityRangeError("a profile in x/t needs a section depth; give σ(x) instead")
         k = SWF.edge_crack_semi_infinite_k(a, stress)
     elif shape == "surface-crack-plate":
-        k = SWF.surface_crack_k(a, dimensions["c"], dimensions["thickness"], stress,
-                               dimensions.get("width", 0.0),
-                               dimensions.get("point", wf.DEEPEST))
+        k = SWF.surface_crack_k(
+            a,
+            dimensions["c"],
+            dimensions["thickness"],
+            stress,
+            dimensions.get("width", 0.0),
+            dimensions.get("point", wf.DEEPEST),
+        )
     else:
-        raise ValueError(f"unknown shape {shape!r} for residual stress; expected one of "
-                         f"{', '.join(RESIDUAL_SHAPES)}")
+        raise ValueError(
+            f"unknown shape {shape!r} for residual stress; expected one of "
+            f"{', '.join(RESIDUAL_SHAPES)}"
+        )
     return rel * k
 
 
@@ -261,6 +268,5 @@ def residual_k_shift(k_max, k_min, k_residual):
     kmin = _finite("K_min", k_min) + kres
     if np.any(kmin > kmax):
         raise ValidityRangeError("K_min must not exceed K_max")
-    r = np.divide(kmin, kmax, out=np.full(np.broadcast(kmin, kmax).shape, np.nan),
-                  where=kmax > 0.0)
+    r = np.divide(kmin, kmax, out=np.full(np.broadcast(kmin, kmax).shape, np.nan), where=kmax > 0.0)
     return kmax, kmin, r

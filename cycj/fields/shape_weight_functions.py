@@ -86,8 +86,9 @@ def edge_crack_plate_references(a, width):
     y0 = _tada_tension(alpha)
     ab = np.maximum(alpha, _ALPHA_BLEND)
     y1 = _linear_from_bending(_tada_tension(ab), _tada_bending(ab), ab)
-    y1_blend = _linear_from_bending(_tada_tension(_ALPHA_BLEND), _tada_bending(_ALPHA_BLEND),
-                                    _ALPHA_BLEND)
+    y1_blend = _linear_from_bending(
+        _tada_tension(_ALPHA_BLEND), _tada_bending(_ALPHA_BLEND), _ALPHA_BLEND
+    )
     low = HALF_PLANE_LINEAR + (y1_blend - HALF_PLANE_LINEAR) * alpha / _ALPHA_BLEND
     return y0, np.where(alpha < _ALPHA_BLEND, low, y1)
 

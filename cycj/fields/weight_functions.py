@@ -68,8 +68,8 @@ __all__ = [
     "glinka_shen_weight",
 ]
 
-DEEPEST = "deepest"   # tip at depth a: edge-crack tip or deepest point A
-SURFACE = "surface"   # surface point B of a semi-elliptical crack
+DEEPEST = "deepest"  # tip at depth a: edge-crack tip or deepest point A
+SURFACE = "surface"  # surface point B of a semi-elliptical crack
 _POINTS = (DEEPEST, SURFACE)
 
 #: Y1 of the half-plane edge crack for σ0(1 − x/a): 1.1215 − 0.683 (Tada; from memory)
@@ -135,12 +135,16 @@ def glinka_shen_coefficients(y0, y1, point=DEEPEST):
     y1 = np.asarray(y1, float)
     if point == DEEPEST:
         c = math.pi / math.sqrt(2.0)
-        rhs = np.stack(np.broadcast_arrays(c * y0 - 2.0, c * y1 - 2.0 / 3.0,
-                                           np.full_like(y0 + y1, 3.0)), axis=-1)
+        rhs = np.stack(
+            np.broadcast_arrays(c * y0 - 2.0, c * y1 - 2.0 / 3.0, np.full_like(y0 + y1, 3.0)),
+            axis=-1,
+        )
     else:
         c = 0.5 * math.pi
-        rhs = np.stack(np.broadcast_arrays(c * y0 - 2.0, c * y1 - 4.0 / 3.0,
-                                           np.full_like(y0 + y1, -1.0)), axis=-1)
+        rhs = np.stack(
+            np.broadcast_arrays(c * y0 - 2.0, c * y1 - 4.0 / 3.0, np.full_like(y0 + y1, -1.0)),
+            axis=-1,
+        )
     return rhs @ _INVERSE[point].T
 
 
@@ -221,7 +225,7 @@ def glinka_shen_k(a, stress, m, point=DEEPEST, n_points=64, breakpoints=()):
     s, w = _gauss(int(n_points))
     s, w = _split(a, np.asarray(breakpoints, float), s, w, point)
     m = m[..., None, :]
-    poly = (1.0 + m[..., 0] * s + m[..., 1] * s**2 + m[..., 2] * s**3)
+    poly = 1.0 + m[..., 0] * s + m[..., 1] * s**2 + m[..., 2] * s**3
     if point == DEEPEST:
         x = a[..., None] * (1.0 - s * s)
         lead = 2.0 * np.sqrt(2.0 * a / math.pi)
@@ -274,7 +278,7 @@ def glinka_shen_influence(m, order=3, point=DEEPEST):
     """
     point = _point(point)
     m = np.asarray(m, float)
-    mk = np.concatenate([np.ones(m.shape[:-1] + (1,)), m], axis=-1)     # (..., 4)
+    mk = np.concatenate([np.ones(m.shape[:-1] + (1,)), m], axis=-1)  # (..., 4)
     i = np.arange(order + 1)[:, None]
     k = np.arange(4)[None, :]
     if point == DEEPEST:

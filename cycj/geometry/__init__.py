@@ -56,87 +56,189 @@ SHAPES: dict[str, Shape] = {}
 def _register(shape: Shape) -> None:
     from cycj.models import register
 
-    register("geometry", shape.name, shape.code, slots=shape.required,
-             validity=shape.validity, citation=shape.references)
+    register(
+        "geometry",
+        shape.name,
+        shape.code,
+        slots=shape.required,
+        validity=shape.validity,
+        citation=shape.references,
+    )
     SHAPES[shape.name] = shape
 
 
-_register(Shape(
-    "center-crack-infinite-plate", center_crack_infinite.CODE,
-    "centre crack in an infinite plate", center_crack_infinite, (), ("stress",),
-    "S = remote stress", "a = half crack length", "a > 0",
-    ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000)",)))
-_register(Shape(
-    "edge-crack-semi-infinite", edge_crack_semi_infinite.CODE,
-    "edge crack in a semi-infinite plate", edge_crack_semi_infinite, (), ("stress",),
-    "S = remote stress", "a = crack depth", "a > 0",
-    ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000): 1.1215",)))
-_register(Shape(
-    "center-crack-plate", center_crack_plate.CODE,
-    "middle-cracked tension plate, M(T)", center_crack_plate, ("width", "thickness"),
-    ("force", "stress"), "S = P/(B·W), W = full width", "a = half crack length",
-    "0 < 2a/W ≤ 0.95",
-    ("Tada (1973) secant form, in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
-     "Kumar, German & Shih, EPRI NP-1931 (1981): net-section limit load"),
-    {"net_thickness": "= thickness"}))
-_register(Shape(
-    "edge-crack-plate", edge_crack_plate.CODE,
-    "single-edge-cracked tension plate, SE(T), pin loaded", edge_crack_plate,
-    ("width", "thickness"), ("force", "stress"), "S = P/(B·W)", "a = crack depth",
-    "0 < a/W ≤ 0.9",
-    ("Tada (1973), in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
-     "Miller, IJPVP 32 (1988): tension-bending net-section limit load (from memory)"),
-    {"net_thickness": "= thickness"}))
-_register(Shape(
-    "compact-tension", compact_tension.CODE, "compact tension specimen, C(T)",
-    compact_tension, ("width", "thickness"), ("force", "stress"),
-    "S = P/(B·W); W and a from the load line", "a = crack length from the load line",
-    "0.2 ≤ a/W ≤ 0.95",
-    ("Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399/E647/E1820",
-     "Kumar, German & Shih, EPRI NP-1931 (1981): limit load"),
-    {"net_thickness": "= thickness"}))
-_register(Shape(
-    "three-point-bend", three_point_bend.CODE, "single-edge-notched bend, SE(B), S = 4W",
-    three_point_bend, ("width", "thickness"), ("force", "stress"), "S = P/(B·W)",
-    "a = crack depth", "0.1 ≤ a/W ≤ 0.9, span = 4·W",
-    ("Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399",
-     "Kumar, German & Shih, EPRI NP-1931 (1981): limit load"),
-    {"net_thickness": "= thickness", "span": "= 4·width"}))
+_register(
+    Shape(
+        "center-crack-infinite-plate",
+        center_crack_infinite.CODE,
+        "centre crack in an infinite plate",
+        center_crack_infinite,
+        (),
+        ("stress",),
+        "S = remote stress",
+        "a = half crack length",
+        "a > 0",
+        ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000)",),
+    )
+)
+_register(
+    Shape(
+        "edge-crack-semi-infinite",
+        edge_crack_semi_infinite.CODE,
+        "edge crack in a semi-infinite plate",
+        edge_crack_semi_infinite,
+        (),
+        ("stress",),
+        "S = remote stress",
+        "a = crack depth",
+        "a > 0",
+        ("Tada, Paris & Irwin, Stress Analysis of Cracks Handbook (2000): 1.1215",),
+    )
+)
+_register(
+    Shape(
+        "center-crack-plate",
+        center_crack_plate.CODE,
+        "middle-cracked tension plate, M(T)",
+        center_crack_plate,
+        ("width", "thickness"),
+        ("force", "stress"),
+        "S = P/(B·W), W = full width",
+        "a = half crack length",
+        "0 < 2a/W ≤ 0.95",
+        (
+            "Tada (1973) secant form, in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
+            "Kumar, German & Shih, EPRI NP-1931 (1981): net-section limit load",
+        ),
+        {"net_thickness": "= thickness"},
+    )
+)
+_register(
+    Shape(
+        "edge-crack-plate",
+        edge_crack_plate.CODE,
+        "single-edge-cracked tension plate, SE(T), pin loaded",
+        edge_crack_plate,
+        ("width", "thickness"),
+        ("force", "stress"),
+        "S = P/(B·W)",
+        "a = crack depth",
+        "0 < a/W ≤ 0.9",
+        (
+            "Tada (1973), in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
+            "Miller, IJPVP 32 (1988): tension-bending net-section limit load (from memory)",
+        ),
+        {"net_thickness": "= thickness"},
+    )
+)
+_register(
+    Shape(
+        "compact-tension",
+        compact_tension.CODE,
+        "compact tension specimen, C(T)",
+        compact_tension,
+        ("width", "thickness"),
+        ("force", "stress"),
+        "S = P/(B·W); W and a from the load line",
+        "a = crack length from the load line",
+        "0.2 ≤ a/W ≤ 0.95",
+        (
+            "Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399/E647/E1820",
+            "Kumar, German & Shih, EPRI NP-1931 (1981): limit load",
+        ),
+        {"net_thickness": "= thickness"},
+    )
+)
+_register(
+    Shape(
+        "three-point-bend",
+        three_point_bend.CODE,
+        "single-edge-notched bend, SE(B), S = 4W",
+        three_point_bend,
+        ("width", "thickness"),
+        ("force", "stress"),
+        "S = P/(B·W)",
+        "a = crack depth",
+        "0.1 ≤ a/W ≤ 0.9, span = 4·W",
+        (
+            "Srawley, Int. J. Fract. 12 (1976) 475; ASTM E399",
+            "Kumar, German & Shih, EPRI NP-1931 (1981): limit load",
+        ),
+        {"net_thickness": "= thickness", "span": "= 4·width"},
+    )
+)
 
-_register(Shape(
-    "surface-crack-plate", surface_crack_plate.CODE,
-    "semi-elliptical surface crack in a plate, tension and bending", surface_crack_plate,
-    ("width", "thickness", "half_length"), ("force", "stress"),
-    "S = membrane stress P/(B·W); bending stress = bending_ratio·S",
-    "a = depth, c = half_length (both grow)",
-    "0 < a/c ≤ 2 (≤ 1 with bending), a/t < 0.8, c/b < 0.5 (b = W/2)",
-    ("Newman & Raju, Eng. Fract. Mech. 15 (1981) 185 (from memory)",
-     "BS 7910:2013+A1:2015 Annex P: reference stress of a surface flaw (from memory)"),
-    {"bending_ratio": "= 0"}, two_d=True))
+_register(
+    Shape(
+        "surface-crack-plate",
+        surface_crack_plate.CODE,
+        "semi-elliptical surface crack in a plate, tension and bending",
+        surface_crack_plate,
+        ("width", "thickness", "half_length"),
+        ("force", "stress"),
+        "S = membrane stress P/(B·W); bending stress = bending_ratio·S",
+        "a = depth, c = half_length (both grow)",
+        "0 < a/c ≤ 2 (≤ 1 with bending), a/t < 0.8, c/b < 0.5 (b = W/2)",
+        (
+            "Newman & Raju, Eng. Fract. Mech. 15 (1981) 185 (from memory)",
+            "BS 7910:2013+A1:2015 Annex P: reference stress of a surface flaw (from memory)",
+        ),
+        {"bending_ratio": "= 0"},
+        two_d=True,
+    )
+)
 
-_register(Shape(
-    "axial-crack-cylinder", axial_crack_cylinder.CODE,
-    "through-wall axial crack in a pressurised cylinder", axial_crack_cylinder,
-    ("inner_radius", "thickness"), ("pressure", "stress"),
-    "S = hoop stress p·R_i/t (wall average)", "a = half crack length",
-    "λ = a/√(R_m·t) ≤ √50",
-    ("Folias, Int. J. Fract. Mech. 1 (1965) 104",
-     "Kiefner, Maxey, Eiber & Duffy, ASTM STP 536 (1973): bulging factor, flow-stress "
-     "collapse (from memory)")))
-_register(Shape(
-    "tabulated", tabulated.CODE, "user geometry from a table of a/W, F, limit-load factor",
-    tabulated, ("width", "thickness", "table"), ("force", "stress"),
-    "S = P/(B·W); K = S·√(πa)·F(a/W); P_L = factor·σ_y·W·B", "a as defined by the table",
-    "inside the table's a/W range",
-    ("Fritsch & Carlson, SIAM J. Numer. Anal. 17 (1980) 238: monotone interpolation",)))
+_register(
+    Shape(
+        "axial-crack-cylinder",
+        axial_crack_cylinder.CODE,
+        "through-wall axial crack in a pressurised cylinder",
+        axial_crack_cylinder,
+        ("inner_radius", "thickness"),
+        ("pressure", "stress"),
+        "S = hoop stress p·R_i/t (wall average)",
+        "a = half crack length",
+        "λ = a/√(R_m·t) ≤ √50",
+        (
+            "Folias, Int. J. Fract. Mech. 1 (1965) 104",
+            "Kiefner, Maxey, Eiber & Duffy, ASTM STP 536 (1973): bulging factor, flow-stress "
+            "collapse (from memory)",
+        ),
+    )
+)
+_register(
+    Shape(
+        "tabulated",
+        tabulated.CODE,
+        "user geometry from a table of a/W, F, limit-load factor",
+        tabulated,
+        ("width", "thickness", "table"),
+        ("force", "stress"),
+        "S = P/(B·W); K = S·√(πa)·F(a/W); P_L = factor·σ_y·W·B",
+        "a as defined by the table",
+        "inside the table's a/W range",
+        ("Fritsch & Carlson, SIAM J. Numer. Anal. 17 (1980) 238: monotone interpolation",),
+    )
+)
 
-_register(Shape(
-    "crack-at-hole", crack_at_hole.CODE,
-    "one or two through cracks at a circular hole in a wide plate", crack_at_hole,
-    ("hole_radius",), ("stress",), "S = remote stress",
-    "a = crack length from the hole's edge", "a > 0; hole radius R > 0",
-    ("Bowie, J. Math. Phys. 35 (1956) 60; Tada, Paris & Irwin (2000) p. 19.1 (fit, from "
-     "memory)",), {"cracks": "= 2 (or 1)"}))
+_register(
+    Shape(
+        "crack-at-hole",
+        crack_at_hole.CODE,
+        "one or two through cracks at a circular hole in a wide plate",
+        crack_at_hole,
+        ("hole_radius",),
+        ("stress",),
+        "S = remote stress",
+        "a = crack length from the hole's edge",
+        "a > 0; hole radius R > 0",
+        (
+            "Bowie, J. Math. Phys. 35 (1956) 60; Tada, Paris & Irwin (2000) p. 19.1 (fit, from "
+            "memory)",
+        ),
+        {"cracks": "= 2 (or 1)"},
+    )
+)
 
 #: shapes accepted in ``geometry.shape``
 SHAPE_NAMES = tuple(SHAPES)
@@ -154,7 +256,7 @@ class Geometry:
     params: np.ndarray
     plane_strain: bool
     dims: dict
-    notch: dict | None = None      # {kt, depth [mm], root_radius [mm]} for j_method "notch"
+    notch: dict | None = None  # {kt, depth [mm], root_radius [mm]} for j_method "notch"
 
     @property
     def code(self) -> int:
@@ -185,7 +287,8 @@ class Geometry:
         if bad.size:
             raise ValidityRangeError(
                 f"{what} {bad[0]:.6g} mm is outside the validity range of {self.shape.name} "
-                f"({self.shape.validity}: {lo:.6g} to {hi:.6g} mm)")
+                f"({self.shape.validity}: {lo:.6g} to {hi:.6g} mm)"
+            )
 
     def k_over_s(self, a):
         """K per unit nominal stress [√mm] (vectorised, range-checked)."""
@@ -195,8 +298,9 @@ class Geometry:
     def limit_stress(self, a, sigma_y: float):
         """Nominal stress at the limit load [MPa] (vectorised, range-checked)."""
         self.check_crack(a)
-        return _vectorised("limit_stress")(self.code, np.asarray(a, float), self.params,
-                                           float(sigma_y))
+        return _vectorised("limit_stress")(
+            self.code, np.asarray(a, float), self.params, float(sigma_y)
+        )
 
     def stress_intensity(self, a, nominal_stress):
         """K [MPa√mm] for crack ``a`` [mm] and nominal stress [MPa]."""
@@ -205,17 +309,24 @@ class Geometry:
     def nominal_stress_per_pressure(self) -> float:
         """Hoop stress per unit pressure, R_i/t (pressurised shapes only)."""
         if "pressure" not in self.shape.loading:
-            raise CycjInputError(f"shape {self.shape.name} takes no pressure loading",
-                                 key="loading.quantity", expected="'force' or 'stress'",
-                                 found="pressure")
+            raise CycjInputError(
+                f"shape {self.shape.name} takes no pressure loading",
+                key="loading.quantity",
+                expected="'force' or 'stress'",
+                found="pressure",
+            )
         return self.params[P.EXTRA] / self.params[P.THICKNESS]
 
     def nominal_stress_per_force(self) -> float:
         """S per unit force [MPa/N] (1/(B·W)); raises for the infinite bodies."""
         w, b = self.params[P.WIDTH], self.params[P.THICKNESS]
         if w <= 0 or b <= 0 or "force" not in self.shape.loading:
-            raise CycjInputError(f"shape {self.shape.name} takes a stress history only",
-                                 key="loading.quantity", expected="'stress'", found="force")
+            raise CycjInputError(
+                f"shape {self.shape.name} takes a stress history only",
+                key="loading.quantity",
+                expected="'stress'",
+                found="force",
+            )
         return 1.0 / (w * b)
 
 
@@ -234,42 +345,81 @@ def _vectorised(name):
     return call
 
 
-def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
-                  thickness: float = 0.0, net_thickness: float | None = None,
-                  span: float | None = None, constraint: str = "plane-strain",
-                  half_length: float = 0.0, bending_ratio: float = 0.0,
-                  inner_radius: float = 0.0, table=None, hole_radius: float = 0.0,
-                  cracks: int = 2,
-                  source: str | None = None, prefix: str = "geometry") -> Geometry:
+def make_geometry(
+    shape: str,
+    crack_length: float,
+    *,
+    width: float = 0.0,
+    thickness: float = 0.0,
+    net_thickness: float | None = None,
+    span: float | None = None,
+    constraint: str = "plane-strain",
+    half_length: float = 0.0,
+    bending_ratio: float = 0.0,
+    inner_radius: float = 0.0,
+    table=None,
+    hole_radius: float = 0.0,
+    cracks: int = 2,
+    source: str | None = None,
+    prefix: str = "geometry",
+) -> Geometry:
     """Build a :class:`Geometry` from dimensions in mm, checking them (errors name the key)."""
     if shape not in SHAPES:
         import difflib
 
         near = difflib.get_close_matches(shape, SHAPE_NAMES, n=1)
         hint = f" (did you mean '{near[0]}'?)" if near else ""
-        raise CycjInputError(f"unknown shape{hint}", source=source, key=f"{prefix}.shape",
-                             expected="one of " + ", ".join(SHAPE_NAMES), found=shape)
+        raise CycjInputError(
+            f"unknown shape{hint}",
+            source=source,
+            key=f"{prefix}.shape",
+            expected="one of " + ", ".join(SHAPE_NAMES),
+            found=shape,
+        )
     s = SHAPES[shape]
     if constraint not in ("plane-strain", "plane-stress"):
-        raise CycjInputError("unknown constraint", source=source, key=f"{prefix}.constraint",
-                             expected="'plane-strain' or 'plane-stress'", found=constraint)
-    vals = {"width": width, "thickness": thickness, "half_length": half_length,
-            "inner_radius": inner_radius, "table": 1.0 if table is not None else 0.0,
-            "hole_radius": hole_radius}
+        raise CycjInputError(
+            "unknown constraint",
+            source=source,
+            key=f"{prefix}.constraint",
+            expected="'plane-strain' or 'plane-stress'",
+            found=constraint,
+        )
+    vals = {
+        "width": width,
+        "thickness": thickness,
+        "half_length": half_length,
+        "inner_radius": inner_radius,
+        "table": 1.0 if table is not None else 0.0,
+        "hole_radius": hole_radius,
+    }
     for k in s.required:
         if not (vals[k] > 0 and math.isfinite(vals[k])):
-            raise CycjInputError("must be a positive size", source=source, key=f"{prefix}.{k}",
-                                 expected=f"a length > 0 for {shape}", found=vals[k])
+            raise CycjInputError(
+                "must be a positive size",
+                source=source,
+                key=f"{prefix}.{k}",
+                expected=f"a length > 0 for {shape}",
+                found=vals[k],
+            )
     bn = thickness if net_thickness is None else net_thickness
     if "thickness" in s.required and not (0 < bn <= thickness):
-        raise CycjInputError("net thickness must be positive and not above the thickness",
-                             source=source, key=f"{prefix}.net_thickness",
-                             expected=f"0 < B_N ≤ {thickness:g} mm", found=bn)
+        raise CycjInputError(
+            "net thickness must be positive and not above the thickness",
+            source=source,
+            key=f"{prefix}.net_thickness",
+            expected=f"0 < B_N ≤ {thickness:g} mm",
+            found=bn,
+        )
     sp = 4.0 * width if span is None else span
     if shape == "three-point-bend" and abs(sp / width - 4.0) > 0.04:
-        raise CycjInputError("the SE(B) solution is published for span = 4·width only",
-                             source=source, key=f"{prefix}.span",
-                             expected=f"{4 * width:g} mm", found=sp)
+        raise CycjInputError(
+            "the SE(B) solution is published for span = 4·width only",
+            source=source,
+            key=f"{prefix}.span",
+            expected=f"{4 * width:g} mm",
+            found=sp,
+        )
     p = np.zeros(P.N_PARAMS)
     p[P.WIDTH], p[P.THICKNESS], p[P.NET_THICKNESS] = width, thickness, bn
     p[P.SPAN] = sp
@@ -278,24 +428,45 @@ def make_geometry(shape: str, crack_length: float, *, width: float = 0.0,
     p[P.EXTRA] = inner_radius
     p[P.HOLE_RADIUS], p[P.CRACKS] = hole_radius, cracks
     if cracks not in (1, 2):
-        raise CycjInputError("a crack at a hole has 1 or 2 cracks", source=source,
-                             key=f"{prefix}.cracks", expected="1 or 2", found=cracks)
+        raise CycjInputError(
+            "a crack at a hole has 1 or 2 cracks",
+            source=source,
+            key=f"{prefix}.cracks",
+            expected="1 or 2",
+            found=cracks,
+        )
     if table is not None:
         p = np.concatenate([p, tabulated.table_params(*table)])
     if s.two_d:
-        _check_surface_crack(crack_length, half_length, width, thickness, bending_ratio,
-                             source, prefix)
-    geo = Geometry(s, float(crack_length), p, constraint == "plane-strain",
-                   {"width": width, "thickness": thickness, "net_thickness": bn, "span": sp,
-                    "half_length": half_length, "bending_ratio": bending_ratio,
-                    "inner_radius": inner_radius, "hole_radius": hole_radius,
-                    "cracks": cracks})
+        _check_surface_crack(
+            crack_length, half_length, width, thickness, bending_ratio, source, prefix
+        )
+    geo = Geometry(
+        s,
+        float(crack_length),
+        p,
+        constraint == "plane-strain",
+        {
+            "width": width,
+            "thickness": thickness,
+            "net_thickness": bn,
+            "span": sp,
+            "half_length": half_length,
+            "bending_ratio": bending_ratio,
+            "inner_radius": inner_radius,
+            "hole_radius": hole_radius,
+            "cracks": cracks,
+        },
+    )
     lo, hi = geo.size_limits
     if not (crack_length > 0 and lo * (1 - 1e-12) <= crack_length <= hi * (1 + 1e-12)):
-        raise CycjInputError("crack outside the body or the solution's validity range",
-                             source=source, key=f"{prefix}.crack_length",
-                             expected=f"{lo:g} < a ≤ {hi:g} mm ({s.validity})",
-                             found=crack_length)
+        raise CycjInputError(
+            "crack outside the body or the solution's validity range",
+            source=source,
+            key=f"{prefix}.crack_length",
+            expected=f"{lo:g} < a ≤ {hi:g} mm ({s.validity})",
+            found=crack_length,
+        )
     return geo
 
 
@@ -303,10 +474,18 @@ def _check_surface_crack(a, c, w, t, beta, source, prefix):
     """Newman–Raju validity at the start: 0 < a/c ≤ 2 (≤ 1 with bending), c/b < 0.5."""
     aspect_max = 1.0 if beta else 2.0
     if not c > 0 or not 0 < a / c <= aspect_max:
-        raise CycjInputError("aspect ratio a/c outside the Newman–Raju range", source=source,
-                             key=f"{prefix}.half_length",
-                             expected=f"0 < a/c ≤ {aspect_max:g}", found=c)
+        raise CycjInputError(
+            "aspect ratio a/c outside the Newman–Raju range",
+            source=source,
+            key=f"{prefix}.half_length",
+            expected=f"0 < a/c ≤ {aspect_max:g}",
+            found=c,
+        )
     if not c < 0.25 * w:
-        raise CycjInputError("half-length too large for the plate width (c/b < 0.5)",
-                             source=source, key=f"{prefix}.half_length",
-                             expected=f"c < {0.25 * w:g} mm (W/4)", found=c)
+        raise CycjInputError(
+            "half-length too large for the plate width (c/b < 0.5)",
+            source=source,
+            key=f"{prefix}.half_length",
+            expected=f"c < {0.25 * w:g} mm (W/4)",
+            found=c,
+        )

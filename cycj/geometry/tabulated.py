@@ -21,8 +21,8 @@ from cycj._jit import jit
 from cycj.geometry._params import N_PARAMS
 
 CODE = 9
-HEADER = N_PARAMS   # standard slots before the table
-DENSE = 2048        # resampled points
+HEADER = N_PARAMS  # standard slots before the table
+DENSE = 2048  # resampled points
 
 
 @jit
@@ -67,8 +67,8 @@ def table_params(alpha, f, factor):
     grid = np.linspace(alpha[0], alpha[-1], DENSE)
     out = np.empty(3 + 2 * DENSE)
     out[0], out[1], out[2] = alpha[0], alpha[-1], DENSE
-    out[3:3 + DENSE] = PchipInterpolator(alpha, f)(grid)
-    out[3 + DENSE:] = PchipInterpolator(alpha, factor)(grid)
+    out[3 : 3 + DENSE] = PchipInterpolator(alpha, f)(grid)
+    out[3 + DENSE :] = PchipInterpolator(alpha, factor)(grid)
     return out
 
 
@@ -85,18 +85,26 @@ def read_table(path, source=None, key="geometry.table"):
     need = ["a_over_W", "F", "limit_load_factor"]
     missing = [c for c in need if c not in df.columns]
     if missing:
-        raise CycjInputError("missing columns", source=str(path), expected=", ".join(need),
-                             found=list(df.columns))
+        raise CycjInputError(
+            "missing columns", source=str(path), expected=", ".join(need), found=list(df.columns)
+        )
     try:
         arr = df[need].to_numpy(dtype=float)
     except ValueError:
-        raise CycjInputError("a value is not a number", source=str(path),
-                             expected="numbers in a_over_W, F, limit_load_factor") from None
+        raise CycjInputError(
+            "a value is not a number",
+            source=str(path),
+            expected="numbers in a_over_W, F, limit_load_factor",
+        ) from None
     for i, row in enumerate(arr):
         if not np.all(np.isfinite(row)) or row[1] <= 0 or row[2] <= 0 or not 0 < row[0] < 1:
-            raise CycjInputError("bad row", source=str(path), line=i + 2,
-                                 expected="0 < a_over_W < 1, F > 0, limit_load_factor > 0",
-                                 found=list(row))
+            raise CycjInputError(
+                "bad row",
+                source=str(path),
+                line=i + 2,
+                expected="0 < a_over_W < 1, F > 0, limit_load_factor > 0",
+                found=list(row),
+            )
     if arr.shape[0] < 3 or np.any(np.diff(arr[:, 0]) <= 0):
         raise CycjInputError("a_over_W must increase, with at least 3 rows", source=str(path))
     return arr[:, 0], arr[:, 1], arr[:, 2]

@@ -24,8 +24,11 @@ CODE = 6
 @jit
 def srawley_factor(alpha):
     """f(a/W) of the ASTM E399 SE(B) expression for S/W = 4 (dimensionless)."""
-    num = 3.0 * math.sqrt(alpha) * (1.99 - alpha * (1.0 - alpha)
-                                    * (2.15 - 3.93 * alpha + 2.7 * alpha**2))
+    num = (
+        3.0
+        * math.sqrt(alpha)
+        * (1.99 - alpha * (1.0 - alpha) * (2.15 - 3.93 * alpha + 2.7 * alpha**2))
+    )
     return num / (2.0 * (1.0 + 2.0 * alpha) * (1.0 - alpha) ** 1.5)
 
 

@@ -43,7 +43,7 @@ def blocks_to_grow(a_grid, growth_per_block):
     for k in range(a.size - 1):
         g0, g1 = g[k], g[k + 1]
         if g0 <= 0.0 or g1 <= 0.0:
-            b[k + 1:] = math.inf
+            b[k + 1 :] = math.inf
             break
         b[k + 1] = b[k] + _segment(a[k], a[k + 1], g0, g1)
     return b
@@ -78,16 +78,24 @@ def block_phase(case, loads, mp, a0, a_crit, max_cycles):
     geo = case.geometry
     grid = _grid(a0, a_crit, loads.n)
     table = np.zeros((grid.size, 5))
-    K.block_growth_table(loads.lmax, loads.lmin, grid, geo.code, geo.params, loads.ct, mp,
-                         table)
+    K.block_growth_table(loads.lmax, loads.lmin, grid, geo.code, geo.params, loads.ct, mp, table)
     b = blocks_to_grow(grid, table[:, 0])
     finite = np.isfinite(b)
     b_end = b[finite][-1] if finite.any() else 0.0
     b_end = min(b_end, max_cycles / loads.n)
     k0 = max(math.floor(b_end) - 2, 0)
     a_start = crack_after_blocks(grid, b, k0)
-    rows = [(b[k] * loads.n, b[k], grid[k], table[k, 4], table[k, 1], table[k, 2],
-             table[k, 3], table[k, 0] / loads.n)
-            for k in np.nonzero(finite & (b <= k0))[0]]
+    rows = [
+        (
+            b[k] * loads.n,
+            b[k],
+            grid[k],
+            table[k, 4],
+            table[k, 1],
+            table[k, 2],
+            table[k, 3],
+            table[k, 0] / loads.n,
+        )
+        for k in np.nonzero(finite & (b <= k0))[0]
+    ]
     return a_start, float(k0), rows
-

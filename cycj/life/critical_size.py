@@ -23,8 +23,13 @@ from cycj.life.loads import BlockLoads, block_loads
 from cycj.life.stepper import cycle_driving_force
 
 
-def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: float = 1.0,
-                          loads: BlockLoads | None = None, mp: np.ndarray | None = None):
+def critical_crack_length(
+    case: Case,
+    load_scale: float = 1.0,
+    toughness_scale: float = 1.0,
+    loads: BlockLoads | None = None,
+    mp: np.ndarray | None = None,
+):
     """Smallest crack size [mm] at which an end criterion trips under the history's peak load,
     and the criterion's name."""
     loads = loads or block_loads(case, load_scale)
@@ -44,8 +49,9 @@ def critical_crack_length(case: Case, load_scale: float = 1.0, toughness_scale: 
     a_lo, a_hi = grid[k - 1], grid[k]
     for _ in range(60):
         mid = 0.5 * (a_lo + a_hi)
-        kk, c = K.first_end(loads.lmax, loads.i_peak, np.array([mid]), geo.code, geo.params,
-                            loads.ct, mp)
+        kk, c = K.first_end(
+            loads.lmax, loads.i_peak, np.array([mid]), geo.code, geo.params, loads.ct, mp
+        )
         if kk == 0:
             a_hi, code = mid, c
         else:
@@ -66,8 +72,7 @@ def tearing_margin_kernel(lmax, i_peak, a, a_hi, c1, c2, code, gp, ct, mp, n_poi
     step = (np.log(span) - lo) / (n_points - 1) if span > 1e-4 else 0.0
     for k in range(n_points):
         da = np.exp(lo + step * k) if step > 0.0 else span
-        jmax = cycle_driving_force(lmax, zeros, i_peak, min(a + da, a_hi), code, gp, ct,
-                                   mp)[1]
+        jmax = cycle_driving_force(lmax, zeros, i_peak, min(a + da, a_hi), code, gp, ct, mp)[1]
         best = max(best, c1 * da**c2 - jmax)
     return best
 
@@ -82,13 +87,27 @@ def tearing_margin(geometry, loads, a, c1, c2, mp, n_points=400):
     """
 
     hi = geometry.size_limits[1]
-    return float(tearing_margin_kernel(loads.lmax, loads.i_peak, a, hi, c1, c2, geometry.code,
-                                       geometry.params, loads.ct, mp, n_points))
+    return float(
+        tearing_margin_kernel(
+            loads.lmax,
+            loads.i_peak,
+            a,
+            hi,
+            c1,
+            c2,
+            geometry.code,
+            geometry.params,
+            loads.ct,
+            mp,
+            n_points,
+        )
+    )
 
 
 def tearing_instability_size(geometry, loads, a_from, a_to, c1, c2, mp, tol=1e-4):
     """Smallest crack size in [a_from, a_to] [mm] that is unstable on the J–R curve under the
     history's peak load (bisection; ``inf`` if the whole range is stable)."""
+
     def margin(a):
         return tearing_margin(geometry, loads, a, c1, c2, mp)
 
@@ -104,4 +123,3 @@ def tearing_instability_size(geometry, loads, a_from, a_to, c1, c2, mp, tol=1e-4
         else:
             lo = mid
     return hi
-

@@ -15,13 +15,25 @@ def _run_one(case_file: str, out: str, method, force):
 
     try:
         s = run_and_write(load_case(case_file), Path(out), method=method, force=force)
-        return {"case": case_file, "cycles_to_end": s["cycles_to_end"],
-                "end_reason": s["end_reason"], "a_end_mm": s["a_end_mm"],
-                "hours_to_end": s.get("hours_to_end"), "output": out, "error": ""}
+        return {
+            "case": case_file,
+            "cycles_to_end": s["cycles_to_end"],
+            "end_reason": s["end_reason"],
+            "a_end_mm": s["a_end_mm"],
+            "hours_to_end": s.get("hours_to_end"),
+            "output": out,
+            "error": "",
+        }
     except (CycjInputError, ValidityRangeError) as exc:
-        return {"case": case_file, "cycles_to_end": float("nan"), "end_reason": "",
-                "a_end_mm": float("nan"), "hours_to_end": None, "output": "",
-                "error": str(exc)}
+        return {
+            "case": case_file,
+            "cycles_to_end": float("nan"),
+            "end_reason": "",
+            "a_end_mm": float("nan"),
+            "hours_to_end": None,
+            "output": "",
+            "error": str(exc),
+        }
 
 
 def run_fleet(case_files, out_dir=None, *, method=None, force=False, scheduler=None):
@@ -51,7 +63,9 @@ def run_fleet(case_files, out_dir=None, *, method=None, force=False, scheduler=N
         table = pd.DataFrame(rows).sort_values("cycles_to_end", na_position="last")
         for r in rows:
             r["output"] = r["output"].replace(str(od.tmp), str(root)) if r["output"] else ""
-        table["output"] = [str(root / Path(r["output"]).name) if r["output"] else ""
-                           for r in table.to_dict("records")]
+        table["output"] = [
+            str(root / Path(r["output"]).name) if r["output"] else ""
+            for r in table.to_dict("records")
+        ]
         od.write_csv("fleet.csv", table)
     return table

@@ -43,7 +43,7 @@ class BlockLoads:
     ct: np.ndarray = field(default_factory=lambda: np.zeros((1, 2, 1)))
     i_peak: int = 0
     channel_slots: dict = field(default_factory=dict)
-    peak_equivalent: float | None = None   # with load channels: combined peak as membrane MPa
+    peak_equivalent: float | None = None  # with load channels: combined peak as membrane MPa
 
     @property
     def n(self) -> int:
@@ -71,12 +71,12 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
     so overloads stay where they happened.
     """
     ld = case.loading
-    per_force = {"force": case.geometry.nominal_stress_per_force,
-                 "pressure": case.geometry.nominal_stress_per_pressure}.get(
-        ld.quantity, lambda: 1.0)()
+    per_force = {
+        "force": case.geometry.nominal_stress_per_force,
+        "pressure": case.geometry.nominal_stress_per_pressure,
+    }.get(ld.quantity, lambda: 1.0)()
     order = "closing" if ld.sequence == "none" else "reversal"
     if case.fields is not None:
-
         lmax, lmin, ct, i_peak, slots, samples, peak = channel_block(case, load_scale, order)
         return BlockLoads(lmax, lmin, order, ld.duration_h, samples, ct, i_peak, slots, peak)
     if ld.constant is not None:
@@ -89,21 +89,32 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
 
         kind = "force" if ld.quantity == "force" else "stress"
         unit_factor = 1.0 if ld.unit is None else to_internal(f"1 {ld.unit}", kind)
-        values = read_history(ld.history, column=ld.column, unit_factor=unit_factor,
-                              scale=ld.scale)
+        values = read_history(ld.history, column=ld.column, unit_factor=unit_factor, scale=ld.scale)
         samples = int(values.size)
         peaks, valleys = cycles_in_sequence(values, gate=ld.gate, order=order)
         if peaks.size == 0:
-            raise CycjInputError("the history has no cycles above the gate", source=str(
-                ld.history), key="loading.gate", found=ld.gate)
+            raise CycjInputError(
+                "the history has no cycles above the gate",
+                source=str(ld.history),
+                key="loading.gate",
+                found=ld.gate,
+            )
         smax, smin = peaks * per_force, valleys * per_force
     smax, smin = smax * load_scale, smin * load_scale
     if not np.any(smax > 0):
-        raise CycjInputError("no cycle reaches a tensile load: the crack cannot grow",
-                             source=str(case.path), key="loading")
-    return BlockLoads(np.ascontiguousarray(smax[:, None], float),
-                      np.ascontiguousarray(smin[:, None], float), order, ld.duration_h,
-                      samples, i_peak=int(np.argmax(smax)))
+        raise CycjInputError(
+            "no cycle reaches a tensile load: the crack cannot grow",
+            source=str(case.path),
+            key="loading",
+        )
+    return BlockLoads(
+        np.ascontiguousarray(smax[:, None], float),
+        np.ascontiguousarray(smin[:, None], float),
+        order,
+        ld.duration_h,
+        samples,
+        i_peak=int(np.argmax(smax)),
+    )
 
 
 def block_info(case: Case) -> tuple[int, float | None]:
@@ -129,14 +140,15 @@ def channel_block(case, load_scale: float, order: str):
     from cycj.fields.profiles import StressProfile
 
     ld, spec = case.loading, case.fields
-    channels = spec.channels or (Channel("load", ld.column, 1.0, 1.0,
-                                         spec.profile or StressProfile(**UNIFORM)),)
+    channels = spec.channels or (
+        Channel("load", ld.column, 1.0, 1.0, spec.profile or StressProfile(**UNIFORM)),
+    )
     _, ct, slots, k_of = _tables(case, channels)
     k_unit = k_of(StressProfile(**UNIFORM))[0]
     values, samples = _channel_values(case, channels)
     values = values * load_scale
     k0 = np.array([k_of(ch.profile)[0] for ch in channels])
-    combined = values @ k0 / k_unit          # equivalent membrane stress at a0 [MPa]
+    combined = values @ k0 / k_unit  # equivalent membrane stress at a0 [MPa]
     if ld.constant is not None:
         peak_idx, valley_idx = np.array([0]), np.array([1])
     else:
@@ -146,8 +158,12 @@ def channel_block(case, load_scale: float, order: str):
         if peak_idx.size == 0:
             from cycj.errors import CycjInputError
 
-            raise CycjInputError("the combined load history has no cycles above the gate",
-                                 source=str(ld.history), key="loading.gate", found=ld.gate)
+            raise CycjInputError(
+                "the combined load history has no cycles above the gate",
+                source=str(ld.history),
+                key="loading.gate",
+                found=ld.gate,
+            )
     lmax = np.ascontiguousarray(values[peak_idx])
     lmin = np.ascontiguousarray(values[valley_idx])
     i_peak = int(np.argmax(combined[peak_idx]))
@@ -175,7 +191,7 @@ def _tables(case, channels):
         ga = np.linspace(a0, 0.8 * t, N_GRID_2D)
         gc = np.linspace(min(c0, a0), 0.25 * w - 1e-9, N_GRID_2D)
         aa, cc = np.meshgrid(ga, gc, indexing="ij")
-        cc = np.maximum(cc, aa)                     # a/c ≤ 1: the weight functions' range
+        cc = np.maximum(cc, aa)  # a/c ≤ 1: the weight functions' range
         ct = np.zeros((2 * (nch + 1), ga.size, gc.size))
         for p, point in enumerate(("deepest", "surface")):
             base = p * (nch + 1)
@@ -183,10 +199,22 @@ def _tables(case, channels):
                 ct[base + j] = surface_crack_k(aa, cc, t, ch.profile, width=w, point=point)
             if spec.residual is not None:
                 ct[base + nch] = residual_stress_k(
-                    aa, spec.residual, "surface-crack-plate", _relaxation(case), c=cc,
-                    thickness=t, width=w, point=point)
-        slots = {M.CH_C_LO: gc[0], M.CH_C_HI: gc[-1], M.CH_SURFACE: 1.0, M.CH_WIDTH: w,
-                 M.CH_THICKNESS: t}
+                    aa,
+                    spec.residual,
+                    "surface-crack-plate",
+                    _relaxation(case),
+                    c=cc,
+                    thickness=t,
+                    width=w,
+                    point=point,
+                )
+        slots = {
+            M.CH_C_LO: gc[0],
+            M.CH_C_HI: gc[-1],
+            M.CH_SURFACE: 1.0,
+            M.CH_WIDTH: w,
+            M.CH_THICKNESS: t,
+        }
 
         def k_of(profile):
             return surface_crack_k(np.array([a0]), np.array([c0]), t, profile, width=w)
@@ -197,12 +225,14 @@ def _tables(case, channels):
         for j, ch in enumerate(channels):
             ct[j, :, 0] = edge_crack_plate_k(ga, w, ch.profile)
         if spec.residual is not None:
-            ct[nch, :, 0] = residual_stress_k(ga, spec.residual, "edge-crack-plate",
-                                              _relaxation(case), width=w)
+            ct[nch, :, 0] = residual_stress_k(
+                ga, spec.residual, "edge-crack-plate", _relaxation(case), width=w
+            )
         slots = {M.CH_THICKNESS: w, M.CH_SURFACE: 0.0}
 
         def k_of(profile):
             return edge_crack_plate_k(np.array([a0]), w, profile)
+
     slots.update({M.CH_MODE: 1.0, M.CH_N: float(nch), M.CH_A_LO: ga[0], M.CH_A_HI: ga[-1]})
     return ga, np.ascontiguousarray(ct), slots, k_of
 
@@ -220,7 +250,7 @@ def _relaxation(case):
         return 1.0
     geo = case.geometry
     alpha = geo.crack_length / (geo.dims["thickness"] if geo.two_d else geo.dims["width"])
-    pm, pb = (spec.profile.linearise() if spec.profile is not None else (1.0, 0.0))
+    pm, pb = spec.profile.linearise() if spec.profile is not None else (1.0, 0.0)
     s_ref = plate_reference_stress(peak * pm, peak * pb, alpha)
     return float(bs7910_residual_relaxation(s_ref, case.material.flow_stress))
 
@@ -242,8 +272,7 @@ def _channel_values(case, channels):
         else:
             factor = 1.0 if ld.unit is None else to_internal(f"1 {ld.unit}", "stress")
             scale = ld.scale
-        cols.append(read_history(ld.history, column=ch.column, unit_factor=factor,
-                                 scale=scale))
+        cols.append(read_history(ld.history, column=ch.column, unit_factor=factor, scale=scale))
     n = min(c.size for c in cols)
     return np.column_stack([c[:n] for c in cols]), n
 

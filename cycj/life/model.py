@@ -46,8 +46,12 @@ def choose_models(case: Case, mp: np.ndarray, cited: Citations) -> None:
     mp[M.FAD_CURVE] = cited.choose("fad", fad) if "fad" in crit else models.code("fad", fad)
 
 
-def model_array(case: Case, toughness_scale: float = 1.0,
-                loads: BlockLoads | None = None, cited: Citations | None = None) -> np.ndarray:
+def model_array(
+    case: Case,
+    toughness_scale: float = 1.0,
+    loads: BlockLoads | None = None,
+    cited: Citations | None = None,
+) -> np.ndarray:
     """Fill the compiled kernels' model-parameter array from a case (see cycj.kernel_slots);
     the models chosen are cited in ``cited`` (a new, discarded collection when None)."""
     mat, geo, law, ld = case.material, case.geometry, case.growth, case.loading
@@ -57,12 +61,14 @@ def model_array(case: Case, toughness_scale: float = 1.0,
     mp[M.E_PRIME] = mat.effective_modulus(geo.plane_strain)
     mp[M.SIGMA_Y] = mat.yield_strength
     cyc = mat.cyclic_curve
-    mp[M.K_CYC], mp[M.N_CYC] = (cyc.strength_coefficient, cyc.hardening_exponent) if cyc else (
-        1.0, 0.5)
+    mp[M.K_CYC], mp[M.N_CYC] = (
+        (cyc.strength_coefficient, cyc.hardening_exponent) if cyc else (1.0, 0.5)
+    )
     peak = mat.peak_curve
     # without any curve J_max is taken elastic: an enormous K makes the plastic term vanish
-    mp[M.K_PEAK], mp[M.N_PEAK] = (peak.strength_coefficient, peak.hardening_exponent) if peak \
-        else (1e30, 0.5)
+    mp[M.K_PEAK], mp[M.N_PEAK] = (
+        (peak.strength_coefficient, peak.hardening_exponent) if peak else (1e30, 0.5)
+    )
     mp[M.FLOW_RATIO] = mat.flow_stress / mat.yield_strength
     mp[M.LR_MAX] = mat.lr_max
     mp[M.J_C] = (mat.J_c or math.inf) * toughness_scale
@@ -91,7 +97,7 @@ def model_array(case: Case, toughness_scale: float = 1.0,
         from cycj.geometry import _params as GP
 
         mp[M.TWO_D] = 1.0
-        mp[M.LEAK_SIZE] = geo.size_limits[1]      # a/t = 0.8: end of the K solution → leak
+        mp[M.LEAK_SIZE] = geo.size_limits[1]  # a/t = 0.8: end of the K solution → leak
         mp[M.ASPECT_MAX] = 1.0 if geo.params[GP.BENDING_RATIO] else 2.0
         mp[M.C_LIMIT] = 0.25 * geo.params[GP.WIDTH]
         lim = case.run.crack_length_limit
@@ -99,14 +105,15 @@ def model_array(case: Case, toughness_scale: float = 1.0,
     if loads is not None and loads.channel_slots:
         _channel_params(case, loads, mp)
         if geo.two_d:
-            mp[M.ASPECT_MAX] = 1.0   # the surface-crack weight functions hold for a/c ≤ 1
+            mp[M.ASPECT_MAX] = 1.0  # the surface-crack weight functions hold for a/c ≤ 1
     if "tearing" in crit and loads is not None:
         from cycj.life.critical_size import tearing_instability_size
 
         rc = mat.resistance_curve
         a_from = geo.size_limits[0] if geo.size_limits[0] > 0 else 1e-6
-        mp[M.A_TEAR] = tearing_instability_size(geo, loads, a_from, mp[M.A_LIMIT],
-                                                rc.C1 * toughness_scale, rc.C2, mp)
+        mp[M.A_TEAR] = tearing_instability_size(
+            geo, loads, a_from, mp[M.A_LIMIT], rc.C1 * toughness_scale, rc.C2, mp
+        )
     return mp
 
 
@@ -114,4 +121,3 @@ def _channel_params(case, loads, mp):
     """Channel slots of the model array (filled in with load channels)."""
     for key, val in loads.channel_slots.items():
         mp[key] = val
-

@@ -32,14 +32,23 @@ def crack_growth_figure(result):
     plt = _plt()
     h, s = result.history, result.summary
     fig, ax = plt.subplots(figsize=(6.4, 4.2))
-    ax.plot(h["cycle"], h["a_mm"], lw=1.6,
-            label="depth a" if "c_mm" in h else "crack size")
+    ax.plot(h["cycle"], h["a_mm"], lw=1.6, label="depth a" if "c_mm" in h else "crack size")
     if "c_mm" in h:
         ax.plot(h["cycle"], h["c_mm"], lw=1.4, color="C1", label="half-length c")
-    ax.plot([s["cycles_to_end"]], [s["a_end_mm"]], "o", color="C3",
-            label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles")
-    ax.axhline(s["critical_crack_length_mm"], ls="--", color="0.5", lw=1,
-               label=f"critical size at peak load ({s['critical_crack_criterion']})")
+    ax.plot(
+        [s["cycles_to_end"]],
+        [s["a_end_mm"]],
+        "o",
+        color="C3",
+        label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles",
+    )
+    ax.axhline(
+        s["critical_crack_length_mm"],
+        ls="--",
+        color="0.5",
+        lw=1,
+        label=f"critical size at peak load ({s['critical_crack_criterion']})",
+    )
     _widen(ax, h["cycle"])
     ax.set_xlabel("cycles N")
     ax.set_ylabel("crack size [mm]")
@@ -53,7 +62,7 @@ def driving_force_figure(result):
     plt = _plt()
     h = result.history
     fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
-    dot = "o" if len(h) < 3 else None      # a run that ends at once has a single point
+    dot = "o" if len(h) < 3 else None  # a run that ends at once has a single point
     ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
     ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", label="largest cycle ΔJ_eff")
     _widen(ax1, h["a_mm"])
@@ -86,8 +95,11 @@ def criterion_figure(result):
         from cycj.jintegral import fad_option1, fad_option2
 
         lr = np.linspace(0, mat.lr_max, 200)
-        f = fad_option2(lr, mat) if case.analysis.fad == "option-2" and mat.peak_curve \
+        f = (
+            fad_option2(lr, mat)
+            if case.analysis.fad == "option-2" and mat.peak_curve
             else fad_option1(lr, mat.lr_max)
+        )
         ax.plot(lr, f, color="k", label=f"FAD {case.analysis.fad}")
         ax.vlines(mat.lr_max, 0, f[-1], color="k")
         a = np.clip(h["a_mm"].to_numpy(), *case.geometry.size_limits)

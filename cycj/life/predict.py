@@ -26,8 +26,17 @@ from cycj.life.model import model_array, size_limit
 #: rows of history aimed at between the initial and the critical crack size
 HISTORY_ROWS = 400
 #: history.csv columns (c_mm only for two-dimensional cracks)
-HISTORY_COLUMNS = ["cycle", "block", "a_mm", "dJ_kJm2", "dJ_eq_kJm2", "Jmax_kJm2", "Lr",
-                   "dadN_mm_per_cycle", "c_mm"]
+HISTORY_COLUMNS = [
+    "cycle",
+    "block",
+    "a_mm",
+    "dJ_kJm2",
+    "dJ_eq_kJm2",
+    "Jmax_kJm2",
+    "Lr",
+    "dadN_mm_per_cycle",
+    "c_mm",
+]
 #: cycles handed to one compiled call (progress and Ctrl-C between calls)
 CHUNK_CYCLES = 4_000_000
 
@@ -50,7 +59,7 @@ class LifeResult:
     loads: BlockLoads
     warnings: list = field(default_factory=list)
     references: list = field(default_factory=list)
-    model: np.ndarray | None = None     # the kernels' model-parameter array of the run
+    model: np.ndarray | None = None  # the kernels' model-parameter array of the run
 
     def peak_points(self, a_mm, c_mm=None):
         """(L_r, K_r) under the history's peak load at crack sizes ``a_mm`` (half-lengths
@@ -63,8 +72,9 @@ class LifeResult:
         lr, kr = [], []
         for a, c in zip(a_mm, c_mm, strict=True):
             gp[5] = c
-            _, _, l_r, jel, _, rho = K.peak_state(loads.lmax, loads.i_peak, a, geo.code, gp,
-                                                  loads.ct, self.model)
+            _, _, l_r, jel, _, rho = K.peak_state(
+                loads.lmax, loads.i_peak, a, geo.code, gp, loads.ct, self.model
+            )
             lr.append(l_r)
             kr.append(math.sqrt(jel / self.model[M.J_C]) + rho)
         return np.array(lr), np.array(kr)
@@ -82,20 +92,29 @@ def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, 
     requested = case.run.method
     if case.geometry.two_d:
         if requested == "block":
-            raise CycjInputError("block mode integrates one crack dimension; a surface crack "
-                                 "grows in depth and length", key="run.method", found="block",
-                                 expected="'cycle' or 'auto'")
+            raise CycjInputError(
+                "block mode integrates one crack dimension; a surface crack "
+                "grows in depth and length",
+                key="run.method",
+                found="block",
+                expected="'cycle' or 'auto'",
+            )
         return "cycle", "a two-dimensional crack needs the cycle stepper"
     if case.loading.sequence != "none":
         if requested == "block":
-            raise CycjInputError("block mode freezes the crack within a block and cannot carry "
-                                 "a load-sequence model", key="run.method", found="block",
-                                 expected="'cycle' or 'auto' with a sequence model")
+            raise CycjInputError(
+                "block mode freezes the crack within a block and cannot carry "
+                "a load-sequence model",
+                key="run.method",
+                found="block",
+                expected="'cycle' or 'auto' with a sequence model",
+            )
         return "cycle", "a sequence model needs the cycle stepper"
     if requested != "auto":
         return requested, "requested"
-    g0 = K.block_growth(loads.lmax, loads.lmin, a0, case.geometry.code,
-                        case.geometry.params, loads.ct, mp)[0]
+    g0 = K.block_growth(
+        loads.lmax, loads.lmin, a0, case.geometry.code, case.geometry.params, loads.ct, mp
+    )[0]
     if g0 <= 0:
         return "cycle", "no growth in the first block"
     if g0 < 0.002 * (a_crit - a0) and g0 < 1e-3 * a0:
@@ -111,14 +130,26 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     acc = np.zeros(8)
     acc[0], acc[1] = state[M.ST_A], state[M.ST_CYCLES]
     chunk = max(1, int(CHUNK_CYCLES // loads.n))
-    stepper = K.stepper_for(bool(loads.channel_slots), geo.two_d,
-                            case.loading.sequence != "none")
+    stepper = K.stepper_for(bool(loads.channel_slots), geo.two_d, case.loading.sequence != "none")
     rec_n = 0
     rows = []
     try:
         while True:
-            end, val, rec_n = stepper(loads.lmax, loads.lmin, state, chunk, max_cycles,
-                                      geo.code, gp, loads.ct, mp, rec_da, rec, rec_n, acc)
+            end, val, rec_n = stepper(
+                loads.lmax,
+                loads.lmin,
+                state,
+                chunk,
+                max_cycles,
+                geo.code,
+                gp,
+                loads.ct,
+                mp,
+                rec_da,
+                rec,
+                rec_n,
+                acc,
+            )
             if rec_n > rec.shape[0] - 5:  # flush and keep recording
                 rows.extend(map(tuple, rec[:rec_n]))
                 rec_n = 0
@@ -132,9 +163,14 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     return end, val, rows, acc[7]
 
 
-def predict_life(case: Case, method: str | None = None, progress=None, load_scale: float = 1.0,
-                 a_start_mm: float | None = None, history_rows: int = HISTORY_ROWS
-                 ) -> LifeResult:
+def predict_life(
+    case: Case,
+    method: str | None = None,
+    progress=None,
+    load_scale: float = 1.0,
+    a_start_mm: float | None = None,
+    history_rows: int = HISTORY_ROWS,
+) -> LifeResult:
     """Cycles until the first end criterion, with the sparse growth history.
 
     Parameters
@@ -176,23 +212,24 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
     state[M.ST_C] = geo.dims.get("half_length", 0.0)
     if used == "block" and a_crit > a0:
         cited.cite("block-integration")
-        state[M.ST_A], state[M.ST_BLOCKS], rows = block_phase(case, loads, mp, a0, a_crit,
-                                                               max_cycles)
+        state[M.ST_A], state[M.ST_BLOCKS], rows = block_phase(
+            case, loads, mp, a0, a_crit, max_cycles
+        )
         state[M.ST_CYCLES] = state[M.ST_BLOCKS] * loads.n
         rows = [(*r, state[M.ST_C]) for r in rows]
-    end, val, step_rows, clipped = _stepper(case, loads, mp, state, max_cycles, rec_da,
-                                            progress)
+    end, val, step_rows, clipped = _stepper(case, loads, mp, state, max_cycles, rec_da, progress)
     a_end, cycles, blocks = state[M.ST_A], state[M.ST_CYCLES], state[M.ST_BLOCKS]
     if clipped:
-        warnings.append(f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
-                        "cycles (Elber −0.1 ≤ R ≤ 0.7; Newman R ≥ −1, S_max/σ_0 ≤ 0.8)")
+        warnings.append(
+            f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
+            "cycles (Elber −0.1 ≤ R ≤ 0.7; Newman R ≥ −1, S_max/σ_0 ≤ 0.8)"
+        )
     first = (0.0, 0.0, a0, *_peak_row(case, loads, mp, a0), geo.dims.get("half_length", 0.0))
     last = (cycles, blocks, a_end, *_peak_row(case, loads, mp, a_end), state[M.ST_C])
     hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)
     if not mp[M.TWO_D]:
         hist = hist.drop(columns="c_mm")
-    hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle",
-                                                                       kind="stable")
+    hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
     hist = hist.reset_index(drop=True)
     reason = END_NAMES[end]
     summary = {
@@ -210,7 +247,8 @@ def predict_life(case: Case, method: str | None = None, progress=None, load_scal
         "method_reason": why,
         "j_method": case.analysis.j_method,
         "cycle_order": loads.order,
-        "peak_nominal_stress_MPa": loads.peak if loads.peak_equivalent is None
+        "peak_nominal_stress_MPa": loads.peak
+        if loads.peak_equivalent is None
         else loads.peak_equivalent,
         "load_scale": load_scale,
         "version": __version__,
@@ -251,70 +289,100 @@ def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
     c_end = float(leaked.history["c_mm"].iloc[-1])
     warnings = list(leaked.warnings)
     if dims.get("bending_ratio"):
-        warnings.append("through-crack phase: the bending part of the load is not carried "
-                        "(membrane stress only)")
+        warnings.append(
+            "through-crack phase: the bending part of the load is not carried "
+            "(membrane stress only)"
+        )
     limit = 0.95 * dims["width"] / 2
     if not c_end < limit:
-        s1 = dict(s1, warnings=warnings + ["the leaked crack is already wider than the plate's "
-                                           "through-crack solution allows"])
+        s1 = dict(
+            s1,
+            warnings=warnings
+            + ["the leaked crack is already wider than the plate's through-crack solution allows"],
+        )
         return replace(leaked, summary=s1, warnings=s1["warnings"])
-    geo = make_geometry("center-crack-plate", c_end, width=dims["width"],
-                        thickness=dims["thickness"],
-                        constraint="plane-strain" if case.geometry.plane_strain else
-                        "plane-stress")
-    run = replace(case.run, max_cycles=max(case.run.max_cycles - s1["cycles_to_end"], 1.0),
-                  crack_length_limit=None, after_leak="stop")
-    through = predict_life(replace(case, geometry=geo, run=run, fields=None),
-                           progress=progress)
+    geo = make_geometry(
+        "center-crack-plate",
+        c_end,
+        width=dims["width"],
+        thickness=dims["thickness"],
+        constraint="plane-strain" if case.geometry.plane_strain else "plane-stress",
+    )
+    run = replace(
+        case.run,
+        max_cycles=max(case.run.max_cycles - s1["cycles_to_end"], 1.0),
+        crack_length_limit=None,
+        after_leak="stop",
+    )
+    through = predict_life(replace(case, geometry=geo, run=run, fields=None), progress=progress)
     h2 = through.history.copy()
     h2["cycle"] += s1["cycles_to_end"]
     h2["block"] += s1["blocks_to_end"]
     h2["c_mm"] = h2["a_mm"]
     hist = pd.concat([leaked.history, h2.iloc[1:]], ignore_index=True)
     s2 = dict(through.summary)
-    s2.update(cycles_to_end=float(hist["cycle"].iloc[-1]),
-              blocks_to_end=float(hist["block"].iloc[-1]),
-              a_initial_mm=s1["a_initial_mm"], leak_cycles=s1["cycles_to_end"],
-              leak_half_length_mm=c_end, through_crack_end_half_length_mm=s2["a_end_mm"],
-              phases=["surface crack to leak", "through crack"],
-              warnings=warnings + through.warnings, inputs=s1["inputs"],
-              references=_union(s1["references"], _step_references(), through.references))
+    s2.update(
+        cycles_to_end=float(hist["cycle"].iloc[-1]),
+        blocks_to_end=float(hist["block"].iloc[-1]),
+        a_initial_mm=s1["a_initial_mm"],
+        leak_cycles=s1["cycles_to_end"],
+        leak_half_length_mm=c_end,
+        through_crack_end_half_length_mm=s2["a_end_mm"],
+        phases=["surface crack to leak", "through crack"],
+        warnings=warnings + through.warnings,
+        inputs=s1["inputs"],
+        references=_union(s1["references"], _step_references(), through.references),
+    )
     if "hours_to_end" in s1:
         s2["hours_to_end"] = s1["hours_to_end"] + through.summary.get("hours_to_end", 0.0)
-    return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"],
-                      leaked.model)
+    return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"], leaked.model)
 
 
 def _peak_row(case, loads, mp, a):
     """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) of the block at crack size a, frozen."""
-    g, djeq, jmx, lrmx, djmax = K.block_growth(loads.lmax, loads.lmin, a, case.geometry.code,
-                                               case.geometry.params, loads.ct, mp)
+    g, djeq, jmx, lrmx, djmax = K.block_growth(
+        loads.lmax, loads.lmin, a, case.geometry.code, case.geometry.params, loads.ct, mp
+    )
     return djmax, djeq, jmx, lrmx, g / loads.n
 
 
 def _end_values(case, loads, mp, reason, val, a_end, cycles):
     geo = case.geometry
-    dj, jmax, lr, jel, _, _ = K.peak_state(loads.lmax, loads.i_peak, a_end, geo.code, geo.params,
-                                        loads.ct, mp)
-    out = {"a_mm": float(a_end), "cycles": float(cycles),
-           "Jmax_at_peak_kJm2": float(jmax), "Lr_at_peak": float(lr)}
+    dj, jmax, lr, jel, _, _ = K.peak_state(
+        loads.lmax, loads.i_peak, a_end, geo.code, geo.params, loads.ct, mp
+    )
+    out = {
+        "a_mm": float(a_end),
+        "cycles": float(cycles),
+        "Jmax_at_peak_kJm2": float(jmax),
+        "Lr_at_peak": float(lr),
+    }
     if reason == "toughness":
-        out.update(J_max_kJm2=float(val), J_c_kJm2=float(mp[M.J_C]),
-                   curve="monotonic" if case.material.monotonic_curve else "cyclic")
+        out.update(
+            J_max_kJm2=float(val),
+            J_c_kJm2=float(mp[M.J_C]),
+            curve="monotonic" if case.material.monotonic_curve else "cyclic",
+        )
     elif reason == "collapse":
         out.update(L_r=float(val), L_r_max=float(mp[M.LR_MAX]))
     elif reason == "fad":
         out.update(K_r=float(val), L_r=float(lr), curve=case.analysis.fad)
     elif reason == "tearing":
-        out.update(a_tearing_mm=float(mp[M.A_TEAR]), J_R_curve=dict(
-            C1=case.material.resistance_curve.C1, C2=case.material.resistance_curve.C2))
+        out.update(
+            a_tearing_mm=float(mp[M.A_TEAR]),
+            J_R_curve=dict(
+                C1=case.material.resistance_curve.C1, C2=case.material.resistance_curve.C2
+            ),
+        )
     elif reason == "size-limit":
         out.update(limit_mm=float(mp[M.A_LIMIT]), limit=size_limit(case)[1])
     elif reason == "max-cycles":
         out.update(max_cycles=float(case.run.max_cycles))
     elif reason == "no-growth":
-        out.update(dJ_eff_max_kJm2=float(_peak_row(case, loads, mp, a_end)[0]),
-                   threshold_kJm2=float(mp[M.DJ_TH]))
+        out.update(
+            dJ_eff_max_kJm2=float(_peak_row(case, loads, mp, a_end)[0]),
+            threshold_kJm2=float(mp[M.DJ_TH]),
+        )
     return out
 
 
@@ -324,17 +392,22 @@ def _input_warnings(case, loads, mp, a0, a_crit):
     lo, hi = geo.size_limits
     if hi < math.inf and a0 > lo + 0.95 * (hi - lo):
         w.append(f"initial crack {a0:g} mm is near the upper end of the K solution's range")
-    dj, jmax, lr, jel, _, _ = K.peak_state(loads.lmax, loads.i_peak, a0, geo.code, geo.params,
-                                        loads.ct, mp)
+    dj, jmax, lr, jel, _, _ = K.peak_state(
+        loads.lmax, loads.i_peak, a0, geo.code, geo.params, loads.ct, mp
+    )
     if lr > 0.8 * mat.lr_max:
-        w.append(f"L_r = {lr:.3g} at the first peak: close to plastic collapse "
-                 f"(L_r,max = {mat.lr_max:.3g})")
+        w.append(
+            f"L_r = {lr:.3g} at the first peak: close to plastic collapse "
+            f"(L_r,max = {mat.lr_max:.3g})"
+        )
     if a_crit <= a0:
         w.append("the initial crack is already critical under the history's peak load")
     if case.analysis.j_method == "reference-stress" and jel > 0:
         if jmax > 3 * jel:
-            w.append("the plastic part of J at peak load is large (J_max > 3·J_el): check "
-                     "the cyclic and monotonic curves")
+            w.append(
+                "the plastic part of J at peak load is large (J_max > 3·J_el): check "
+                "the cyclic and monotonic curves"
+            )
     if loads.channel_slots and case.fields.residual is not None:
         from cycj.fields.channels import table_value
 
@@ -342,9 +415,11 @@ def _input_warnings(case, loads, mp, a0, a_crit):
         kres = table_value(loads.ct, nch, a0, geo.dims.get("half_length", 0.0), mp)
         kp = np.sqrt(jel * mp[M.E_PRIME]) - kres
         if abs(kres) > abs(kp):
-            w.append(f"the residual stress dominates: K_res = {kres / 31.6228:.3g} MPa√m vs "
-                     f"K_primary = {kp / 31.6228:.3g} MPa√m at the first peak (R and closure "
-                     "are then set by the residual stress; check its magnitude and relaxation)")
+            w.append(
+                f"the residual stress dominates: K_res = {kres / 31.6228:.3g} MPa√m vs "
+                f"K_primary = {kp / 31.6228:.3g} MPa√m at the first peak (R and closure "
+                "are then set by the residual stress; check its magnitude and relaxation)"
+            )
     if mat.monotonic_curve is None:
         w.append("J_max at peak load uses the cyclic curve (no monotonic_curve given)")
     return w

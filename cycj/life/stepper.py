@@ -96,31 +96,42 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
     dk = kmax - kmin
     if kmax <= 0.0 or dk <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
-    x, clipped = opening_fraction(int(mp[CLOSURE]), kmax, kmin, lr_max / mp[FLOW_RATIO],
-                                  mp[U_CONST], mp[ALPHA_NEWMAN], mp[INCLUDE_COMP])
+    x, clipped = opening_fraction(
+        int(mp[CLOSURE]),
+        kmax,
+        kmin,
+        lr_max / mp[FLOW_RATIO],
+        mp[U_CONST],
+        mp[ALPHA_NEWMAN],
+        mp[INCLUDE_COMP],
+    )
     u = 1.0 - x
     dj_el = dk * dk / mp[E_PRIME]
     jm = int(mp[J_METHOD])
     if jm == REFERENCE_STRESS:
-        dj = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
-                                             mp[K_CYC], mp[N_CYC], u)
+        dj = reference_stress_delta_j_scalar(
+            dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
+        )
     elif jm == SMALL_CRACK:
         dj = small_crack_delta_j_scalar(a, ds, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
     elif jm == NOTCH:
-        if mp[NOTCH_OWN_LONG] > 0.5:   # the shape's K already holds the notch (crack at a hole)
-            dsig = neuber_masing_stress_range_scalar(mp[NOTCH_KT], ds, mp[E_MOD], mp[K_CYC],
-                                                     mp[N_CYC])
+        if mp[NOTCH_OWN_LONG] > 0.5:  # the shape's K already holds the notch (crack at a hole)
+            dsig = neuber_masing_stress_range_scalar(
+                mp[NOTCH_KT], ds, mp[E_MOD], mp[K_CYC], mp[N_CYC]
+            )
             root = small_crack_delta_j_scalar(a, dsig, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
-            far = reference_stress_delta_j_scalar(dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD],
-                                                  mp[K_CYC], mp[N_CYC], u)
+            far = reference_stress_delta_j_scalar(
+                dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
+            )
             dj = min(root, far)
         else:
-            dj = notch_delta_j_scalar(a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD],
-                                      mp[K_CYC], mp[N_CYC], u)
+            dj = notch_delta_j_scalar(
+                a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
+            )
     else:
         dj = u * u * dj_el
     j_el_max = kmax * kmax / mp[E_PRIME]
-    if jm == ELASTIC:   # the LEFM comparison: J_max = K_max²/E'
+    if jm == ELASTIC:  # the LEFM comparison: J_max = K_max²/E'
         jmax = j_el_max
     else:
         jmax = j_peak_scalar(j_el_max, lr_max, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
@@ -148,8 +159,7 @@ def cycle_k(lmax, lmin, i, a, c, code, gp, ct, mp):
 def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
     """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm], and the plasticity
     interaction ρ of a secondary stress for the FAD."""
-    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, gp[5], code, gp, ct,
-                                                     mp)
+    kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, gp[5], code, gp, ct, mp)
     dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
     return dj, jmax, lr, jel, clipped, r6_rho_scalar(kres, kmax - kres, lr)
 
@@ -194,8 +204,9 @@ def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
             if kmax_e > kmin_e:
                 dk = kmax - kmin
                 scale = (kmax_e - kmin_e) / dk
-                dj = k_driving_force(kmax_e, kmin_e, lr_max * kmax_e / kmax, lr_range * scale,
-                                     ds * scale, a, mp)[0]
+                dj = k_driving_force(
+                    kmax_e, kmin_e, lr_max * kmax_e / kmax, lr_range * scale, ds * scale, a, mp
+                )[0]
     if a + r >= st[ST_A_OL] + st[ST_Z_OL]:
         st[ST_A_OL] = a
         st[ST_Z_OL] = r
@@ -211,8 +222,7 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
     (``sequence``).  Each variant is compiled (or loaded from the cache) on first use."""
 
     @jit
-    def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n,
-                   acc):
+    def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n, acc):
         """Step cycle by cycle through ``n_blocks`` repetitions of the block (smax, smin).
 
         Parameters
@@ -250,17 +260,19 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                 if two_d:
                     gp[5] = c
                 if channel_mode:
-                    kmax, kmin, lr_max, lr_range, ds, kres = channel_k(lmax, lmin, i, a, c, ct,
-                                                                       mp, 0)
-                else:   # cycle_k's shape branch, written out: a shared call costs 3–8 %
+                    kmax, kmin, lr_max, lr_range, ds, kres = channel_k(
+                        lmax, lmin, i, a, c, ct, mp, 0
+                    )
+                else:  # cycle_k's shape branch, written out: a shared call costs 3–8 %
                     kos = k_over_s(code, a, gp)
                     sl = limit_stress(code, a, gp, mp[SIGMA_Y])
                     s1 = lmax[i, 0]
                     s0 = lmin[i, 0]
                     kmax, kmin, kres = s1 * kos, s0 * kos, 0.0
                     lr_max, lr_range, ds = s1 / sl, (s1 - s0) / sl, s1 - s0
-                dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a,
-                                                             mp)
+                dj, jmax, lr, jel, clipped = k_driving_force(
+                    kmax, kmin, lr_max, lr_range, ds, a, mp
+                )
                 n_clipped += clipped
                 if kmax > 0.0:
                     rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
@@ -271,8 +283,9 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                         break
                 factor = 1.0
                 if sequence:
-                    factor, dj = sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp,
-                                               st)
+                    factor, dj = sequence_step(
+                        kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st
+                    )
                 djm = dj**m if dj > 0.0 else 0.0
                 da = rate_from_power(dj, djm, jmax, mp) * factor
                 if two_d:
@@ -353,8 +366,7 @@ def block_growth(lmax, lmin, a, code, gp, ct, mp):
     djmx = 0.0
     m = mp[M_LAW]
     for i in range(n):
-        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct,
-                                                              mp)
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp)
         djm = dj**m if dj > 0.0 else 0.0
         g += rate_from_power(dj, djm, jmax, mp)
         s += djm
@@ -386,11 +398,10 @@ def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
     history's peak load (−1 if none), and its end code."""
     zeros = 0.0 * lmax
     for k in range(a_grid.shape[0]):
-        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, zeros, i_peak, a_grid[k],
-                                                              code, gp, ct, mp)
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(
+            lmax, zeros, i_peak, a_grid[k], code, gp, ct, mp
+        )
         end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
         if end != RUNNING:
             return k, end
     return -1, RUNNING
-
-

@@ -4,18 +4,24 @@ from __future__ import annotations
 
 from pathlib import Path
 
-END_WORDS = {"toughness": "J_max reaching the toughness J_c",
-             "tearing": "tearing instability on the J–R curve",
-             "fad": "the failure assessment diagram", "collapse": "plastic collapse (L_r,max)",
-             "size-limit": "the crack size limit", "leak": "leak (crack through the wall)",
-             "max-cycles": "the cycle limit (run-out to max_cycles)",
-             "no-growth": "no growth (ΔJ below threshold: run-out)"}
+END_WORDS = {
+    "toughness": "J_max reaching the toughness J_c",
+    "tearing": "tearing instability on the J–R curve",
+    "fad": "the failure assessment diagram",
+    "collapse": "plastic collapse (L_r,max)",
+    "size-limit": "the crack size limit",
+    "leak": "leak (crack through the wall)",
+    "max-cycles": "the cycle limit (run-out to max_cycles)",
+    "no-growth": "no growth (ΔJ below threshold: run-out)",
+}
 
 
 def answer_sentence(s: dict) -> str:
     """One sentence: the end, after how many cycles (blocks, hours), at what crack size."""
-    parts = [f"End by {END_WORDS.get(s['end_reason'], s['end_reason'])} after "
-             f"{s['cycles_to_end']:.4g} cycles"]
+    parts = [
+        f"End by {END_WORDS.get(s['end_reason'], s['end_reason'])} after "
+        f"{s['cycles_to_end']:.4g} cycles"
+    ]
     extra = []
     if s.get("cycles_per_block", 1) > 1:
         extra.append(f"{s['blocks_to_end']:.4g} blocks")
@@ -23,8 +29,10 @@ def answer_sentence(s: dict) -> str:
         extra.append(f"{s['hours_to_end']:.4g} h")
     if extra:
         parts.append(" (" + ", ".join(extra) + ")")
-    parts.append(f" at a = {s['a_end_mm']:.4g} mm (from {s['a_initial_mm']:.4g} mm; critical "
-                 f"size at peak load {s['critical_crack_length_mm']:.4g} mm).")
+    parts.append(
+        f" at a = {s['a_end_mm']:.4g} mm (from {s['a_initial_mm']:.4g} mm; critical "
+        f"size at peak load {s['critical_crack_length_mm']:.4g} mm)."
+    )
     return "".join(parts)
 
 
@@ -47,11 +55,14 @@ def run_and_write(case, out: Path, *, method=None, force=False, plots=True, prog
             from cycj.life import plots as P
 
             for name, caption, fn in (
-                    ("crack_growth.png", "Crack size vs cycles", P.crack_growth_figure),
-                    ("driving_force.png", "ΔJ and da/dN vs crack size",
-                     P.driving_force_figure),
-                    ("criterion.png", "Peak-load trajectory against the end criterion",
-                     P.criterion_figure)):
+                ("crack_growth.png", "Crack size vs cycles", P.crack_growth_figure),
+                ("driving_force.png", "ΔJ and da/dN vs crack size", P.driving_force_figure),
+                (
+                    "criterion.png",
+                    "Peak-load trajectory against the end criterion",
+                    P.criterion_figure,
+                ),
+            ):
                 figures.append((caption, od.savefig(name, fn(result))))
             summary["plots"] = [p.name for _, p in figures]
             _report(od, result, summary, figures)
@@ -63,20 +74,32 @@ def _report(od, result, summary, figures):
     from cycj.report import write_report
 
     case = result.case
-    inputs = [("case", str(case.path)), ("shape", case.geometry.shape.name),
-              ("initial crack [mm]", f"{summary['a_initial_mm']:.4g}"),
-              ("ΔJ method", case.analysis.j_method),
-              ("growth law", f"da/dN = {case.growth.C:.4g}·ΔJ^{case.growth.m:.4g} mm/cycle "
-                             f"(ΔJ in kJ/m², threshold {case.growth.threshold:g}, basis "
-                             f"{case.growth.basis})"),
-              ("closure", case.loading.closure.model),
-              ("cycles per block", summary["cycles_per_block"]),
-              ("peak nominal stress [MPa]", f"{summary['peak_nominal_stress_MPa']:.4g}"),
-              ("end criteria", ", ".join(case.run.criteria)),
-              ("method", f"{summary['method']} ({summary['method_reason']})")]
-    write_report(od.path("report.html"), title=f"Remaining life: {case.title}",
-                 question="How many load cycles until this crack becomes unstable under the "
-                          "given load history, and why does it end there?",
-                 answer=answer_sentence(summary), inputs=inputs, figures=figures,
-                 tables=[("End values", [summary["end_values"]])],
-                 warnings=summary["warnings"], references=summary["references"])
+    inputs = [
+        ("case", str(case.path)),
+        ("shape", case.geometry.shape.name),
+        ("initial crack [mm]", f"{summary['a_initial_mm']:.4g}"),
+        ("ΔJ method", case.analysis.j_method),
+        (
+            "growth law",
+            f"da/dN = {case.growth.C:.4g}·ΔJ^{case.growth.m:.4g} mm/cycle "
+            f"(ΔJ in kJ/m², threshold {case.growth.threshold:g}, basis "
+            f"{case.growth.basis})",
+        ),
+        ("closure", case.loading.closure.model),
+        ("cycles per block", summary["cycles_per_block"]),
+        ("peak nominal stress [MPa]", f"{summary['peak_nominal_stress_MPa']:.4g}"),
+        ("end criteria", ", ".join(case.run.criteria)),
+        ("method", f"{summary['method']} ({summary['method_reason']})"),
+    ]
+    write_report(
+        od.path("report.html"),
+        title=f"Remaining life: {case.title}",
+        question="How many load cycles until this crack becomes unstable under the "
+        "given load history, and why does it end there?",
+        answer=answer_sentence(summary),
+        inputs=inputs,
+        figures=figures,
+        tables=[("End values", [summary["end_values"]])],
+        warnings=summary["warnings"],
+        references=summary["references"],
+    )

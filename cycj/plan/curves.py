@@ -69,8 +69,11 @@ class CurveTable:
         k1 = np.minimum(k + 1, n_s - 1)
         rows = np.empty((n_s, lt.size))
         for r in range(n_s):
-            rows[r] = (np.interp(lt, self.log_t, self.log_acrit[r]) if self.log_t.size > 1
-                       else self.log_acrit[r, 0])
+            rows[r] = (
+                np.interp(lt, self.log_t, self.log_acrit[r])
+                if self.log_t.size > 1
+                else self.log_acrit[r, 0]
+            )
         idx = np.arange(lt.size)
         lac = (1 - w) * rows[k, idx] + w * rows[k1, idx]
         return np.minimum(lac, self.la_end[k])
@@ -118,8 +121,9 @@ def resample_cycles(x_new, x, n, rate=None):
     return n[i] + (n[i + 1] - n[i]) * frac
 
 
-def build_table(growth_curve, critical_size, a_min: float, load_factors, toughness_factors,
-                n_a: int = 321) -> CurveTable:
+def build_table(
+    growth_curve, critical_size, a_min: float, load_factors, toughness_factors, n_a: int = 321
+) -> CurveTable:
     """Tabulate φ(a) for each load factor and a_c for each (load, toughness) factor pair.
 
     Parameters
@@ -144,8 +148,9 @@ def build_table(growth_curve, critical_size, a_min: float, load_factors, toughne
         a, n = a[keep], n[keep] - n[0]
         rates.append(None if r is None else r[keep])
         if a.size < 2:
-            raise ValueError(f"the growth curve at load factor {sk:g} has no growth from "
-                             f"{a_min:g} mm")
+            raise ValueError(
+                f"the growth curve at load factor {sk:g} has no growth from {a_min:g} mm"
+            )
         curves.append((np.log(a), np.maximum.accumulate(n)))
     la0 = math.log(a_min)
     la_end = np.array([c[0][-1] for c in curves])
@@ -165,6 +170,5 @@ def build_table(growth_curve, critical_size, a_min: float, load_factors, toughne
         ph = np.maximum.accumulate(ph * (1.0 + 1e-12 * np.arange(n_a)))
         with np.errstate(divide="ignore"):
             logphi[r] = np.log(ph)
-    log_acrit = np.array([[math.log(critical_size(float(sk), float(tk))) for tk in t]
-                          for sk in s])
+    log_acrit = np.array([[math.log(critical_size(float(sk), float(tk))) for tk in t] for sk in s])
     return CurveTable(la0, dla, logphi, np.log(s), la_end, np.log(t), log_acrit)

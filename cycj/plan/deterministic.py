@@ -18,9 +18,16 @@ import math
 import numpy as np
 
 
-def deterministic_interval(a_mm, cycles, a_det: float, a_crit: float, safety_factor: float,
-                           design_life: float, cycles_per_block: float | None = None,
-                           hours_per_cycle: float | None = None) -> dict:
+def deterministic_interval(
+    a_mm,
+    cycles,
+    a_det: float,
+    a_crit: float,
+    safety_factor: float,
+    design_life: float,
+    cycles_per_block: float | None = None,
+    hours_per_cycle: float | None = None,
+) -> dict:
     """Interval and inspection schedule from a growth curve that starts at ``a_det``.
 
     Parameters
@@ -52,9 +59,13 @@ def deterministic_interval(a_mm, cycles, a_det: float, a_crit: float, safety_fac
     else:
         life = float(np.interp(a_crit, a, n)) if a_crit <= a[-1] else float(n[-1])
     interval = life / safety_factor
-    out = {"life_cycles": life, "interval_cycles": interval,
-           "critical_crack_length_mm": a_crit, "detectable_size_mm": a_det,
-           "safety_factor": safety_factor}
+    out = {
+        "life_cycles": life,
+        "interval_cycles": interval,
+        "critical_crack_length_mm": a_crit,
+        "detectable_size_mm": a_det,
+        "safety_factor": safety_factor,
+    }
     if cycles_per_block:
         out["life_blocks"] = life / cycles_per_block
         out["interval_blocks"] = interval / cycles_per_block
@@ -66,9 +77,14 @@ def deterministic_interval(a_mm, cycles, a_det: float, a_crit: float, safety_fac
         k_max = min(math.floor(design_life / interval), 10_000)
         for k in range(1, k_max + 1):
             t = k * interval
-            rows.append({"inspection": k, "cycle": t,
-                         "block": t / cycles_per_block if cycles_per_block else None,
-                         "hours": t * hours_per_cycle if hours_per_cycle else None,
-                         "a_mm": float(np.interp(t, n, a)) if t <= n[-1] else None})
+            rows.append(
+                {
+                    "inspection": k,
+                    "cycle": t,
+                    "block": t / cycles_per_block if cycles_per_block else None,
+                    "hours": t * hours_per_cycle if hours_per_cycle else None,
+                    "a_mm": float(np.interp(t, n, a)) if t <= n[-1] else None,
+                }
+            )
     out["schedule"] = rows
     return out

@@ -18,9 +18,11 @@ def planning_case(case, toughness_factor: float = 1.0):
     mat = case.material
     if toughness_factor != 1.0 and mat.J_c is not None:
         rc = mat.resistance_curve
-        mat = replace(mat, J_c=mat.J_c * toughness_factor,
-                      resistance_curve=None if rc is None else replace(
-                          rc, C1=rc.C1 * toughness_factor))
+        mat = replace(
+            mat,
+            J_c=mat.J_c * toughness_factor,
+            resistance_curve=None if rc is None else replace(rc, C1=rc.C1 * toughness_factor),
+        )
     return replace(case, material=mat, run=replace(case.run, max_cycles=1e30))
 
 
@@ -57,8 +59,10 @@ def curve_functions(case, toughness_max: float = 1.0, warnings: list | None = No
             if hi is None:
                 raise CycjInputError(
                     f"no crack grows to failure at load factor {load_factor:.4g} (threshold "
-                    "or run-out); planning needs growing cracks", source=_src(case),
-                    key="inspection.scatter.load_scale")
+                    "or run-out); planning needs growing cracks",
+                    source=_src(case),
+                    key="inspection.scatter.load_scale",
+                )
             for _ in range(30):
                 mid = math.sqrt(lo * hi)
                 r_mid, g_mid = run(mid, load_factor)
@@ -70,20 +74,25 @@ def curve_functions(case, toughness_max: float = 1.0, warnings: list | None = No
                     break
             a_g = hi
             if warnings is not None and not any("do not grow" in w for w in warnings):
-                warnings.append(f"cracks below {a_g:.4g} mm do not grow at load factor "
-                                f"{load_factor:.4g} (threshold); they are treated as "
-                                f"{a_g:.4g} mm (conservative)")
+                warnings.append(
+                    f"cracks below {a_g:.4g} mm do not grow at load factor "
+                    f"{load_factor:.4g} (threshold); they are treated as "
+                    f"{a_g:.4g} mm (conservative)"
+                )
         h = res.history
-        a, n, r = (h["a_mm"].to_numpy(), h["cycle"].to_numpy(),
-                   h["dadN_mm_per_cycle"].to_numpy())
+        a, n, r = (h["a_mm"].to_numpy(), h["cycle"].to_numpy(), h["dadN_mm_per_cycle"].to_numpy())
         if a_g > a_start:  # dead zone: no cycles are spent below the growing size
-            a, n, r = (np.concatenate([[a_start], a]), np.concatenate([[0.0], n]),
-                       np.concatenate([[np.nan], r]))
+            a, n, r = (
+                np.concatenate([[a_start], a]),
+                np.concatenate([[0.0], n]),
+                np.concatenate([[np.nan], r]),
+            )
         return a, n, r
 
     def critical(load_factor, toughness_factor):
-        return life.critical_crack_length(case, load_scale=load_factor,
-                                          toughness_scale=toughness_factor)[0]
+        return life.critical_crack_length(
+            case, load_scale=load_factor, toughness_scale=toughness_factor
+        )[0]
 
     return growth, critical
 

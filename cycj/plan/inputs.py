@@ -66,8 +66,9 @@ def read_pod(t: Table) -> PodCurve:
     model = t.choice("model", POD_MODELS, default="lognormal")
     a50 = t.quantity("a50", "length", positive=True)
     a90 = t.quantity("a90", "length", positive=True)
-    sigma = t.number("sigma", required=True, lo=(1e-6, "0"), hi=(POD_SIGMA_MAX,
-                                                                f"{POD_SIGMA_MAX:g}"))
+    sigma = t.number(
+        "sigma", required=True, lo=(1e-6, "0"), hi=(POD_SIGMA_MAX, f"{POD_SIGMA_MAX:g}")
+    )
     ceiling = t.number("ceiling", default=1.0)
     if not 0 < ceiling <= 1:
         raise t.error("ceiling", "out of range", expected="0 < ceiling ≤ 1", found=ceiling)
@@ -80,8 +81,12 @@ def read_pod(t: Table) -> PodCurve:
     return pod_from_a90(model, a90, sigma, ceiling, a9095)
 
 
-_KINDS = {"growth_C": "C", "initial_crack": "length", "toughness": "energy_per_area",
-          "load_scale": "factor"}
+_KINDS = {
+    "growth_C": "C",
+    "initial_crack": "length",
+    "toughness": "energy_per_area",
+    "load_scale": "factor",
+}
 
 
 #: most inspections over a design life (what-if intervals and the interval search)
@@ -114,31 +119,47 @@ def read_dist(t: Table, name: str, base: float, kind: str) -> sc.Dist:
         return sc.fixed(value if value is not None else (median or mean or base))
     sigma = t.number("sigma", lo=(1e-12, "0"), hi=(SIGMA_MAX, f"{SIGMA_MAX:g}"))
     cov = t.number("cov", lo=(1e-12, "0"), hi=(COV_MAX, f"{COV_MAX:g}"))
-    sd = t.quantity("sd", "length", positive=True) if kind == "length" else t.number(
-        "sd", positive=True)
+    sd = (
+        t.quantity("sd", "length", positive=True)
+        if kind == "length"
+        else t.number("sd", positive=True)
+    )
     shape = t.number("shape", lo=(SHAPE_MIN, f"{SHAPE_MIN:g}"), hi=(1e3, "1000"))
     t.finish()
-    given = [k for k, v in (("sigma", sigma), ("cov", cov), ("sd", sd), ("shape", shape))
-             if v is not None]
-    allowed = {"lognormal": ("sigma", "cov"), "weibull": ("shape", "cov"),
-               "normal": ("sd", "cov")}[dist]
+    given = [
+        k
+        for k, v in (("sigma", sigma), ("cov", cov), ("sd", sd), ("shape", shape))
+        if v is not None
+    ]
+    allowed = {"lognormal": ("sigma", "cov"), "weibull": ("shape", "cov"), "normal": ("sd", "cov")}[
+        dist
+    ]
     bad = [g for g in given if g not in allowed]
     if bad or len(given) != 1:
-        raise t.error(bad[0] if bad else "distribution",
-                      f"a {dist} {name} needs exactly one spread",
-                      expected=" or ".join(allowed), found=", ".join(given) or None)
+        raise t.error(
+            bad[0] if bad else "distribution",
+            f"a {dist} {name} needs exactly one spread",
+            expected=" or ".join(allowed),
+            found=", ".join(given) or None,
+        )
     if dist == "lognormal":
         s = sigma if sigma is not None else sc.lognormal_sigma_from_cov(cov)
-        med = median if median is not None else (mean * math.exp(-s * s / 2)
-                                                  if mean is not None else base)
+        med = (
+            median
+            if median is not None
+            else (mean * math.exp(-s * s / 2) if mean is not None else base)
+        )
         return sc.lognormal(med, s)
     if dist == "weibull":
         if shape is None:
             if not 0.01 <= cov <= 5:
                 raise t.error("cov", "out of range", expected="0.01 to 5", found=cov)
             shape = sc.weibull_shape_from_cov(cov)
-        return (sc.weibull(shape, mean=mean) if mean is not None
-                else sc.weibull(shape, median=median if median is not None else base))
+        return (
+            sc.weibull(shape, mean=mean)
+            if mean is not None
+            else sc.weibull(shape, median=median if median is not None else base)
+        )
     m = mean if mean is not None else (median if median is not None else base)
     return sc.Dist("normal", m, sd if sd is not None else cov * m)
 
@@ -148,11 +169,16 @@ def _times(t: Table, key: str, design_life: float | None = None):
     if raw is None:
         return None
     if not isinstance(raw, list) or not all(
-            isinstance(v, (int, float)) and not isinstance(v, bool) and v > 0 for v in raw):
+        isinstance(v, (int, float)) and not isinstance(v, bool) and v > 0 for v in raw
+    ):
         raise t.error(key, "must be a list of positive numbers (cycles)", found=raw)
     if design_life is not None and any(v >= design_life for v in raw):
-        raise t.error(key, "inspection times must fall within the design life",
-                      expected=f"< {design_life:g}", found=raw)
+        raise t.error(
+            key,
+            "inspection times must fall within the design life",
+            expected=f"< {design_life:g}",
+            found=raw,
+        )
     return tuple(float(v) for v in raw)
 
 
@@ -160,8 +186,12 @@ def read_inspection(case) -> PlanInputs:
     """Validate ``case.inspection``; every error is one line naming the file and key."""
     src = str(case.path) if case.path is not None else None
     if case.inspection is None:
-        raise CycjInputError("the case has no [inspection] table", source=src,
-                             key="inspection", expected="see `cycj plan --help`")
+        raise CycjInputError(
+            "the case has no [inspection] table",
+            source=src,
+            key="inspection",
+            expected="see `cycj plan --help`",
+        )
     t = Table(case.inspection, "inspection", src)
     pod_t = t.table("pod", required=True)
     pod = read_pod(pod_t)
@@ -178,9 +208,13 @@ def read_inspection(case) -> PlanInputs:
         det, det_src = pod.a90, "the POD's a90"
     intervals = _times(t, "intervals")
     if intervals is not None and min(intervals) < life / MAX_INSPECTIONS:
-        raise t.error("intervals", f"an interval this short means more than {MAX_INSPECTIONS} "
-                      "inspections in the design life", expected=f"≥ {life / MAX_INSPECTIONS:g}"
-                      " cycles", found=min(intervals))
+        raise t.error(
+            "intervals",
+            f"an interval this short means more than {MAX_INSPECTIONS} "
+            "inspections in the design life",
+            expected=f"≥ {life / MAX_INSPECTIONS:g} cycles",
+            found=min(intervals),
+        )
     if intervals is None:
         intervals = tuple(life / n for n in (16, 8, 4, 2))
     schedule = _times(t, "schedule", life)
@@ -190,21 +224,36 @@ def read_inspection(case) -> PlanInputs:
     seed = t.number("seed", default=0, integer=True, nonnegative=True)
     target = t.number("target_pof", default=1e-4)
     if not 0 < target < 1:
-        raise t.error("target_pof", "out of range", expected="0 < target_pof < 1",
-                      found=target)
+        raise t.error("target_pof", "out of range", expected="0 < target_pof < 1", found=target)
     repair = t.choice("repair", ("renew", "remove"), default="renew")
     max_insp = t.number("max_inspections", default=100, integer=True)
     if not 1 <= max_insp <= MAX_INSPECTIONS:
-        raise t.error("max_inspections", "out of range", expected=f"1 to {MAX_INSPECTIONS}",
-                      found=max_insp)
+        raise t.error(
+            "max_inspections", "out of range", expected=f"1 to {MAX_INSPECTIONS}", found=max_insp
+        )
     chunk = t.number("chunk_size", default=10_000, integer=True)
     if not 100 <= chunk <= 1_000_000:
         raise t.error("chunk_size", "out of range", expected="100 to 1e6", found=chunk)
     scat = _scatter(t.table("scatter"), case)
     findings = _findings(t, pod, life)
     t.finish()
-    return PlanInputs(pod, life, det, det_src, sf, intervals, schedule, samples, seed, target,
-                      repair, max_insp, chunk, scat, findings)
+    return PlanInputs(
+        pod,
+        life,
+        det,
+        det_src,
+        sf,
+        intervals,
+        schedule,
+        samples,
+        seed,
+        target,
+        repair,
+        max_insp,
+        chunk,
+        scat,
+        findings,
+    )
 
 
 def _scatter(t: Table | None, case) -> sc.Scatter:
@@ -212,8 +261,12 @@ def _scatter(t: Table | None, case) -> sc.Scatter:
     if t is None:
         return sc.Scatter(initial_crack=sc.fixed(a0))
     out = {"initial_crack": sc.fixed(a0)}
-    bases = {"growth_C": case.growth.C, "initial_crack": a0,
-             "toughness": case.material.J_c, "load_scale": 1.0}
+    bases = {
+        "growth_C": case.growth.C,
+        "initial_crack": a0,
+        "toughness": case.material.J_c,
+        "load_scale": 1.0,
+    }
     for name in sc.VARIABLES:
         sub = t.table(name)
         if sub is None:
@@ -230,15 +283,23 @@ def _findings(t: Table, pod: PodCurve, life: float) -> tuple:
     if raw is None:
         return ()
     if not isinstance(raw, list):
-        raise t.error("findings", "must be a list of tables",
-                      expected='[{ cycles = 2e5, result = "not-found" }, ...]', found=raw)
+        raise t.error(
+            "findings",
+            "must be a list of tables",
+            expected='[{ cycles = 2e5, result = "not-found" }, ...]',
+            found=raw,
+        )
     out, last = [], 0.0
     for i, item in enumerate(raw):
         ft = Table(item, f"{t.key('findings')}[{i}]", t.source)
         cyc = ft.number("cycles", required=True, positive=True)
         if cyc <= last or cyc >= life:
-            raise ft.error("cycles", "findings must be in time order within the design life",
-                           expected=f"{last:g} < cycles < {life:g}", found=cyc)
+            raise ft.error(
+                "cycles",
+                "findings must be in time order within the design life",
+                expected=f"{last:g} < cycles < {life:g}",
+                found=cyc,
+            )
         last = cyc
         result = ft.choice("result", ("found", "not-found"), required=True)
         p_t = ft.table("pod")

@@ -59,22 +59,29 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
     inp = read_inspection(case)
     warnings = []
     if case.loading.sequence != "none":
-        warnings.append(f"sequence model '{case.loading.sequence}': sample lives are scaled "
-                        "as 1/C from curves at the case's C, which is approximate with "
-                        "retardation")
+        warnings.append(
+            f"sequence model '{case.loading.sequence}': sample lives are scaled "
+            "as 1/C from curves at the case's C, which is approximate with "
+            "retardation"
+        )
     if case.growth.toughness_exponent > 0 and inp.scatter.toughness.scatters:
-        warnings.append("toughness_exponent > 0: growth curves are computed at the largest "
-                        "toughness sampled, so the acceleration near J_c is understated")
+        warnings.append(
+            "toughness_exponent > 0: growth curves are computed at the largest "
+            "toughness sampled, so the acceleration near J_c is understated"
+        )
     a_crit, criterion = engine.critical_size(case)
     cpb, hpc = engine.rates(case)
     if inp.detectable_size >= a_crit:
-        warnings.append(f"the detectable size {inp.detectable_size:.4g} mm is not below the "
-                        f"critical size {a_crit:.4g} mm: no deterministic interval")
+        warnings.append(
+            f"the detectable size {inp.detectable_size:.4g} mm is not below the "
+            f"critical size {a_crit:.4g} mm: no deterministic interval"
+        )
         a_det_c, n_det_c = [inp.detectable_size], [0.0]
     else:
         a_det_c, n_det_c, _ = engine.deterministic_curve(case, inp.detectable_size)
-    det = deterministic_interval(a_det_c, n_det_c, inp.detectable_size, a_crit,
-                                 inp.safety_factor, inp.design_life, cpb, hpc)
+    det = deterministic_interval(
+        a_det_c, n_det_c, inp.detectable_size, a_crit, inp.safety_factor, inp.design_life, cpb, hpc
+    )
     det["critical_criterion"] = criterion
     det["detectable_size_source"] = inp.detectable_source
 
@@ -86,19 +93,26 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
     try:
         table = build_table(growth, critical, a_min, loads, tough)
     except ValueError as exc:
-        raise CycjInputError(f"{exc}: the smallest initial crack is already critical or "
-                             "does not grow under these loads, so there is nothing to plan",
-                             source=str(case.path), key="inspection.scatter.initial_crack",
-                             found=f"{a_min:.4g} mm") from None
+        raise CycjInputError(
+            f"{exc}: the smallest initial crack is already critical or "
+            "does not grow under these loads, so there is nothing to plan",
+            source=str(case.path),
+            key="inspection.scatter.initial_crack",
+            found=f"{a_min:.4g} mm",
+        ) from None
     prob = probabilistic_plan(table, inp, scheduler)
     if prob["recommended_interval_cycles"] is None:
-        warnings.append(f"no interval down to design life / {inp.max_inspections} meets "
-                        f"target_pof = {inp.target_pof:g}; raise max_inspections or improve "
-                        "the inspection")
+        warnings.append(
+            f"no interval down to design life / {inp.max_inspections} meets "
+            f"target_pof = {inp.target_pof:g}; raise max_inspections or improve "
+            "the inspection"
+        )
     for w in prob["what_if"]:
         if w["pof"] > 0 and w["std_error"] > 0.3 * w["pof"]:
-            warnings.append(f"interval {w['interval_cycles']:g}: Monte Carlo error above 30 % "
-                            "of the probability of failure; raise samples")
+            warnings.append(
+                f"interval {w['interval_cycles']:g}: Monte Carlo error above 30 % "
+                "of the probability of failure; raise samples"
+            )
             break
     env = envelope(table, inp)
     summary = {
@@ -119,25 +133,42 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
         "seed": inp.seed,
         "chunk_size": prob["chunk_size"],
         "effective_samples": prob["effective_samples"],
-        "findings": [{"cycles": f.cycles, "result": "found" if f.found else "not-found",
-                      "size_mm": f.size_mm, "sizing_sd_mm": f.sizing_sd_mm}
-                     for f in inp.findings],
+        "findings": [
+            {
+                "cycles": f.cycles,
+                "result": "found" if f.found else "not-found",
+                "size_mm": f.size_mm,
+                "sizing_sd_mm": f.sizing_sd_mm,
+            }
+            for f in inp.findings
+        ],
         "replanned_from_cycles": prob["start_cycles"],
-        "scatter": {k: {"distribution": d.kind, "p1": d.p1, "p2": d.p2}
-                    for k, d in vars(sc).items()},
-        "curve_table": {"load_factors": loads.tolist(), "toughness_factors": tough.tolist(),
-                        "a_min_mm": a_min},
+        "scatter": {
+            k: {"distribution": d.kind, "p1": d.p1, "p2": d.p2} for k, d in vars(sc).items()
+        },
+        "curve_table": {
+            "load_factors": loads.tolist(),
+            "toughness_factors": tough.tolist(),
+            "a_min_mm": a_min,
+        },
         "cycles_per_block": cpb,
         "hours_per_cycle": hpc,
         "warnings": warnings,
         "references": _plan_references(inp) + engine.references(case),
     }
-    what_if = pd.DataFrame([{k: w[k] for k in ("interval_cycles", "pof", "std_error",
-                                               "detections_mean", "inspections")}
-                            for w in prob["what_if"]])
-    curves = {"deterministic": {"a_mm": list(map(float, a_det_c)),
-                                "cycles": list(map(float, n_det_c))},
-              "envelope": env}
+    what_if = pd.DataFrame(
+        [
+            {
+                k: w[k]
+                for k in ("interval_cycles", "pof", "std_error", "detections_mean", "inspections")
+            }
+            for w in prob["what_if"]
+        ]
+    )
+    curves = {
+        "deterministic": {"a_mm": list(map(float, a_det_c)), "cycles": list(map(float, n_det_c))},
+        "envelope": env,
+    }
     return PlanResult(summary, what_if, curves, inp)
 
 

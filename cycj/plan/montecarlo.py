@@ -88,12 +88,20 @@ def draw_chunk(spec: McSpec, index: int, seed) -> dict:
     la_repl = np.maximum(np.log(spec.scatter.initial_crack.ppf(u_rep)), tab.la0)
     k, w = tab.load_position(d["load_factor"])
     lac = tab.critical_log_size(k, w, d["toughness_factor"])
-    return {"la0": la0, "xc": d["c_factor"], "k": k, "w": w, "lac": lac,
-            "phic": tab.phi(lac, k, w), "la_repl": la_repl, "u_det": u_det, **d}
+    return {
+        "la0": la0,
+        "xc": d["c_factor"],
+        "k": k,
+        "w": w,
+        "lac": lac,
+        "phic": tab.phi(lac, k, w),
+        "la_repl": la_repl,
+        "u_det": u_det,
+        **d,
+    }
 
 
-def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int,
-              seed) -> dict:
+def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed) -> dict:
     """Simulate one chunk under each schedule and return weighted sums.
 
     ``schedules`` (n_sched, n_max) holds absolute inspection times [cycles] (padded),
@@ -114,10 +122,29 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
     n_sched = schedules.shape[0]
     ft, fb, nd = kernels.empty_outputs(n_sched, la_start.size)
     rel = np.ascontiguousarray(schedules - t_start)
-    kernels.simulate(la_start, dr["xc"], dr["k"], dr["w"], dr["phic"], dr["la_repl"],
-                     dr["u_det"], rel, np.asarray(n_insp, np.int64), horizon,
-                     0 if spec.repair == "renew" else 1, spec.pod.model_code, spec.pod.mu,
-                     spec.pod.sigma, spec.pod.ceiling, tab.la0, tab.dla, tab.logphi, ft, fb, nd)
+    kernels.simulate(
+        la_start,
+        dr["xc"],
+        dr["k"],
+        dr["w"],
+        dr["phic"],
+        dr["la_repl"],
+        dr["u_det"],
+        rel,
+        np.asarray(n_insp, np.int64),
+        horizon,
+        0 if spec.repair == "renew" else 1,
+        spec.pod.model_code,
+        spec.pod.mu,
+        spec.pod.sigma,
+        spec.pod.ceiling,
+        tab.la0,
+        tab.dla,
+        tab.logphi,
+        ft,
+        fb,
+        nd,
+    )
     fail = ft <= horizon
     w2 = weights**2
     edges = np.linspace(0.0, horizon, spec.n_bins + 1)
@@ -127,10 +154,16 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
         f = fail[s]
         idx = np.clip(np.searchsorted(edges, ft[s, f], side="right") - 1, 0, spec.n_bins - 1)
         hist[s] = np.bincount(idx, weights[f], minlength=spec.n_bins)
-        bins[s] = np.bincount(fb[s, f], weights[f], minlength=spec.n_max + 1)[:spec.n_max + 1]
-    return {"sw": weights.sum(), "sw2": w2.sum(), "swf": (fail * weights).sum(axis=1),
-            "sw2f": (fail * w2).sum(axis=1), "swd": (nd * weights).sum(axis=1),
-            "hist": hist, "bins": bins}
+        bins[s] = np.bincount(fb[s, f], weights[f], minlength=spec.n_max + 1)[: spec.n_max + 1]
+    return {
+        "sw": weights.sum(),
+        "sw2": w2.sum(),
+        "swf": (fail * weights).sum(axis=1),
+        "sw2f": (fail * w2).sum(axis=1),
+        "swd": (nd * weights).sum(axis=1),
+        "hist": hist,
+        "bins": bins,
+    }
 
 
 def _add(total: dict | None, part: dict) -> dict:
@@ -153,16 +186,22 @@ class Runner:
         try:
             from dask.distributed import Client
         except ImportError:
-            raise CycjInputError("running on a cluster needs dask.distributed; install it with "
-                                 "pip install 'cycj[dask]'", key="--scheduler") from None
+            raise CycjInputError(
+                "running on a cluster needs dask.distributed; install it with "
+                "pip install 'cycj[dask]'",
+                key="--scheduler",
+            ) from None
         if isinstance(scheduler, Client):
             self.client = scheduler
         else:
             try:
                 self.client = Client(str(scheduler), timeout="20s")
             except OSError as exc:
-                raise CycjInputError(f"cannot reach the Dask scheduler ({exc})",
-                                     key="--scheduler", found=str(scheduler)) from None
+                raise CycjInputError(
+                    f"cannot reach the Dask scheduler ({exc})",
+                    key="--scheduler",
+                    found=str(scheduler),
+                ) from None
             self._own = True
 
     def close(self):
@@ -207,7 +246,7 @@ def pack_schedules(schedules, n_max: int):
         t = np.sort(np.asarray(t, float))
         if t.size > n_max:
             raise ValueError(f"schedule {s} has {t.size} inspections > n_max = {n_max}")
-        arr[s, :t.size] = t
+        arr[s, : t.size] = t
         n[s] = t.size
     return arr, n
 
@@ -217,8 +256,11 @@ def summarise(total: dict) -> dict:
     sw = total["sw"]
     p = total["swf"] / sw
     var = (total["sw2f"] * (1 - 2 * p) + p**2 * total["sw2"]) / sw**2
-    return {"pof": p, "std_error": np.sqrt(np.maximum(var, 0.0)),
-            "detections_mean": total["swd"] / sw,
-            "cumulative": np.cumsum(total["hist"], axis=1) / sw,
-            "per_interval": total["bins"] / sw,
-            "effective_samples": sw**2 / total["sw2"]}
+    return {
+        "pof": p,
+        "std_error": np.sqrt(np.maximum(var, 0.0)),
+        "detections_mean": total["swd"] / sw,
+        "cumulative": np.cumsum(total["hist"], axis=1) / sw,
+        "per_interval": total["bins"] / sw,
+        "effective_samples": sw**2 / total["sw2"],
+    }

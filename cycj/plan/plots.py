@@ -24,8 +24,14 @@ def pof_vs_interval(summary: dict):
     ax.errorbar(x, p, yerr=se, fmt="o-", ms=3, lw=1, label="searched intervals")
     wi = summary["what_if"]
     if wi:
-        ax.errorbar([r["interval_cycles"] for r in wi], [r["pof"] for r in wi],
-                    yerr=[r["std_error"] for r in wi], fmt="s", ms=6, label="what-if intervals")
+        ax.errorbar(
+            [r["interval_cycles"] for r in wi],
+            [r["pof"] for r in wi],
+            yerr=[r["std_error"] for r in wi],
+            fmt="s",
+            ms=6,
+            label="what-if intervals",
+        )
     ax.axhline(summary["target_pof"], color="C3", ls="--", label="target")
     ax.axhline(summary["no_inspection"]["pof"], color="0.5", ls=":", label="no inspection")
     rec = summary["recommended_interval_cycles"]
@@ -67,15 +73,21 @@ def envelope(curves: dict, summary: dict):
     fig, ax = _fig()
     env = curves["envelope"]
     n = np.asarray(env["cycles"])
-    ax.fill_between(n, env["a_p05_mm"], env["a_p95_mm"], alpha=0.25,
-                    label="5–95 % of samples (no inspection)")
+    ax.fill_between(
+        n, env["a_p05_mm"], env["a_p95_mm"], alpha=0.25, label="5–95 % of samples (no inspection)"
+    )
     ax.plot(n, env["a_p50_mm"], lw=1.5, label="median sample")
     det = curves["deterministic"]
     ax.plot(det["cycles"], det["a_mm"], "k-", lw=1, label="deterministic, from detectable")
     d = summary["deterministic"]
     for i, row in enumerate(d["schedule"]):
-        ax.axvline(row["cycle"], color="C2", lw=0.8, ls=":",
-                   label="deterministic inspections" if i == 0 else None)
+        ax.axvline(
+            row["cycle"],
+            color="C2",
+            lw=0.8,
+            ls=":",
+            label="deterministic inspections" if i == 0 else None,
+        )
     ax.axhline(d["critical_crack_length_mm"], color="C3", ls="--", lw=1, label="critical")
     ax.axhline(d["detectable_size_mm"], color="0.4", ls="-.", lw=1, label="detectable")
     ax.set_yscale("log")
@@ -100,8 +112,13 @@ def pod_plot(fit, a, y, kind: str):
         ax2 = ax.twinx()
         ax.plot(a, y, "o", ms=3, alpha=0.5, label="â")
         p = fit.params
-        ax.plot(grid, np.exp(p["beta0"] + p["beta1"] * np.log(grid)), "k-", lw=1,
-                label="ln â regression")
+        ax.plot(
+            grid,
+            np.exp(p["beta0"] + p["beta1"] * np.log(grid)),
+            "k-",
+            lw=1,
+            label="ln â regression",
+        )
         ax.axhline(p["decision"], color="C3", ls="--", lw=1, label="decision â")
         ax.set_yscale("log")
         ax.set_ylabel("signal â")

@@ -34,13 +34,14 @@ Z95 = 1.6448536269514722
 #: logistic quantile of 0.90, ln 9
 L90 = math.log(9.0)
 
-_MIL = ("MIL-HDBK-1823A (2009): Nondestructive Evaluation System Reliability Assessment "
-        "(POD)")
+_MIL = "MIL-HDBK-1823A (2009): Nondestructive Evaluation System Reliability Assessment (POD)"
 _BERENS = "Berens, A. P. (1989), NDE reliability data analysis, ASM Handbook Vol. 17, 689–701"
-POD_LOGNORMAL = register("pod", "lognormal", 0, validity="0 < POD ≤ ceiling; a > 0",
-                         citation=(_MIL, _BERENS)).code
-POD_LOGLOGISTIC = register("pod", "loglogistic", 1, validity="0 < POD ≤ ceiling; a > 0",
-                           citation=(_MIL, _BERENS)).code
+POD_LOGNORMAL = register(
+    "pod", "lognormal", 0, validity="0 < POD ≤ ceiling; a > 0", citation=(_MIL, _BERENS)
+).code
+POD_LOGLOGISTIC = register(
+    "pod", "loglogistic", 1, validity="0 < POD ≤ ceiling; a > 0", citation=(_MIL, _BERENS)
+).code
 POD_MODELS = names("pod")
 
 
@@ -143,8 +144,11 @@ class PodCurve:
 
     def to_toml(self) -> str:
         """The inline table that drops into a case's ``[inspection]``."""
-        parts = [f'model = "{self.model}"', f'a50 = "{self.a50:.4g} mm"',
-                 f"sigma = {self.sigma:.4g}"]
+        parts = [
+            f'model = "{self.model}"',
+            f'a50 = "{self.a50:.4g} mm"',
+            f"sigma = {self.sigma:.4g}",
+        ]
         if self.ceiling < 1:
             parts.append(f"ceiling = {self.ceiling:.4g}")
         if self.a90_95 is not None:
@@ -152,19 +156,27 @@ class PodCurve:
         return "pod = { " + ", ".join(parts) + " }"
 
     def as_dict(self) -> dict:
-        return {"model": self.model, "mu": self.mu, "sigma": self.sigma,
-                "ceiling": self.ceiling, "a50_mm": self.a50, "a90_mm": self.a90,
-                "a90_95_mm": self.a90_95}
+        return {
+            "model": self.model,
+            "mu": self.mu,
+            "sigma": self.sigma,
+            "ceiling": self.ceiling,
+            "a50_mm": self.a50,
+            "a90_mm": self.a90,
+            "a90_95_mm": self.a90_95,
+        }
 
 
-def pod_from_a50(model: str, a50: float, sigma: float, ceiling: float = 1.0,
-                 a90_95: float | None = None) -> PodCurve:
+def pod_from_a50(
+    model: str, a50: float, sigma: float, ceiling: float = 1.0, a90_95: float | None = None
+) -> PodCurve:
     """POD curve from its median detectable size a50 [mm] and scale σ (ln a)."""
     return PodCurve(model, math.log(a50), sigma, ceiling, a90_95)
 
 
-def pod_from_a90(model: str, a90: float, sigma: float, ceiling: float = 1.0,
-                 a90_95: float | None = None) -> PodCurve:
+def pod_from_a90(
+    model: str, a90: float, sigma: float, ceiling: float = 1.0, a90_95: float | None = None
+) -> PodCurve:
     """POD curve from a90 [mm] and σ: μ = ln a90 − z90·σ (z90 = 1.2816 probit, ln 9 logit)."""
     return PodCurve(model, math.log(a90) - _z(model, 0.9) * sigma, sigma, ceiling, a90_95)
 
@@ -182,8 +194,7 @@ def pod_from_glm(link: str, beta0: float, beta1: float) -> PodCurve:
     return PodCurve(model, -beta0 / beta1, 1.0 / beta1)
 
 
-def pod_from_signal_response(beta0: float, beta1: float, tau: float,
-                             decision: float) -> PodCurve:
+def pod_from_signal_response(beta0: float, beta1: float, tau: float, decision: float) -> PodCurve:
     """POD from ln â = β0 + β1·ln a + N(0, τ²) and decision threshold â_dec.
 
     μ = (ln â_dec − β0)/β1, σ = τ/β1 (log-normal curve).

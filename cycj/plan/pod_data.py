@@ -49,25 +49,29 @@ def read_pod_data(path):
     size_col = next((c for c in ("a_mm", "a") if c in header), None)
     kind_col = next((c for c in ("hit", "ahat") if c in header), None)
     if size_col is None or kind_col is None:
-        raise CycjInputError("needs columns a_mm and hit (hit/miss) or a_mm and ahat",
-                             source=str(path), line=hline, found=",".join(header))
+        raise CycjInputError(
+            "needs columns a_mm and hit (hit/miss) or a_mm and ahat",
+            source=str(path),
+            line=hline,
+            found=",".join(header),
+        )
     ia, iy = header.index(size_col), header.index(kind_col)
     a, y = [], []
     for ln, cells in rows:
         try:
             av, yv = float(cells[ia]), float(cells[iy])
         except (ValueError, IndexError):
-            raise CycjInputError("not a number", source=str(path), line=ln,
-                                 found=",".join(cells)) from None
+            raise CycjInputError(
+                "not a number", source=str(path), line=ln, found=",".join(cells)
+            ) from None
         if not (math.isfinite(av) and av > 0):
-            raise CycjInputError("crack size must be > 0", source=str(path), line=ln,
-                                 found=cells[ia])
+            raise CycjInputError(
+                "crack size must be > 0", source=str(path), line=ln, found=cells[ia]
+            )
         if kind_col == "hit" and yv not in (0.0, 1.0):
-            raise CycjInputError("hit must be 0 or 1", source=str(path), line=ln,
-                                 found=cells[iy])
+            raise CycjInputError("hit must be 0 or 1", source=str(path), line=ln, found=cells[iy])
         if kind_col == "ahat" and not yv > 0:
-            raise CycjInputError("ahat must be > 0", source=str(path), line=ln,
-                                 found=cells[iy])
+            raise CycjInputError("ahat must be > 0", source=str(path), line=ln, found=cells[iy])
         a.append(av)
         y.append(yv)
     kind = "hit-miss" if kind_col == "hit" else "signal-response"
@@ -90,23 +94,35 @@ def fit_file(path, *, link=None, decision=None, floor=None, saturation=None):
         try:
             return float(meta[key])
         except ValueError:
-            raise CycjInputError("not a number", source=str(path), key=key,
-                                 found=meta[key]) from None
+            raise CycjInputError(
+                "not a number", source=str(path), key=key, found=meta[key]
+            ) from None
 
     try:
         if kind == "hit-miss":
             lk = link or meta.get("link", "logit")
             if lk not in ("logit", "probit"):
-                raise CycjInputError("unknown link", source=str(path), key="link",
-                                     expected="'logit' or 'probit'", found=lk)
+                raise CycjInputError(
+                    "unknown link",
+                    source=str(path),
+                    key="link",
+                    expected="'logit' or 'probit'",
+                    found=lk,
+                )
             return fit_hit_miss(a, y, lk), a, y
         dec = num("decision", decision)
         if dec is None:
-            raise CycjInputError("signal-response data need a decision threshold",
-                                 source=str(path), key="decision",
-                                 expected="--decision X or a '# decision = X' line")
-        return fit_signal_response(a, y, dec, num("floor", floor),
-                                   num("saturation", saturation)), a, y
+            raise CycjInputError(
+                "signal-response data need a decision threshold",
+                source=str(path),
+                key="decision",
+                expected="--decision X or a '# decision = X' line",
+            )
+        return (
+            fit_signal_response(a, y, dec, num("floor", floor), num("saturation", saturation)),
+            a,
+            y,
+        )
     except (ValueError, ArithmeticError, np.linalg.LinAlgError) as exc:
         if isinstance(exc, CycjInputError):
             raise

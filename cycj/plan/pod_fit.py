@@ -34,9 +34,9 @@ class PodFit:
     """A fitted POD curve with its parameters, covariance and a90/95 [mm]."""
 
     curve: PodCurve
-    method: str                 # "hit-miss" or "signal-response"
-    link: str                   # "logit" or "probit"
-    params: dict                # β0, β1 (and τ, â_dec)
+    method: str  # "hit-miss" or "signal-response"
+    link: str  # "logit" or "probit"
+    params: dict  # β0, β1 (and τ, â_dec)
     covariance: np.ndarray
     n: int
     a90_95: float
@@ -44,11 +44,21 @@ class PodFit:
 
     def summary(self) -> dict:
         c = self.curve
-        return {"method": self.method, "link": self.link, "n": self.n,
-                "model": c.model, "mu": c.mu, "sigma": c.sigma,
-                "a50_mm": c.a50, "a90_mm": c.a90, "a90_95_mm": self.a90_95,
-                "params": self.params, "covariance": self.covariance.tolist(),
-                "pod_toml": c.to_toml(), **self.extra}
+        return {
+            "method": self.method,
+            "link": self.link,
+            "n": self.n,
+            "model": c.model,
+            "mu": c.mu,
+            "sigma": c.sigma,
+            "a50_mm": c.a50,
+            "a90_mm": c.a90,
+            "a90_95_mm": self.a90_95,
+            "params": self.params,
+            "covariance": self.covariance.tolist(),
+            "pod_toml": c.to_toml(),
+            **self.extra,
+        }
 
 
 def _hessian(fun, x, h=1e-4):
@@ -63,7 +73,7 @@ def _hessian(fun, x, h=1e-4):
             ej = np.zeros(n)
             ei[i] = step[i]
             ej[j] = step[j]
-            v = (fun(x + ei + ej) - fun(x + ei - ej) - fun(x - ei + ej) + fun(x - ei - ej))
+            v = fun(x + ei + ej) - fun(x + ei - ej) - fun(x - ei + ej) + fun(x - ei - ej)
             hess[i, j] = hess[j, i] = v / (4 * step[i] * step[j])
     return hess
 
@@ -145,8 +155,12 @@ def fit_hit_miss(a, hit, link: str = "logit", bound: str = "likelihood-ratio") -
 
     # start: a50 at the mean log size, a moderate slope
     b1 = 2.0 / max(np.std(x), 1e-3)
-    res = minimize(nll, [-b1 * x.mean(), b1], method="Nelder-Mead",
-                   options={"xatol": 1e-10, "fatol": 1e-12, "maxiter": 20000})
+    res = minimize(
+        nll,
+        [-b1 * x.mean(), b1],
+        method="Nelder-Mead",
+        options={"xatol": 1e-10, "fatol": 1e-12, "maxiter": 20000},
+    )
     res = minimize(nll, res.x, method="BFGS", options={"gtol": 1e-9})
     b0, b1 = res.x
     if not b1 > 0:
@@ -163,14 +177,27 @@ def fit_hit_miss(a, hit, link: str = "logit", bound: str = "likelihood-ratio") -
     a9095 = a_lr if bound == "likelihood-ratio" and math.isfinite(a_lr) else a_delta
     base = pod_from_glm(link, b0, b1)
     curve = PodCurve(base.model, base.mu, base.sigma, 1.0, a9095)
-    return PodFit(curve, "hit-miss", link, {"beta0": b0, "beta1": b1}, cov, int(a.size),
-                  a9095, {"se_ln_a90": se, "log_likelihood": -float(res.fun),
-                          "a90_95_bound": bound if a9095 == a_lr else "delta",
-                          "a90_95_delta_mm": a_delta, "a90_95_likelihood_ratio_mm": a_lr})
+    return PodFit(
+        curve,
+        "hit-miss",
+        link,
+        {"beta0": b0, "beta1": b1},
+        cov,
+        int(a.size),
+        a9095,
+        {
+            "se_ln_a90": se,
+            "log_likelihood": -float(res.fun),
+            "a90_95_bound": bound if a9095 == a_lr else "delta",
+            "a90_95_delta_mm": a_delta,
+            "a90_95_likelihood_ratio_mm": a_lr,
+        },
+    )
 
 
-def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
-                        saturation: float | None = None) -> PodFit:
+def fit_signal_response(
+    a, ahat, decision: float, floor: float | None = None, saturation: float | None = None
+) -> PodFit:
     """Censored maximum-likelihood â-vs-a fit and its POD (MIL-HDBK-1823A).
 
     Parameters
@@ -205,9 +232,11 @@ def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
     if not (decision > 0 and math.isfinite(decision)):
         raise ValueError("the decision threshold must be a finite number > 0")
     if not s.min() <= decision <= s.max():
-        raise ValueError(f"the decision threshold {decision:g} lies outside the recorded "
-                         f"responses ({s.min():g} to {s.max():g}): the POD curve would be an "
-                         "extrapolation")
+        raise ValueError(
+            f"the decision threshold {decision:g} lies outside the recorded "
+            f"responses ({s.min():g} to {s.max():g}): the POD curve would be an "
+            "extrapolation"
+        )
     for name, v in (("floor", floor), ("saturation", saturation)):
         if v is not None and not (v > 0 and math.isfinite(v)):
             raise ValueError(f"the {name} must be a finite number > 0")
@@ -234,15 +263,16 @@ def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
     coef = np.polyfit(x[mid], yv[mid], 1)
     resid = yv[mid] - np.polyval(coef, x[mid])
     p0 = [coef[1], coef[0], math.log(max(resid.std(), 1e-3))]
-    res = minimize(nll, p0, method="Nelder-Mead",
-                   options={"xatol": 1e-10, "fatol": 1e-12, "maxiter": 20000})
+    res = minimize(
+        nll, p0, method="Nelder-Mead", options={"xatol": 1e-10, "fatol": 1e-12, "maxiter": 20000}
+    )
     res = minimize(nll, res.x, method="BFGS", options={"gtol": 1e-9})
     b0, b1, lt = res.x
     tau = math.exp(lt)
     if not b1 > 0:
         raise ValueError("the response does not rise with crack size (β1 ≤ 0)")
     cov_l = np.linalg.inv(_hessian(nll, res.x))
-    jac = np.diag([1.0, 1.0, tau])           # (β0, β1, ln τ) → (β0, β1, τ)
+    jac = np.diag([1.0, 1.0, tau])  # (β0, β1, ln τ) → (β0, β1, τ)
     cov = jac @ cov_l @ jac.T
     ld = math.log(decision)
     ln_a90 = (ld - b0 + Z90 * tau) / b1
@@ -251,8 +281,25 @@ def fit_signal_response(a, ahat, decision: float, floor: float | None = None,
     a9095 = math.exp(ln_a90 + Z95 * se)
     base = pod_from_signal_response(b0, b1, tau, decision)
     curve = PodCurve("lognormal", base.mu, base.sigma, 1.0, a9095)
-    return PodFit(curve, "signal-response", "probit",
-                  {"beta0": b0, "beta1": b1, "tau": tau, "decision": decision,
-                   "floor": floor, "saturation": saturation}, cov, int(a.size), a9095,
-                  {"se_ln_a90": se, "censored_low": int(left.sum()),
-                   "censored_high": int(right.sum()), "log_likelihood": -float(res.fun)})
+    return PodFit(
+        curve,
+        "signal-response",
+        "probit",
+        {
+            "beta0": b0,
+            "beta1": b1,
+            "tau": tau,
+            "decision": decision,
+            "floor": floor,
+            "saturation": saturation,
+        },
+        cov,
+        int(a.size),
+        a9095,
+        {
+            "se_ln_a90": se,
+            "censored_low": int(left.sum()),
+            "censored_high": int(right.sum()),
+            "log_likelihood": -float(res.fun),
+        },
+    )

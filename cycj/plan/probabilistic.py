@@ -35,8 +35,18 @@ def make_spec(table, inp) -> McSpec:
     counts += [uniform_schedule(i, inp.design_life, start).size for i in inp.intervals]
     if inp.schedule:
         counts.append(len(inp.schedule))
-    return McSpec(table, inp.scatter, inp.pod, inp.design_life, inp.samples, inp.seed,
-                  inp.repair, max(max(counts), 1), inp.chunk_size, tuple(inp.findings))
+    return McSpec(
+        table,
+        inp.scatter,
+        inp.pod,
+        inp.design_life,
+        inp.samples,
+        inp.seed,
+        inp.repair,
+        max(max(counts), 1),
+        inp.chunk_size,
+        tuple(inp.findings),
+    )
 
 
 def _evaluate(runner, spec, schedules):
@@ -71,13 +81,11 @@ def probabilistic_plan(table, inp, scheduler=None) -> dict:
     grid = np.geomspace(life / inp.max_inspections, life, SEARCH_POINTS)
     fixed = [] if not inp.schedule else [np.array([t for t in inp.schedule if t > start])]
     with Runner(scheduler) as runner:
-        first = [np.empty(0)] + [sched(i) for i in inp.intervals] + fixed + \
-            [sched(i) for i in grid]
+        first = [np.empty(0)] + [sched(i) for i in inp.intervals] + fixed + [sched(i) for i in grid]
         r1 = _evaluate(runner, spec, first)
         nw = len(inp.intervals)
         g0 = 1 + nw + len(fixed)
-        search_i, search_p, search_se = list(grid), list(r1["pof"][g0:]), \
-            list(r1["std_error"][g0:])
+        search_i, search_p, search_se = list(grid), list(r1["pof"][g0:]), list(r1["std_error"][g0:])
         p_none = float(r1["pof"][0])
         inspection_needed = p_none > inp.target_pof
         recommended = life if not inspection_needed else None
@@ -104,22 +112,31 @@ def probabilistic_plan(table, inp, scheduler=None) -> dict:
     for j, itv in enumerate(inp.intervals):
         s = 1 + j
         n_insp = sched(itv).size
-        per = r1["per_interval"][s][:n_insp + 1]
+        per = r1["per_interval"][s][: n_insp + 1]
         surv = 1.0 - np.concatenate([[0.0], np.cumsum(per)[:-1]])
-        what_if.append({"interval_cycles": float(itv), "pof": float(r1["pof"][s]),
-                        "std_error": float(r1["std_error"][s]),
-                        "detections_mean": float(r1["detections_mean"][s]),
-                        "inspections": int(n_insp),
-                        "pof_per_interval": per.tolist(),
-                        "hazard_per_interval": np.divide(per, surv, out=np.zeros_like(per),
-                                                         where=surv > 0).tolist()})
+        what_if.append(
+            {
+                "interval_cycles": float(itv),
+                "pof": float(r1["pof"][s]),
+                "std_error": float(r1["std_error"][s]),
+                "detections_mean": float(r1["detections_mean"][s]),
+                "inspections": int(n_insp),
+                "pof_per_interval": per.tolist(),
+                "hazard_per_interval": np.divide(
+                    per, surv, out=np.zeros_like(per), where=surv > 0
+                ).tolist(),
+            }
+        )
     out_sched = None
     if fixed:
         s = 1 + nw
-        out_sched = {"cycles": fixed[0].tolist(), "pof": float(r1["pof"][s]),
-                     "std_error": float(r1["std_error"][s]),
-                     "detections_mean": float(r1["detections_mean"][s]),
-                     "pof_per_interval": r1["per_interval"][s][:fixed[0].size + 1].tolist()}
+        out_sched = {
+            "cycles": fixed[0].tolist(),
+            "pof": float(r1["pof"][s]),
+            "std_error": float(r1["std_error"][s]),
+            "detections_mean": float(r1["detections_mean"][s]),
+            "pof_per_interval": r1["per_interval"][s][: fixed[0].size + 1].tolist(),
+        }
     order = np.argsort(search_i)
     edges = np.linspace(start, life, spec.n_bins + 1)[1:]
     cum = {"cycles": edges.tolist(), "no_inspection": r1["cumulative"][0].tolist()}
@@ -131,8 +148,14 @@ def probabilistic_plan(table, inp, scheduler=None) -> dict:
         "no_inspection": {"pof": p_none, "std_error": float(r1["std_error"][0])},
         "what_if": what_if,
         "schedule": out_sched,
-        "search": [{"interval_cycles": float(search_i[i]), "pof": float(search_p[i]),
-                    "std_error": float(search_se[i])} for i in order],
+        "search": [
+            {
+                "interval_cycles": float(search_i[i]),
+                "pof": float(search_p[i]),
+                "std_error": float(search_se[i]),
+            }
+            for i in order
+        ],
         "recommended_interval_cycles": None if recommended is None else float(recommended),
         "inspection_needed": bool(inspection_needed),
         "cumulative": cum,
@@ -143,8 +166,9 @@ def probabilistic_plan(table, inp, scheduler=None) -> dict:
     }
 
 
-def envelope(table, inp, n_samples: int = 2000, n_points: int = 80,
-             quantiles=(0.05, 0.5, 0.95)) -> dict:
+def envelope(
+    table, inp, n_samples: int = 2000, n_points: int = 80, quantiles=(0.05, 0.5, 0.95)
+) -> dict:
     """Crack size quantiles vs cycles with no inspection, from the first samples of the first
     chunk (a failed sample stays at its critical size).  Weighted by findings if any."""
     spec = make_spec(table, inp)

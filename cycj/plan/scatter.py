@@ -71,8 +71,7 @@ class Dist:
 
     @property
     def scatters(self) -> bool:
-        return self.kind in ("weibull",) or (self.kind in ("lognormal", "normal")
-                                              and self.p2 > 0)
+        return self.kind in ("weibull",) or (self.kind in ("lognormal", "normal") and self.p2 > 0)
 
 
 def lognormal(median: float, sigma: float) -> Dist:
@@ -124,6 +123,9 @@ class Scatter:
         """Draw ``n`` samples: dict of arrays ``c_factor``, ``a0_mm``, ``toughness_factor``,
         ``load_factor`` (one uniform per variable per sample, in :data:`VARIABLES` order)."""
         u = rng.random((4, n))
-        return {"c_factor": self.growth_C.ppf(u[0]), "a0_mm": self.initial_crack.ppf(u[1]),
-                "toughness_factor": self.toughness.ppf(u[2]),
-                "load_factor": self.load_scale.ppf(u[3])}
+        return {
+            "c_factor": self.growth_C.ppf(u[0]),
+            "a0_mm": self.initial_crack.ppf(u[1]),
+            "toughness_factor": self.toughness.ppf(u[2]),
+            "load_factor": self.load_scale.ppf(u[3]),
+        }

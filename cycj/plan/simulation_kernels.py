@@ -92,9 +92,29 @@ def pod_value(a, model, mu, sigma, ceiling):
 
 
 @jit
-def simulate(la0_s, xc, k_s, w_s, phic, la_repl, u_det, times, n_insp, horizon,
-             repair, pod_model, pod_mu, pod_sigma, pod_ceiling, la_grid0, dla, logphi,
-             fail_time, fail_bin, n_det):
+def simulate(
+    la0_s,
+    xc,
+    k_s,
+    w_s,
+    phic,
+    la_repl,
+    u_det,
+    times,
+    n_insp,
+    horizon,
+    repair,
+    pod_model,
+    pod_mu,
+    pod_sigma,
+    pod_ceiling,
+    la_grid0,
+    dla,
+    logphi,
+    fail_time,
+    fail_bin,
+    n_det,
+):
     """Run every sample through every inspection schedule.
 
     Parameters
@@ -133,8 +153,7 @@ def simulate(la0_s, xc, k_s, w_s, phic, la_repl, u_det, times, n_insp, horizon,
                     fb = j
                     break
                 la = size_at(phi0 + x * (tj - t0), k, w, la_grid0, dla, logphi)
-                if u_det[i, j] < pod_value(math.exp(la), pod_model, pod_mu, pod_sigma,
-                                           pod_ceiling):
+                if u_det[i, j] < pod_value(math.exp(la), pod_model, pod_mu, pod_sigma, pod_ceiling):
                     nd += 1
                     if repair == 1:
                         removed = True
@@ -166,5 +185,8 @@ def size_many(phi, k_s, w_s, la_grid0, dla, logphi, out):
 
 
 def empty_outputs(n_sched: int, n: int):
-    return (np.empty((n_sched, n)), np.empty((n_sched, n), np.int64),
-            np.empty((n_sched, n), np.int64))
+    return (
+        np.empty((n_sched, n)),
+        np.empty((n_sched, n), np.int64),
+        np.empty((n_sched, n), np.int64),
+    )

@@ -9,21 +9,28 @@ from pathlib import Path
 def answer_sentence(s: dict) -> str:
     """One sentence: the deterministic interval and the recommended probabilistic one."""
     d = s["deterministic"]
-    parts = [f"Inspect every {d['interval_cycles']:.4g} cycles by the deterministic rule "
-             f"(life {d['life_cycles']:.4g} cycles from {d['detectable_size_mm']:.3g} mm to "
-             f"{d['critical_crack_length_mm']:.3g} mm ÷ {d['safety_factor']:g})"]
+    parts = [
+        f"Inspect every {d['interval_cycles']:.4g} cycles by the deterministic rule "
+        f"(life {d['life_cycles']:.4g} cycles from {d['detectable_size_mm']:.3g} mm to "
+        f"{d['critical_crack_length_mm']:.3g} mm ÷ {d['safety_factor']:g})"
+    ]
     rec = s["recommended_interval_cycles"]
     if not s["inspection_needed"]:
-        parts.append(f"; without inspection the probability of failure "
-                     f"{s['no_inspection']['pof']:.3g} already meets the target "
-                     f"{s['target_pof']:.3g}.")
+        parts.append(
+            f"; without inspection the probability of failure "
+            f"{s['no_inspection']['pof']:.3g} already meets the target "
+            f"{s['target_pof']:.3g}."
+        )
     elif rec is None:
-        parts.append(f"; no interval searched meets the target probability of failure "
-                     f"{s['target_pof']:.3g}.")
+        parts.append(
+            f"; no interval searched meets the target probability of failure {s['target_pof']:.3g}."
+        )
     else:
-        parts.append(f"; to keep the probability of failure over {s['design_life_cycles']:.4g} "
-                     f"cycles within {s['target_pof']:.3g}, inspect at most every "
-                     f"{rec:.4g} cycles (no inspection: {s['no_inspection']['pof']:.3g}).")
+        parts.append(
+            f"; to keep the probability of failure over {s['design_life_cycles']:.4g} "
+            f"cycles within {s['target_pof']:.3g}, inspect at most every "
+            f"{rec:.4g} cycles (no inspection: {s['no_inspection']['pof']:.3g})."
+        )
     return "".join(parts)
 
 
@@ -35,8 +42,9 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
 
     summary = dict(result.summary)
     inputs = {"case": case.path, "history": case.loading.history}
-    record_provenance(summary, inputs, method="deterministic interval and Monte Carlo",
-                      seed=summary.get("seed"))
+    record_provenance(
+        summary, inputs, method="deterministic interval and Monte Carlo", seed=summary.get("seed")
+    )
     with OutputDir(out, force=force, inputs=[case.path] if case.path else []) as od:
         od.write_csv("what_if.csv", result.what_if)
         sched = pd.DataFrame(summary["deterministic"]["schedule"])
@@ -46,14 +54,24 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
             from cycj.plan import plots as P
 
             for name, caption, fig in (
-                    ("pof_vs_interval.png", "Probability of failure over the design life vs "
-                     "inspection interval (Monte Carlo, ± one standard error)",
-                     P.pof_vs_interval(summary)),
-                    ("cumulative_pof.png", "Cumulative probability of failure vs cycles",
-                     P.cumulative_pof(summary)),
-                    ("crack_envelope.png", "Crack size vs cycles: sample quantiles without "
-                     "inspection and the deterministic curve with its inspections",
-                     P.envelope(result.curves, summary))):
+                (
+                    "pof_vs_interval.png",
+                    "Probability of failure over the design life vs "
+                    "inspection interval (Monte Carlo, ± one standard error)",
+                    P.pof_vs_interval(summary),
+                ),
+                (
+                    "cumulative_pof.png",
+                    "Cumulative probability of failure vs cycles",
+                    P.cumulative_pof(summary),
+                ),
+                (
+                    "crack_envelope.png",
+                    "Crack size vs cycles: sample quantiles without "
+                    "inspection and the deterministic curve with its inspections",
+                    P.envelope(result.curves, summary),
+                ),
+            ):
                 figures.append((caption, od.savefig(name, fig)))
             summary["plots"] = [p.name for _, p in figures]
             _report(od, case, summary, result, figures, sched)
@@ -67,37 +85,66 @@ def _report(od, case, s, result, figures, sched):
     inp = result.inputs
     d = s["deterministic"]
     sc = inp.scatter
-    inputs = [("case", str(case.path)), ("shape", case.geometry.shape.name),
-              ("detectable size [mm]", f"{d['detectable_size_mm']:.4g} "
-                                       f"({d['detectable_size_source']})"),
-              ("safety factor", f"{d['safety_factor']:g}"),
-              ("design life [cycles]", f"{s['design_life_cycles']:.4g}"),
-              ("POD", inp.pod.to_toml()),
-              ("repair", s["repair"]), ("samples, seed", f"{s['samples']}, {s['seed']}"),
-              ("target probability of failure", f"{s['target_pof']:g}")]
+    inputs = [
+        ("case", str(case.path)),
+        ("shape", case.geometry.shape.name),
+        ("detectable size [mm]", f"{d['detectable_size_mm']:.4g} ({d['detectable_size_source']})"),
+        ("safety factor", f"{d['safety_factor']:g}"),
+        ("design life [cycles]", f"{s['design_life_cycles']:.4g}"),
+        ("POD", inp.pod.to_toml()),
+        ("repair", s["repair"]),
+        ("samples, seed", f"{s['samples']}, {s['seed']}"),
+        ("target probability of failure", f"{s['target_pof']:g}"),
+    ]
     for name in ("growth_C", "initial_crack", "toughness", "load_scale"):
         dist = getattr(sc, name)
-        inputs.append((f"scatter: {name}", "fixed" if not dist.scatters else
-                       f"{dist.kind} (median {dist.median:.4g})"))
+        inputs.append(
+            (
+                f"scatter: {name}",
+                "fixed" if not dist.scatters else f"{dist.kind} (median {dist.median:.4g})",
+            )
+        )
     for f in s["findings"]:
-        inputs.append(("finding", f"{f['result']} at {f['cycles']:.4g} cycles"
-                       + (f", {f['size_mm']:.3g} ± {f['sizing_sd_mm']:.3g} mm"
-                          if f["size_mm"] else "")))
+        inputs.append(
+            (
+                "finding",
+                f"{f['result']} at {f['cycles']:.4g} cycles"
+                + (f", {f['size_mm']:.3g} ± {f['sizing_sd_mm']:.3g} mm" if f["size_mm"] else ""),
+            )
+        )
     import pandas as pd
 
     wi = result.what_if
     tables = [("What-if intervals", wi), ("Deterministic inspection schedule", sched)]
     if s["schedule"]:
-        tables.append(("Fixed schedule", pd.DataFrame([{
-            "inspections": len(s["schedule"]["cycles"]), "pof": s["schedule"]["pof"],
-            "std_error": s["schedule"]["std_error"],
-            "detections_mean": s["schedule"]["detections_mean"]}])))
-    write_report(od.path("report.html"), title=f"Inspection plan: {case.title}",
-                 question="How often must this part be inspected so that a crack is found "
-                          "before it becomes critical, and what probability of failure over "
-                          "the design life does each interval leave?",
-                 answer=answer_sentence(s), inputs=inputs, figures=figures, tables=tables,
-                 warnings=s["warnings"], references=s["references"])
+        tables.append(
+            (
+                "Fixed schedule",
+                pd.DataFrame(
+                    [
+                        {
+                            "inspections": len(s["schedule"]["cycles"]),
+                            "pof": s["schedule"]["pof"],
+                            "std_error": s["schedule"]["std_error"],
+                            "detections_mean": s["schedule"]["detections_mean"],
+                        }
+                    ]
+                ),
+            )
+        )
+    write_report(
+        od.path("report.html"),
+        title=f"Inspection plan: {case.title}",
+        question="How often must this part be inspected so that a crack is found "
+        "before it becomes critical, and what probability of failure over "
+        "the design life does each interval leave?",
+        answer=answer_sentence(s),
+        inputs=inputs,
+        figures=figures,
+        tables=tables,
+        warnings=s["warnings"],
+        references=s["references"],
+    )
 
 
 def write_pod(fit, a, y, out, *, source: str, force=False, plots=True, options=None) -> dict:
@@ -121,15 +168,28 @@ def _pod_report(od, fit, a, y, source):
 
     png = od.savefig("pod.png", P.pod_plot(fit, a, y, fit.method))
     c = fit.curve
-    write_report(od.path("report.html"), title=f"POD from {Path(source).name}",
-                 question="How reliably does this inspection find cracks, by size?",
-                 answer=(f"a50 = {c.a50:.3g} mm, a90 = {c.a90:.3g} mm, a90/95 = "
-                         f"{fit.a90_95:.3g} mm ({fit.method}, {fit.link}, n = {fit.n})."),
-                 inputs=[("data", source), ("method", fit.method), ("link", fit.link),
-                         *[(k, v) for k, v in fit.params.items()]],
-                 figures=[("POD fit", png)], tables=[],
-                 warnings=[] if fit.n >= 60 else
-                 ["fewer than 60 observations: MIL-HDBK-1823A asks for more"],
-                 references=["MIL-HDBK-1823A (2009)",
-                             "Berens, A. P. (1989), ASM Handbook Vol. 17, 689–701",
-                             "Cheng, R. C. H., Iles, T. C. (1983), Technometrics 25, 77"])
+    write_report(
+        od.path("report.html"),
+        title=f"POD from {Path(source).name}",
+        question="How reliably does this inspection find cracks, by size?",
+        answer=(
+            f"a50 = {c.a50:.3g} mm, a90 = {c.a90:.3g} mm, a90/95 = "
+            f"{fit.a90_95:.3g} mm ({fit.method}, {fit.link}, n = {fit.n})."
+        ),
+        inputs=[
+            ("data", source),
+            ("method", fit.method),
+            ("link", fit.link),
+            *[(k, v) for k, v in fit.params.items()],
+        ],
+        figures=[("POD fit", png)],
+        tables=[],
+        warnings=[]
+        if fit.n >= 60
+        else ["fewer than 60 observations: MIL-HDBK-1823A asks for more"],
+        references=[
+            "MIL-HDBK-1823A (2009)",
+            "Berens, A. P. (1989), ASM Handbook Vol. 17, 689–701",
+            "Cheng, R. C. H., Iles, T. C. (1983), Technometrics 25, 77",
+        ],
+    )

@@ -11,8 +11,9 @@ from cycj.spectrum.reversals import block_reversals
 ORDERS = ("closing", "reversal")
 
 
-def cycles_in_sequence(values, gate: float = 0.0,
-                       order: str = "closing") -> tuple[np.ndarray, np.ndarray]:
+def cycles_in_sequence(
+    values, gate: float = 0.0, order: str = "closing"
+) -> tuple[np.ndarray, np.ndarray]:
     """One pass of a repeating load history as ordered (max, min) load pairs, one per cycle.
 
     The history is treated as a block that repeats (ASTM E1049-85 §5.4.5): its gated reversals
@@ -64,8 +65,9 @@ def cycles_in_sequence(values, gate: float = 0.0,
     return x[peak_idx], x[valley_idx]
 
 
-def cycle_indices_in_sequence(values, gate: float = 0.0,
-                              order: str = "closing") -> tuple[np.ndarray, np.ndarray]:
+def cycle_indices_in_sequence(
+    values, gate: float = 0.0, order: str = "closing"
+) -> tuple[np.ndarray, np.ndarray]:
     """Sample indices (within one pass) of the peak and the valley of every cycle, in the
     order of :func:`cycles_in_sequence`.
 

@@ -12,8 +12,9 @@ import numpy as np
 from cycj.spectrum.statistics import spectral_moments
 
 
-def constant_amplitude(maximum: float, minimum: float, n_cycles: int,
-                       points_per_cycle: int = 2) -> np.ndarray:
+def constant_amplitude(
+    maximum: float, minimum: float, n_cycles: int, points_per_cycle: int = 2
+) -> np.ndarray:
     """Constant-amplitude history starting and ending at the minimum.
 
     Parameters
@@ -67,8 +68,9 @@ def block_programme(blocks, repeats: int = 1, points_per_cycle: int = 2) -> np.n
     return np.tile(one, int(repeats))
 
 
-def gaussian_from_psd(frequency, psd, n_samples: int, dt: float, mean: float = 0.0,
-                      seed=None) -> np.ndarray:
+def gaussian_from_psd(
+    frequency, psd, n_samples: int, dt: float, mean: float = 0.0, seed=None
+) -> np.ndarray:
     """Stationary Gaussian load process from a one-sided PSD by spectral synthesis.
 
     x(t) = mean + Σ_k √(2·S(f_k)·Δf) · cos(2π f_k t + φ_k), φ_k uniform on [0, 2π), summed on
@@ -127,8 +129,9 @@ def _two_band_psd(f_low, ratio, weight, width=0.1):
     return f, (1.0 - weight) * lo + weight * hi
 
 
-def gaussian_from_irregularity(n_samples: int, irregularity: float, rms: float,
-                               mean: float = 0.0, dt: float = 1.0, seed=None):
+def gaussian_from_irregularity(
+    n_samples: int, irregularity: float, rms: float, mean: float = 0.0, dt: float = 1.0, seed=None
+):
     """Stationary Gaussian load process with a given irregularity factor and RMS.
 
     The PSD is two flat bands an octave-ratio of 8 apart (lower band at 1/(80·dt), upper at
@@ -184,8 +187,9 @@ def gaussian_from_irregularity(n_samples: int, irregularity: float, rms: float,
     return gaussian_from_psd(f, s, n_samples, dt, mean, seed), f, s
 
 
-def exceedance_sequence(amplitudes, cumulative_counts, mean: float = 0.0,
-                        n_subblocks: int = 10, seed=None) -> np.ndarray:
+def exceedance_sequence(
+    amplitudes, cumulative_counts, mean: float = 0.0, n_subblocks: int = 10, seed=None
+) -> np.ndarray:
     """Reversal sequence built from a cumulative exceedance table, in randomised blocks.
 
     Level i holds ``H_i − H_(i−1)`` cycles of amplitude ``amplitudes[i]`` (the upper edge of
@@ -219,15 +223,17 @@ def exceedance_sequence(amplitudes, cumulative_counts, mean: float = 0.0,
     if amp.shape != cum.shape or amp.size == 0:
         raise ValueError("amplitudes and cumulative_counts must be equal, non-empty lists")
     if np.any(np.diff(amp) >= 0) or np.any(np.diff(cum) < 0) or cum[0] < 1:
-        raise ValueError("the table must list decreasing amplitudes with non-decreasing "
-                         "cumulative counts starting at >= 1")
+        raise ValueError(
+            "the table must list decreasing amplitudes with non-decreasing "
+            "cumulative counts starting at >= 1"
+        )
     per_level = np.diff(np.concatenate(([0], cum)))
     rng = np.random.default_rng(seed)
     nb = int(n_subblocks)
     # cycles of level i in sub-block b: spread by integer division plus a rotating remainder
     share = per_level[:, None] // nb + (
-        (np.arange(nb)[None, :] + np.arange(amp.size)[:, None]) % nb
-        < (per_level % nb)[:, None])
+        (np.arange(nb)[None, :] + np.arange(amp.size)[:, None]) % nb < (per_level % nb)[:, None]
+    )
     peaks = []
     for b in range(nb):
         for i in rng.permutation(amp.size):
@@ -239,8 +245,7 @@ def exceedance_sequence(amplitudes, cumulative_counts, mean: float = 0.0,
     return out
 
 
-def insert_excursions(values, interval: int, level: float, offset: int | None = None
-                      ) -> np.ndarray:
+def insert_excursions(values, interval: int, level: float, offset: int | None = None) -> np.ndarray:
     """Insert an overload (``level`` above the history) or underload (below) every
     ``interval`` samples.
 

@@ -28,8 +28,15 @@ def _save(fig, plt, path):
     return path
 
 
-def plot_history(values, path, times=None, unit: str = "", start: int = 0,
-                 max_samples: int = 5000, reversal_indices=None):
+def plot_history(
+    values,
+    path,
+    times=None,
+    unit: str = "",
+    start: int = 0,
+    max_samples: int = 5000,
+    reversal_indices=None,
+):
     """Plot an excerpt of the history (``max_samples`` from ``start``) to a PNG file.
 
     Parameters
@@ -112,8 +119,9 @@ def plot_exceedance(levels, counts, path, unit: str = "", kind: str = "range"):
     return _save(fig, plt, path)
 
 
-def plot_rainflow_matrix(matrix, row_edges, col_edges, path, unit: str = "",
-                         form: str = "range-mean"):
+def plot_rainflow_matrix(
+    matrix, row_edges, col_edges, path, unit: str = "", form: str = "range-mean"
+):
     """Heat map of a rainflow matrix (log colour scale, empty bins blank) to a PNG file.
 
     Parameters
@@ -139,10 +147,17 @@ def plot_rainflow_matrix(matrix, row_edges, col_edges, path, unit: str = "",
     m = np.asarray(matrix, dtype=np.float64)
     fig, ax = plt.subplots(figsize=(6, 5))
     shown = np.ma.masked_less_equal(m, 0.0)
-    norm = LogNorm(vmin=max(shown.min(), 0.5), vmax=max(shown.max(), 1.0)) if shown.count() \
-        else None
-    mesh = ax.pcolormesh(np.asarray(col_edges), np.asarray(row_edges), shown, norm=norm,
-                         cmap="viridis", shading="flat")
+    norm = (
+        LogNorm(vmin=max(shown.min(), 0.5), vmax=max(shown.max(), 1.0)) if shown.count() else None
+    )
+    mesh = ax.pcolormesh(
+        np.asarray(col_edges),
+        np.asarray(row_edges),
+        shown,
+        norm=norm,
+        cmap="viridis",
+        shading="flat",
+    )
     fig.colorbar(mesh, ax=ax, label="cycles")
     if form == "range-mean":
         ax.set_xlabel("cycle mean" + _unit(unit))

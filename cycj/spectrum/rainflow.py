@@ -23,7 +23,7 @@ def _rainflow_kernel(r, closed, first, second, count):
     """
     n = r.shape[0]
     stack = np.empty(n, dtype=np.int64)
-    sv = np.empty(n)          # the stacked points' values (saves an indirect load per test)
+    sv = np.empty(n)  # the stacked points' values (saves an indirect load per test)
     sp = 0
     nc = 0
     for j in range(n):
@@ -110,8 +110,14 @@ def rainflow_cycles(values, gate: float = 0.0, repeat: bool = False) -> dict:
     a, b, c = rainflow_pairs(v, closed=repeat)
     rng, mean, start, end = _cycle_table(v, np.asarray(idx, dtype=np.int64), a, b)
     n_rev = v.shape[0] - 1 if (repeat and v.shape[0] > 1) else v.shape[0]
-    return {"range": rng, "mean": mean, "count": c, "start": start, "end": end,
-            "n_reversals": n_rev}
+    return {
+        "range": rng,
+        "mean": mean,
+        "count": c,
+        "start": start,
+        "end": end,
+        "n_reversals": n_rev,
+    }
 
 
 @jit

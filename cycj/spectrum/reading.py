@@ -62,8 +62,9 @@ def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0
 MAX_LOAD = 1e100
 
 
-def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: float = 1.0,
-                           time_column=None) -> tuple[np.ndarray, np.ndarray | None]:
+def read_history_with_time(
+    path, column=None, unit_factor: float = 1.0, scale: float = 1.0, time_column=None
+) -> tuple[np.ndarray, np.ndarray | None]:
     """As :func:`read_history`, also returning the time channel if there is one.
 
     Parameters
@@ -82,8 +83,7 @@ def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: f
     src = str(path)
     for name, f in (("unit_factor", unit_factor), ("scale", scale)):
         if not (isinstance(f, (int, float)) and math.isfinite(f) and f != 0):
-            raise CycjInputError(f"{name} must be a finite non-zero number", source=src,
-                                 found=f)
+            raise CycjInputError(f"{name} must be a finite non-zero number", source=src, found=f)
     if not path.is_file():
         raise CycjInputError("history file not found", source=src)
     suffix = path.suffix.lower()
@@ -95,11 +95,18 @@ def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: f
         try:
             values, times = _read_text(path, column, time_column)
         except UnicodeDecodeError as exc:
-            raise CycjInputError("not a UTF-8 text file (binary data or another encoding)",
-                                 source=src, found=exc.reason) from None
+            raise CycjInputError(
+                "not a UTF-8 text file (binary data or another encoding)",
+                source=src,
+                found=exc.reason,
+            ) from None
     else:
-        raise CycjInputError("unknown history format", source=src,
-                             expected=".csv, .tsv, .txt, .dat, .parquet or .npy", found=suffix)
+        raise CycjInputError(
+            "unknown history format",
+            source=src,
+            expected=".csv, .tsv, .txt, .dat, .parquet or .npy",
+            found=suffix,
+        )
     factor = float(unit_factor) * float(scale)
     if factor != 1.0:
         with np.errstate(over="ignore"):
@@ -108,18 +115,26 @@ def read_history_with_time(path, column=None, unit_factor: float = 1.0, scale: f
             else:  # pragma: no cover - e.g. a read-only memory map
                 values = values * factor
         if not (math.isfinite(factor) and np.all(np.isfinite(values))):
-            raise CycjInputError("the loads overflow once the unit and scale are applied",
-                                 source=src, key="scale", expected="a smaller scale",
-                                 found=float(scale))
+            raise CycjInputError(
+                "the loads overflow once the unit and scale are applied",
+                source=src,
+                key="scale",
+                expected="a smaller scale",
+                found=float(scale),
+            )
     big = np.flatnonzero(np.abs(values) > MAX_LOAD)
     if big.size:
-        raise CycjInputError(f"sample {big[0]} is not a plausible load", source=src,
-                             expected=f"loads below {MAX_LOAD:g} in magnitude (N or MPa)",
-                             found=float(values[big[0]]))
+        raise CycjInputError(
+            f"sample {big[0]} is not a plausible load",
+            source=src,
+            expected=f"loads below {MAX_LOAD:g} in magnitude (N or MPa)",
+            found=float(values[big[0]]),
+        )
     return values, times
 
 
 # ---------------------------------------------------------------- choosing columns
+
 
 def is_time_name(name: str) -> bool:
     """True when a column name says it holds time (``time``, ``time_s``, ``t`` …)."""
@@ -142,8 +157,12 @@ def _pick(names, wanted, src, what="column"):
         pos = int(w) if w.lstrip("-").isdigit() else None
     if pos is not None and 0 <= pos < len(names):
         return pos
-    raise CycjInputError(f"no {what} {wanted!r} in the history", source=src,
-                         expected="one of: " + ", ".join(repr(n) for n in names), found=wanted)
+    raise CycjInputError(
+        f"no {what} {wanted!r} in the history",
+        source=src,
+        expected="one of: " + ", ".join(repr(n) for n in names),
+        found=wanted,
+    )
 
 
 def _choose(names, numeric, column, time_column, src):
@@ -164,6 +183,7 @@ def _choose(names, numeric, column, time_column, src):
 
 
 # ---------------------------------------------------------------- text tables
+
 
 def _split(line: str, sep: str | None) -> list[str]:
     line = line.split("#", 1)[0]
@@ -216,25 +236,34 @@ def _read_text(path: Path, column, time_column):
         raise CycjInputError("the history file is empty", source=src, line=1)
     first_no, first, more = _scan_head(path)
     if first is None:
-        raise CycjInputError("the history file has no data (only comments or blank lines)",
-                             source=src, line=1)
+        raise CycjInputError(
+            "the history file has no data (only comments or blank lines)", source=src, line=1
+        )
     sep = _sniff([first, *more])
     tokens = _split(first, sep)
     header = not all(_is_number(t) for t in tokens if t)
     names = tokens if header else [str(i) for i in range(len(tokens))]
     data_sample = more if header else [first, *more]
     if not data_sample:
-        raise CycjInputError("the history has a header but no data", source=src,
-                             line=first_no + 1)
+        raise CycjInputError("the history has a header but no data", source=src, line=first_no + 1)
     sample_tokens = _split(data_sample[0], sep)
     numeric = [i < len(sample_tokens) and _is_number(sample_tokens[i]) for i in range(len(names))]
     pos, t_pos = _choose(names, numeric, column, time_column, src)
     use = [pos] if t_pos is None else [pos, t_pos]
     skip = first_no if header else first_no - 1
     try:
-        df = pd.read_csv(path, sep=sep if sep else r"\s+", header=None, skiprows=skip,
-                         usecols=use, comment="#", dtype=np.float64, engine="c",
-                         skip_blank_lines=True, quotechar='"')
+        df = pd.read_csv(
+            path,
+            sep=sep if sep else r"\s+",
+            header=None,
+            skiprows=skip,
+            usecols=use,
+            comment="#",
+            dtype=np.float64,
+            engine="c",
+            skip_blank_lines=True,
+            quotechar='"',
+        )
     except (ValueError, pd.errors.ParserError) as exc:
         _locate_text_error(path, sep, skip, use, names, src, exc)
         raise  # pragma: no cover - _locate_text_error always raises
@@ -281,13 +310,22 @@ def _locate_text_error(path, sep, skip, use, names, src, exc):
             toks = _split(line, sep)
             for i in use:
                 if i >= len(toks):
-                    raise CycjInputError(f"missing field for column {names[i]!r}", source=src,
-                                         line=no, expected=f"{len(names)} fields",
-                                         found=line.rstrip("\n"))
+                    raise CycjInputError(
+                        f"missing field for column {names[i]!r}",
+                        source=src,
+                        line=no,
+                        expected=f"{len(names)} fields",
+                        found=line.rstrip("\n"),
+                    )
                 tok = toks[i]
                 if tok and not _is_number(tok):
-                    raise CycjInputError(f"not a number in column {names[i]!r}", source=src,
-                                         line=no, expected="a number", found=tok)
+                    raise CycjInputError(
+                        f"not a number in column {names[i]!r}",
+                        source=src,
+                        line=no,
+                        expected="a number",
+                        found=tok,
+                    )
     raise CycjInputError(f"cannot read the table ({str(exc).splitlines()[0]})", source=src)
 
 
@@ -300,15 +338,21 @@ def _check_values(values, name, src, line_of):
     if bad.any():
         row = int(np.flatnonzero(bad)[0])
         line, text = line_of(row)
-        raise CycjInputError(f"not a finite number in column {name!r} (NaN, inf or empty)",
-                             source=src, line=line, expected="a finite number",
-                             found=text if text else values[row])
+        raise CycjInputError(
+            f"not a finite number in column {name!r} (NaN, inf or empty)",
+            source=src,
+            line=line,
+            expected="a finite number",
+            found=text if text else values[row],
+        )
     if n == 1:
-        raise CycjInputError("only one sample: a load history needs at least two", source=src,
-                             line=line_of(0)[0])
+        raise CycjInputError(
+            "only one sample: a load history needs at least two", source=src, line=line_of(0)[0]
+        )
 
 
 # ---------------------------------------------------------------- binary formats
+
 
 def _row_lines(row: int) -> tuple[int, str]:
     return row + 1, ""
@@ -335,16 +379,22 @@ def _read_npy(path: Path, column, time_column):
         pos, t_pos = _choose(names, [True] * len(names), column, time_column, src)
         cols = [arr[:, pos], None if t_pos is None else arr[:, t_pos]]
     else:
-        raise CycjInputError("a .npy history must be 1-D, 2-D or structured", source=src,
-                             found=f"shape {arr.shape}")
+        raise CycjInputError(
+            "a .npy history must be 1-D, 2-D or structured", source=src, found=f"shape {arr.shape}"
+        )
     out = []
     for c in cols:
         if c is None:
             out.append(None)
             continue
         if not np.issubdtype(c.dtype, np.number) or np.issubdtype(c.dtype, np.complexfloating):
-            raise CycjInputError("the channel is not real numbers", source=src, line=1,
-                                 expected="a real numeric array", found=str(c.dtype))
+            raise CycjInputError(
+                "the channel is not real numbers",
+                source=src,
+                line=1,
+                expected="a real numeric array",
+                found=str(c.dtype),
+            )
         # float64 arrays are used in place (no copy)
         out.append(np.ascontiguousarray(c, dtype=np.float64))
     del arr
@@ -367,8 +417,10 @@ def _read_parquet(path: Path, column, time_column):
     if not names:
         raise CycjInputError("the Parquet file has no columns", source=src, line=1)
     df = pd.read_parquet(path)
-    numeric = [pd.api.types.is_numeric_dtype(df[n]) and not pd.api.types.is_bool_dtype(df[n])
-               for n in names]
+    numeric = [
+        pd.api.types.is_numeric_dtype(df[n]) and not pd.api.types.is_bool_dtype(df[n])
+        for n in names
+    ]
     pos, t_pos = _choose(names, numeric, column, time_column, src)
     out = []
     for p in (pos, t_pos):
@@ -380,9 +432,13 @@ def _read_parquet(path: Path, column, time_column):
             num = pd.to_numeric(col, errors="coerce")
             bad = np.flatnonzero(num.isna().to_numpy() & col.notna().to_numpy())
             row = int(bad[0]) if bad.size else 0
-            raise CycjInputError(f"not a number in column {names[p]!r} at row {row + 1}",
-                                 source=src, line=row + 1, expected="a number",
-                                 found=col.iloc[row] if len(col) else str(col.dtype))
+            raise CycjInputError(
+                f"not a number in column {names[p]!r} at row {row + 1}",
+                source=src,
+                line=row + 1,
+                expected="a number",
+                found=col.iloc[row] if len(col) else str(col.dtype),
+            )
         out.append(col.to_numpy(dtype=np.float64, na_value=np.nan, copy=True))
     del df
     _check_values(out[0], names[pos], src, _row_lines)
@@ -392,6 +448,7 @@ def _read_parquet(path: Path, column, time_column):
 
 
 # ---------------------------------------------------------------- units
+
 
 def history_unit(unit: str | None, key: str = "unit") -> tuple[float, str, str | None]:
     """Factor from a history's unit to cycj's internal unit, that unit, and its kind.
@@ -424,5 +481,9 @@ def history_unit(unit: str | None, key: str = "unit") -> tuple[float, str, str |
         return to_internal(f"1 {unit}", "force", key=key), "N", "force"
     if q is not None and q.check("[pressure]"):
         return to_internal(f"1 {unit}", "stress", key=key), "MPa", "stress"
-    raise CycjInputError("not a unit of force or stress", key=key,
-                         expected="e.g. 'kN', 'N', 'MPa' or 'ksi'", found=unit)
+    raise CycjInputError(
+        "not a unit of force or stress",
+        key=key,
+        expected="e.g. 'kN', 'N', 'MPa' or 'ksi'",
+        found=unit,
+    )

@@ -90,8 +90,15 @@ def _edges(data, bins, limits):
     return np.linspace(lo, hi, int(bins) + 1)
 
 
-def range_mean_matrix(ranges, means, counts, range_bins: int = 32, mean_bins: int = 32,
-                      range_limits=None, mean_limits=None):
+def range_mean_matrix(
+    ranges,
+    means,
+    counts,
+    range_bins: int = 32,
+    mean_bins: int = 32,
+    range_limits=None,
+    mean_limits=None,
+):
     """Rainflow matrix in range–mean form.
 
     Parameters
@@ -117,8 +124,12 @@ def range_mean_matrix(ranges, means, counts, range_bins: int = 32, mean_bins: in
     """
     r_edges = _edges(ranges, range_bins, range_limits)
     m_edges = _edges(means, mean_bins, mean_limits)
-    mat, _, _ = np.histogram2d(np.asarray(ranges, float), np.asarray(means, float),
-                               bins=(r_edges, m_edges), weights=np.asarray(counts, float))
+    mat, _, _ = np.histogram2d(
+        np.asarray(ranges, float),
+        np.asarray(means, float),
+        bins=(r_edges, m_edges),
+        weights=np.asarray(counts, float),
+    )
     return mat, r_edges, m_edges
 
 
@@ -232,6 +243,9 @@ def matrix_frame(matrix, row_edges, col_edges, row_name: str, col_name: str):
 
     rc = 0.5 * (np.asarray(row_edges)[:-1] + np.asarray(row_edges)[1:])
     cc = 0.5 * (np.asarray(col_edges)[:-1] + np.asarray(col_edges)[1:])
-    df = pd.DataFrame(np.asarray(matrix), index=pd.Index(np.round(rc, 10), name=row_name),
-                      columns=[f"{col_name}={c:.6g}" for c in cc])
+    df = pd.DataFrame(
+        np.asarray(matrix),
+        index=pd.Index(np.round(rc, 10), name=row_name),
+        columns=[f"{col_name}={c:.6g}" for c in cc],
+    )
     return df

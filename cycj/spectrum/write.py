@@ -16,13 +16,22 @@ from cycj.spectrum.statistics import (
 )
 
 #: files written by :func:`write_count_outputs`
-OUTPUT_FILES = ("cycles.csv", "range_mean_matrix.csv", "from_to_matrix.csv", "exceedance.csv",
-                "history.png", "exceedance.png", "rainflow_matrix.png", "report.html",
-                "count.json")
+OUTPUT_FILES = (
+    "cycles.csv",
+    "range_mean_matrix.csv",
+    "from_to_matrix.csv",
+    "exceedance.csv",
+    "history.png",
+    "exceedance.png",
+    "rainflow_matrix.png",
+    "report.html",
+    "count.json",
+)
 
 
-def count_summary(values: np.ndarray, cycles: dict, gate: float, repeat: bool,
-                  unit: str = "") -> dict:
+def count_summary(
+    values: np.ndarray, cycles: dict, gate: float, repeat: bool, unit: str = ""
+) -> dict:
     """Plain summary of a count (JSON-ready).
 
     Parameters
@@ -66,17 +75,28 @@ def count_summary(values: np.ndarray, cycles: dict, gate: float, repeat: bool,
 
 
 #: captions of the count's plots in the report
-CAPTIONS = {"history.png": "The load history with the counted reversals",
-            "exceedance.png": "Cycles exceeding each range (cumulative spectrum)",
-            "rainflow_matrix.png": "Rainflow matrix: cycles by range and mean"}
-REFERENCES = ["ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
-              "Fatigue Analysis: §5.4 rainflow counting, range–mean and from–to matrices",
-              "Matsuishi, M., Endo, T. (1968), Fatigue of metals subjected to varying stress, "
-              "Japan Society of Mechanical Engineers: the rainflow method"]
+CAPTIONS = {
+    "history.png": "The load history with the counted reversals",
+    "exceedance.png": "Cycles exceeding each range (cumulative spectrum)",
+    "rainflow_matrix.png": "Rainflow matrix: cycles by range and mean",
+}
+REFERENCES = [
+    "ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
+    "Fatigue Analysis: §5.4 rainflow counting, range–mean and from–to matrices",
+    "Matsuishi, M., Endo, T. (1968), Fatigue of metals subjected to varying stress, "
+    "Japan Society of Mechanical Engineers: the rainflow method",
+]
 
 
-def write_count_outputs(od, values: np.ndarray, cycles: dict, unit: str = "",
-                        times=None, bins: int = 32, plots: bool = True) -> list[Path]:
+def write_count_outputs(
+    od,
+    values: np.ndarray,
+    cycles: dict,
+    unit: str = "",
+    times=None,
+    bins: int = 32,
+    plots: bool = True,
+) -> list[Path]:
     """Write the cycle table, the rainflow matrices, the exceedance table and three PNGs.
 
     Every file goes into the temporary folder of ``od`` (a :class:`cycj.outputs.OutputDir`),
@@ -110,31 +130,37 @@ def write_count_outputs(od, values: np.ndarray, cycles: dict, unit: str = "",
 
     suffix = f"_{unit}" if unit else ""
     table = pd.DataFrame({k: cycles[k] for k in CYCLE_COLUMNS})
-    rm, r_edges, m_edges = range_mean_matrix(cycles["range"], cycles["mean"], cycles["count"],
-                                             bins, bins)
+    rm, r_edges, m_edges = range_mean_matrix(
+        cycles["range"], cycles["mean"], cycles["count"], bins, bins
+    )
     ft, edges = from_to_matrix(values, cycles["start"], cycles["end"], cycles["count"], bins)
     levels, cum = range_exceedance(cycles["range"], cycles["count"])
     fmt = "%.10g"
     written = [od.write_csv("cycles.csv", table, float_format=fmt)]
     for name, frame in (
-            ("range_mean_matrix.csv", matrix_frame(rm, r_edges, m_edges, f"range{suffix}",
-                                                   f"mean{suffix}")),
-            ("from_to_matrix.csv", matrix_frame(ft, edges, edges, f"from{suffix}",
-                                                f"to{suffix}"))):
+        (
+            "range_mean_matrix.csv",
+            matrix_frame(rm, r_edges, m_edges, f"range{suffix}", f"mean{suffix}"),
+        ),
+        ("from_to_matrix.csv", matrix_frame(ft, edges, edges, f"from{suffix}", f"to{suffix}")),
+    ):
         frame.to_csv(od.path(name), float_format=fmt)
         written.append(od.path(name))
-    written.append(od.write_csv("exceedance.csv", pd.DataFrame(
-        {f"range{suffix}": levels, "cycles_exceeding": cum}), float_format=fmt))
+    written.append(
+        od.write_csv(
+            "exceedance.csv",
+            pd.DataFrame({f"range{suffix}": levels, "cycles_exceeding": cum}),
+            float_format=fmt,
+        )
+    )
     if plots:
-        rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"]))
-                            % max(len(values), 1))
-        P.plot_history(values, od.path("history.png"), times=times, unit=unit,
-                       reversal_indices=rev_idx)
+        rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"])) % max(len(values), 1))
+        P.plot_history(
+            values, od.path("history.png"), times=times, unit=unit, reversal_indices=rev_idx
+        )
         P.plot_exceedance(levels, cum, od.path("exceedance.png"), unit=unit, kind="range")
-        P.plot_rainflow_matrix(rm, r_edges, m_edges, od.path("rainflow_matrix.png"),
-                               unit=unit)
-        written += [od.path(n) for n in ("history.png", "exceedance.png",
-                                         "rainflow_matrix.png")]
+        P.plot_rainflow_matrix(rm, r_edges, m_edges, od.path("rainflow_matrix.png"), unit=unit)
+        written += [od.path(n) for n in ("history.png", "exceedance.png", "rainflow_matrix.png")]
     return written
 
 
@@ -142,11 +168,15 @@ def count_answer(summary: dict) -> str:
     """One sentence: how many cycles, and the largest range."""
     u = f" {summary['unit']}" if summary.get("unit") else ""
     if summary["full_cycles"] + summary["half_cycles"] == 0:
-        return ("No cycles: the history is constant or every change is below the gate "
-                f"({summary['gate']:g}{u}).")
-    return (f"{summary['cycles']:g} cycles ({summary['full_cycles']} full + "
-            f"{summary['half_cycles']} half) from {summary['reversals']} reversals; the largest "
-            f"range is {summary['largest_range']:.4g}{u}.")
+        return (
+            "No cycles: the history is constant or every change is below the gate "
+            f"({summary['gate']:g}{u})."
+        )
+    return (
+        f"{summary['cycles']:g} cycles ({summary['full_cycles']} full + "
+        f"{summary['half_cycles']} half) from {summary['reversals']} reversals; the largest "
+        f"range is {summary['largest_range']:.4g}{u}."
+    )
 
 
 def write_count_report(od, summary: dict, figures) -> Path:
@@ -155,19 +185,30 @@ def write_count_report(od, summary: dict, figures) -> Path:
 
     p = summary["parameters"]
     u = summary.get("unit") or "as in the file"
-    inputs = [("history", summary["history"]), ("column", p["column"]),
-              ("load unit", u), ("scale", p["scale"]), ("gate", p["gate"]),
-              ("repeating block", p["repeat"]), ("samples", summary["samples"]),
-              ("max, min", f"{summary['max']}, {summary['min']}"),
-              ("irregularity factor", summary["irregularity_factor"])]
+    inputs = [
+        ("history", summary["history"]),
+        ("column", p["column"]),
+        ("load unit", u),
+        ("scale", p["scale"]),
+        ("gate", p["gate"]),
+        ("repeating block", p["repeat"]),
+        ("samples", summary["samples"]),
+        ("max, min", f"{summary['max']}, {summary['min']}"),
+        ("irregularity factor", summary["irregularity_factor"]),
+    ]
     warnings = []
     if summary["full_cycles"] + summary["half_cycles"] == 0:
-        warnings.append("no cycles were counted (constant history or every change below the "
-                        "gate)")
+        warnings.append("no cycles were counted (constant history or every change below the gate)")
     if summary["samples"] < 3:
         warnings.append("fewer than three samples: the count is trivial")
-    return write_report(od.path("report.html"), title=f"Rainflow count: {summary['history']}",
-                        question="Which load cycles does this history contain (rainflow "
-                                 "count), and how are they distributed over range and mean?",
-                        answer=count_answer(summary), inputs=inputs, figures=figures,
-                        warnings=warnings, references=REFERENCES)
+    return write_report(
+        od.path("report.html"),
+        title=f"Rainflow count: {summary['history']}",
+        question="Which load cycles does this history contain (rainflow "
+        "count), and how are they distributed over range and mean?",
+        answer=count_answer(summary),
+        inputs=inputs,
+        figures=figures,
+        warnings=warnings,
+        references=REFERENCES,
+    )

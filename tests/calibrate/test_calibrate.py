@@ -43,11 +43,21 @@ log_units = {{ load = "N", displacement = "mm", crack_length = "mm" }}
 """
 
 
-def write_spec(tmp_path, name="spec.toml", *, bn="12.5 mm", a0="15 mm", sy="450 MPa",
-               curve="", point="front-face", text=None):
+def write_spec(
+    tmp_path,
+    name="spec.toml",
+    *,
+    bn="12.5 mm",
+    a0="15 mm",
+    sy="450 MPa",
+    curve="",
+    point="front-face",
+    text=None,
+):
     p = tmp_path / name
-    p.write_text(text if text is not None else CT_SPEC.format(bn=bn, a0=a0, sy=sy, curve=curve,
-                                                               point=point))
+    p.write_text(
+        text if text is not None else CT_SPEC.format(bn=bn, a0=a0, sy=sy, curve=curve, point=point)
+    )
     return p
 
 
@@ -60,13 +70,14 @@ def write_log(tmp_path, frame, name):
 # ------------------------------------------------------------------ ASTM E647 compliance
 # REFERENCE item 5 (ASTM E647 / Saxena & Hudak 1978), marked [X]: round-trip values computed
 # from the expressions (coefficients from memory).
-@pytest.mark.parametrize("alpha, ebv, back", [(0.2, 8.6086, 0.2001), (0.5, 36.989, 0.5001),
-                                              (0.9, 1386.6, 0.8999)])
+@pytest.mark.parametrize(
+    "alpha, ebv, back", [(0.2, 8.6086, 0.2001), (0.5, 36.989, 0.5001), (0.9, 1386.6, 0.8999)]
+)
 def test_e647_load_line_round_trip_reference_item5(alpha, ebv, back):
     x = cm.saxena_hudak_load_line(alpha)
     assert x == pytest.approx(ebv, rel=2e-4)
     assert cm.e647_ct_crack_ratio(x, "load-line") == pytest.approx(back, abs=1.5e-4)
-    assert abs(cm.e647_ct_crack_ratio(x, "load-line") - alpha) < 3e-4   # item 5: error < 3e-4
+    assert abs(cm.e647_ct_crack_ratio(x, "load-line") - alpha) < 3e-4  # item 5: error < 3e-4
 
 
 def test_e647_front_face_reference_item5():
@@ -88,10 +99,16 @@ def test_castigliano_compliance_matches_saxena_hudak_ct(tmp_path):
     # Tada, Paris & Irwin (2000): dC/da = 2·B·(K/P)²/E' integrated from the Srawley K of
     # the C(T) should reproduce the change of the Saxena–Hudak load-line compliance
     # (plane stress, E' = E) between a/W = 0.3 and 0.6, within the 1–2 % of the fits.
-    spec = read_specimen(write_spec(tmp_path).as_posix().replace("plane-strain", "x")
-                         if False else write_spec(tmp_path, text=CT_SPEC.format(
-                             bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="",
-                             point="load-line").replace("plane-strain", "plane-stress")))
+    spec = read_specimen(
+        write_spec(tmp_path).as_posix().replace("plane-strain", "x")
+        if False
+        else write_spec(
+            tmp_path,
+            text=CT_SPEC.format(
+                bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="", point="load-line"
+            ).replace("plane-strain", "plane-stress"),
+        )
+    )
     e, b = spec.material.elastic_modulus, 12.5
     a, dc = cm.castigliano_compliance_table(spec.geometry, e)
     c_int = np.interp(30.0, a, dc) - np.interp(15.0, a, dc)
@@ -128,7 +145,10 @@ def test_secant_reference_item6():
 def test_e647_spacing_from_memory():
     # ASTM E647 §8 (from memory): 0.25 mm below a/W 0.4, 0.5 mm to 0.6, 0.02W above
     assert list(rt.e647_minimum_spacing("compact-tension", np.array([15, 25, 35]), 50)) == [
-        0.25, 0.5, 1.0]
+        0.25,
+        0.5,
+        1.0,
+    ]
 
 
 # ------------------------------------------------------------------ ΔJ from loop areas
@@ -149,10 +169,10 @@ def test_e1820_j_reference_item8():
     k = 30000.0 * g.nominal_stress_per_force() * g.k_over_s(25.0)
     assert k / math.sqrt(1000) == pytest.approx(51.836, abs=2e-3)
     eta = lp.eta_plastic("compact-tension", 25.0, 50.0)
-    assert lp.e1820_j(k, 200000.0, 0.3, 20000.0, 25.0, 25.0, eta) == pytest.approx(84.58,
-                                                                                 abs=0.01)
-    assert lp.dowling_begley_delta_j(20000.0, 25.0, 25.0, lp.eta_plastic(
-        "three-point-bend", 25.0, 50.0)) == pytest.approx(60.80)
+    assert lp.e1820_j(k, 200000.0, 0.3, 20000.0, 25.0, 25.0, eta) == pytest.approx(84.58, abs=0.01)
+    assert lp.dowling_begley_delta_j(
+        20000.0, 25.0, 25.0, lp.eta_plastic("three-point-bend", 25.0, 50.0)
+    ) == pytest.approx(60.80)
     with pytest.raises(ValidityRangeError):
         lp.eta_plastic("center-crack-plate", 10.0, 50.0)
 
@@ -169,16 +189,16 @@ def test_loop_kernel_on_an_exact_loop():
     v_up = 0.6 * c * np.minimum(s, sop) + c * np.maximum(s - sop, 0) + d * (s / dp) ** p
     top = 0.6 * c * sop + c * (dp - sop) + d
     r = dp - s
-    v_dn = top - (c * np.minimum(r, dp - sop) + 0.6 * c * np.maximum(r - (dp - sop), 0)
-                  + d * (r / dp) ** p)
+    v_dn = top - (
+        c * np.minimum(r, dp - sop) + 0.6 * c * np.maximum(r - (dp - sop), 0) + d * (r / dp) ** p
+    )
     v = np.where(t <= 0.5, v_up, v_dn)
     out = lp.reduce_loops(pmin + s, v, np.array([0]), np.array([400]))
     assert out["status"][0] == 0
     assert out["compliance"][0] == pytest.approx(c, rel=0.01)
     assert abs(out["p_open"][0] - pop) < 0.02 * dp
     x = (pop - pmin) / dp
-    exact = c * (pmax - pop) ** 2 / 2 + d * dp * (p / (p + 1) * (1 - x ** (p + 1))
-                                                 - x * (1 - x**p))
+    exact = c * (pmax - pop) ** 2 / 2 + d * dp * (p / (p + 1) * (1 - x ** (p + 1)) - x * (1 - x**p))
     area = lp.loop_area_kernel(pmin + s, v, np.array([0]), np.array([400]), np.array([pop]))
     assert area[0] == pytest.approx(exact, rel=0.01)
 
@@ -193,10 +213,20 @@ def elastic_fit(tmp_path_factory):
     tmp = tmp_path_factory.mktemp("el")
     spec_p = write_spec(tmp)
     spec = read_specimen(spec_p)
-    sim1 = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, opening_fraction=0.2,
-                         record_every=500, crack_end=30, seed=3)
-    sim2 = simulate_test(spec, 6e-5, 1.5, p_max=16000, r_ratio=0.5, record_every=500,
-                         crack_end=30, seed=4)
+    sim1 = simulate_test(
+        spec,
+        6e-5,
+        1.5,
+        p_max=14000,
+        r_ratio=0.1,
+        opening_fraction=0.2,
+        record_every=500,
+        crack_end=30,
+        seed=3,
+    )
+    sim2 = simulate_test(
+        spec, 6e-5, 1.5, p_max=16000, r_ratio=0.5, record_every=500, crack_end=30, seed=4
+    )
     logs = [write_log(tmp, sim1.raw, "r01.csv"), write_log(tmp, sim2.raw, "r05.csv")]
     return fit_logs(logs, spec_p), sim1
 
@@ -218,7 +248,7 @@ def test_round_trip_elastic_with_closure_and_noise(elastic_fit):
     x = (r["P_open_N"] - r["P_min_N"]) / (r["P_max_N"] - r["P_min_N"])
     assert float(np.median(x)) == pytest.approx(0.2, abs=0.02)
     a_true = np.interp(r["cycle"], sim.truth["cycle"], sim.truth["a_mm"])
-    assert np.max(np.abs(r["a_mm"] - a_true)) < 0.15   # E647 fit error + noise
+    assert np.max(np.abs(r["a_mm"] - a_true)) < 0.15  # E647 fit error + noise
 
 
 def test_round_trip_elastic_plastic_several_specimens(tmp_path):
@@ -227,14 +257,24 @@ def test_round_trip_elastic_plastic_several_specimens(tmp_path):
     p1 = write_spec(tmp_path, "s1.toml", a0="14 mm", curve=curve, sy="380 MPa")
     p2 = write_spec(tmp_path, "s2.toml", a0="17 mm", curve=curve, sy="380 MPa", bn="10 mm")
     s1, s2 = read_specimen(p1), read_specimen(p2)
-    sim1 = simulate_test(s1, 6e-5, 1.5, p_max=19000, r_ratio=0.1, opening_fraction=0.15,
-                         record_every=250, crack_end=27, seed=5)
-    sim2 = simulate_test(s2, 6e-5, 1.5, p_max=15000, r_ratio=0.3, record_every=250,
-                         crack_end=27, seed=6)
+    sim1 = simulate_test(
+        s1,
+        6e-5,
+        1.5,
+        p_max=19000,
+        r_ratio=0.1,
+        opening_fraction=0.15,
+        record_every=250,
+        crack_end=27,
+        seed=5,
+    )
+    sim2 = simulate_test(
+        s2, 6e-5, 1.5, p_max=15000, r_ratio=0.3, record_every=250, crack_end=27, seed=6
+    )
     logs = [write_log(tmp_path, sim1.raw, "a.csv"), write_log(tmp_path, sim2.raw, "b.csv")]
     res = fit_logs(logs, [p1, p2])
     share = res.reduced["dJ_pl_kJm2"] / res.reduced["dJ_eff_kJm2"]
-    assert share.max() > 0.15          # the plastic part matters in this test
+    assert share.max() > 0.15  # the plastic part matters in this test
     for meth in ("polynomial", "direct"):
         f = res.fits[meth]
         assert f["m"] == pytest.approx(1.5, abs=0.1), meth
@@ -259,8 +299,9 @@ displacement_at = "load-line"
 """
     p = write_spec(tmp_path, "mt.toml", text=text)
     spec = read_specimen(p)
-    sim = simulate_test(spec, 2e-4, 1.6, p_max=40000, r_ratio=0.1, record_every=500,
-                        crack_end=35, seed=7)
+    sim = simulate_test(
+        spec, 2e-4, 1.6, p_max=40000, r_ratio=0.1, record_every=500, crack_end=35, seed=7
+    )
     res = fit_logs([write_log(tmp_path, sim.raw, "mt.csv")], p)
     a_true = np.interp(res.reduced["cycle"], sim.truth["cycle"], sim.truth["a_mm"])
     assert np.max(np.abs(res.reduced["a_mm"] - a_true)) < 0.2
@@ -285,8 +326,9 @@ def test_threshold_from_shedding_example():
 def test_bad_loops_are_skipped_with_reasons(tmp_path):
     spec_p = write_spec(tmp_path)
     spec = read_specimen(spec_p)
-    sim = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, record_every=500,
-                        crack_end=28, seed=8)
+    sim = simulate_test(
+        spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, record_every=500, crack_end=28, seed=8
+    )
     raw = sim.raw.copy()
     cycles = raw["cycle"].unique()
     # a loop with too few samples, a loop with displacement reversed, a repeated cycle count
@@ -295,14 +337,17 @@ def test_bad_loops_are_skipped_with_reasons(tmp_path):
     neg = raw["cycle"] == cycles[8]
     raw.loc[neg, "displacement"] = -raw.loc[neg, "displacement"]
     dup = raw[raw["cycle"] == cycles[3]].copy()
-    raw = __import__("pandas").concat([raw.iloc[:raw.index.get_loc(
-        raw[raw["cycle"] == cycles[12]].index[0])], dup,
-        raw.iloc[raw.index.get_loc(raw[raw["cycle"] == cycles[12]].index[0]):]])
+    raw = __import__("pandas").concat(
+        [
+            raw.iloc[: raw.index.get_loc(raw[raw["cycle"] == cycles[12]].index[0])],
+            dup,
+            raw.iloc[raw.index.get_loc(raw[raw["cycle"] == cycles[12]].index[0]) :],
+        ]
+    )
     res = fit_logs([write_log(tmp_path, raw, "bad.csv")], spec_p)
     reasons = {s["reason"] for s in res.skipped}
     assert "too few samples in the loop" in reasons
-    assert any("non-positive compliance" in r or "compliance expression" in r
-               for r in reasons)
+    assert any("non-positive compliance" in r or "compliance expression" in r for r in reasons)
     assert "cycle count does not increase" in reasons
     assert res.summary["m"] == pytest.approx(1.5, abs=0.1)
 
@@ -317,8 +362,12 @@ def test_unreadable_inputs_raise_one_clear_error(tmp_path):
     nan.write_text("cycle,load,displacement\n1,2,3\nx,2,3\n")
     with pytest.raises(CycjInputError, match=r"nan.csv:3"):
         fit_logs([nan], spec_p)
-    spec_bad = write_spec(tmp_path, "sb.toml", text=CT_SPEC.format(
-        bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="", point="front-face") + "widht = 3\n")
+    spec_bad = write_spec(
+        tmp_path,
+        "sb.toml",
+        text=CT_SPEC.format(bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="", point="front-face")
+        + "widht = 3\n",
+    )
     with pytest.raises(CycjInputError, match="widht"):
         read_specimen(spec_bad)
     with pytest.raises(CycjInputError, match="method"):
@@ -326,15 +375,19 @@ def test_unreadable_inputs_raise_one_clear_error(tmp_path):
 
 
 def _cli(*args):
-    return subprocess.run([sys.executable, "-m", "cycj", *map(str, args)], cwd=ROOT,
-                          capture_output=True, text=True, timeout=300)
+    return subprocess.run(
+        [sys.executable, "-m", "cycj", *map(str, args)],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+        timeout=300,
+    )
 
 
 def test_cli_bad_log_exits_2_with_one_line(tmp_path):
     bad = tmp_path / "bad.csv"
     bad.write_text("cycle,load\n1,2\n")
-    r = _cli("fit", bad, "--specimen", EXAMPLES / "lab_specimen_ct.toml", "--out",
-             tmp_path / "o")
+    r = _cli("fit", bad, "--specimen", EXAMPLES / "lab_specimen_ct.toml", "--out", tmp_path / "o")
     assert r.returncode == 2
     assert "Traceback" not in r.stderr and len(r.stderr.strip().splitlines()) == 1
 
@@ -342,29 +395,70 @@ def test_cli_bad_log_exits_2_with_one_line(tmp_path):
 # ------------------------------------------------------------------ command and outputs
 def test_cli_on_examples_writes_all_outputs(tmp_path):
     out = tmp_path / "fit"
-    r = _cli("fit", EXAMPLES / "lab_log_ct_r01.csv", EXAMPLES / "lab_log_ct_r05.csv",
-             "--specimen", EXAMPLES / "lab_specimen_ct.toml", "--out", out, "--json")
+    r = _cli(
+        "fit",
+        EXAMPLES / "lab_log_ct_r01.csv",
+        EXAMPLES / "lab_log_ct_r05.csv",
+        "--specimen",
+        EXAMPLES / "lab_specimen_ct.toml",
+        "--out",
+        out,
+        "--json",
+    )
     assert r.returncode == 0, r.stderr
     data = json.loads(r.stdout)
-    for key in ("C", "m", "C_interval", "m_interval", "cov_lnC_m", "sigma_ln",
-                "pivot_dJ_kJm2", "rate_at_pivot_mm_per_cycle", "dJ_range_kJm2", "R_range",
-                "basis", "closure", "recommended_fit", "recommended_reason", "skipped"):
+    for key in (
+        "C",
+        "m",
+        "C_interval",
+        "m_interval",
+        "cov_lnC_m",
+        "sigma_ln",
+        "pivot_dJ_kJm2",
+        "rate_at_pivot_mm_per_cycle",
+        "dJ_range_kJm2",
+        "R_range",
+        "basis",
+        "closure",
+        "recommended_fit",
+        "recommended_reason",
+        "skipped",
+    ):
         assert key in data
-    assert data["m"] == pytest.approx(1.5, abs=0.08)   # examples' true law: 6e-5·ΔJ^1.5
-    for f in ("fit.json", "growth_snippet.toml", "reduced.csv", "dadn.png",
-              "crack_growth.png", "loop.png", "report.html"):
+    assert data["m"] == pytest.approx(1.5, abs=0.08)  # examples' true law: 6e-5·ΔJ^1.5
+    for f in (
+        "fit.json",
+        "growth_snippet.toml",
+        "reduced.csv",
+        "dadn.png",
+        "crack_growth.png",
+        "loop.png",
+        "report.html",
+    ):
         assert (out / f).is_file(), f
     snippet = tomllib.loads((out / "growth_snippet.toml").read_text())["growth"]
-    assert snippet["basis"] == "effective" and snippet["C"] == pytest.approx(data["C"],
-                                                                             rel=1e-4)
+    assert snippet["basis"] == "effective" and snippet["C"] == pytest.approx(data["C"], rel=1e-4)
     header = (out / "reduced.csv").read_text().splitlines()[0].split(",")
-    for col in ("cycle", "a_mm", "dK_MPa_sqrt_m", "dJ_el_kJm2", "dJ_pl_kJm2", "P_open_N",
-                "dadN_mm_per_cycle"):
+    for col in (
+        "cycle",
+        "a_mm",
+        "dK_MPa_sqrt_m",
+        "dJ_el_kJm2",
+        "dJ_pl_kJm2",
+        "P_open_N",
+        "dadN_mm_per_cycle",
+    ):
         assert col in header
     html = (out / "report.html").read_text()
     assert "qualified engineer" in html and "not replace the applicable" in html
-    r2 = _cli("fit", EXAMPLES / "lab_log_ct_r01.csv", "--specimen",
-              EXAMPLES / "lab_specimen_ct.toml", "--out", out)
+    r2 = _cli(
+        "fit",
+        EXAMPLES / "lab_log_ct_r01.csv",
+        "--specimen",
+        EXAMPLES / "lab_specimen_ct.toml",
+        "--out",
+        out,
+    )
     assert r2.returncode == 2 and "not empty" in r2.stderr
 
 
@@ -392,11 +486,11 @@ def test_first_last_optical_correction(tmp_path):
     # ASTM E647 practice: compliance crack lengths corrected linearly in extension so the first
     # and last match the optical readings; here the "optical" final reading is the true one
     spec = read_specimen(write_spec(tmp_path))
-    sim = simulate_test(spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, record_every=500,
-                        crack_end=28, seed=9)
+    sim = simulate_test(
+        spec, 6e-5, 1.5, p_max=14000, r_ratio=0.1, record_every=500, crack_end=28, seed=9
+    )
     a_end = float(sim.truth["a_mm"].iloc[-1])
-    text = CT_SPEC.format(bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="",
-                          point="front-face")
+    text = CT_SPEC.format(bn="12.5 mm", a0="15 mm", sy="450 MPa", curve="", point="front-face")
     text += f'final_crack_length = "{a_end:.4f} mm"\ncrack_correction = "first-last"\n'
     p = write_spec(tmp_path, "corr.toml", text=text)
     res = fit_logs([write_log(tmp_path, sim.raw, "c.csv")], p)
@@ -419,8 +513,16 @@ yield_strength = "450 MPa"
 displacement_at = "load-line"
 """
     p = write_spec(tmp_path, "seb.toml", text=text)
-    sim = simulate_test(read_specimen(p), 6e-5, 1.5, p_max=9000, r_ratio=0.1,
-                        record_every=500, crack_end=17, seed=10)
+    sim = simulate_test(
+        read_specimen(p),
+        6e-5,
+        1.5,
+        p_max=9000,
+        r_ratio=0.1,
+        record_every=500,
+        crack_end=17,
+        seed=10,
+    )
     res = fit_logs([write_log(tmp_path, sim.raw, "seb.csv")], p)
     a_true = np.interp(res.reduced["cycle"], sim.truth["cycle"], sim.truth["a_mm"])
     assert np.max(np.abs(res.reduced["a_mm"] - a_true)) < 0.15

@@ -59,72 +59,142 @@ def to_toml(d: dict) -> str:
 
 # ---------------------------------------------------------------------------- valid inputs
 MATERIAL = {
-    "elastic_modulus": "205 GPa", "poisson_ratio": 0.3, "yield_strength": "340 MPa",
+    "elastic_modulus": "205 GPa",
+    "poisson_ratio": 0.3,
+    "yield_strength": "340 MPa",
     "tensile_strength": "510 MPa",
     "cyclic_curve": {"strength_coefficient": "880 MPa", "hardening_exponent": 0.16},
     "monotonic_curve": {"strength_coefficient": "780 MPa", "hardening_exponent": 0.19},
     "toughness": {"J_c": "220 kJ/m^2", "resistance_curve": {"C1": "380 kJ/m^2", "C2": 0.55}},
-    "growth": {"law": "paris", "C": 2.0e-4, "m": 1.5, "threshold": "0.02 kJ/m^2",
-               "basis": "applied"},
+    "growth": {
+        "law": "paris",
+        "C": 2.0e-4,
+        "m": 1.5,
+        "threshold": "0.02 kJ/m^2",
+        "basis": "applied",
+    },
 }
 
 CASE_CONSTANT = {
     "title": "mutation base: C(T) at constant amplitude",
     "material": MATERIAL,
-    "geometry": {"shape": "compact-tension", "width": "50 mm", "thickness": "12.5 mm",
-                 "crack_length": "15 mm", "constraint": "plane-strain"},
-    "loading": {"constant": {"max": "14 kN", "min": "1.4 kN"}, "duration": "1 s",
-                "closure": "none"},
+    "geometry": {
+        "shape": "compact-tension",
+        "width": "50 mm",
+        "thickness": "12.5 mm",
+        "crack_length": "15 mm",
+        "constraint": "plane-strain",
+    },
+    "loading": {
+        "constant": {"max": "14 kN", "min": "1.4 kN"},
+        "duration": "1 s",
+        "closure": "none",
+    },
     "analysis": {"j_method": "reference-stress", "fad": "option-2"},
-    "run": {"method": "auto", "max_cycles": 1.0e7,
-            "criteria": ["toughness", "tearing", "collapse", "size-limit", "fad"]},
+    "run": {
+        "method": "auto",
+        "max_cycles": 1.0e7,
+        "criteria": ["toughness", "tearing", "collapse", "size-limit", "fad"],
+    },
 }
 
 CASE_HISTORY = {
     "title": "mutation base: edge crack under a measured history",
-    "material": {**MATERIAL, "growth": {"law": "paris", "C": 3.0e-4, "m": 1.6,
-                                        "threshold": "0.01 kJ/m^2", "basis": "effective"}},
-    "geometry": {"shape": "edge-crack-plate", "width": "60 mm", "thickness": "20 mm",
-                 "crack_length": "2 mm", "constraint": "plane-strain"},
-    "loading": {"history": "history.csv", "column": "load", "unit": "MPa",
-                "quantity": "stress", "scale": 1.0, "gate": "5 MPa", "duration": "10 h",
-                "closure": "newman"},
+    "material": {
+        **MATERIAL,
+        "growth": {
+            "law": "paris",
+            "C": 3.0e-4,
+            "m": 1.6,
+            "threshold": "0.01 kJ/m^2",
+            "basis": "effective",
+        },
+    },
+    "geometry": {
+        "shape": "edge-crack-plate",
+        "width": "60 mm",
+        "thickness": "20 mm",
+        "crack_length": "2 mm",
+        "constraint": "plane-strain",
+    },
+    "loading": {
+        "history": "history.csv",
+        "column": "load",
+        "unit": "MPa",
+        "quantity": "stress",
+        "scale": 1.0,
+        "gate": "5 MPa",
+        "duration": "10 h",
+        "closure": "newman",
+    },
     "analysis": {"j_method": "reference-stress", "fad": "option-1"},
-    "run": {"method": "auto", "max_cycles": 1.0e8, "crack_length_limit": "40 mm",
-            "criteria": ["toughness", "collapse", "size-limit"]},
+    "run": {
+        "method": "auto",
+        "max_cycles": 1.0e8,
+        "crack_length_limit": "40 mm",
+        "criteria": ["toughness", "collapse", "size-limit"],
+    },
 }
 
 CASE_PLAN = {
     "title": "mutation base: deck plate inspection",
-    "material": {"elastic_modulus": "200 GPa", "poisson_ratio": 0.3,
-                 "yield_strength": "355 MPa", "tensile_strength": "510 MPa",
-                 "toughness": {"J_c": "12 kJ/m^2"},
-                 "growth": {"law": "paris", "basis": "applied",
-                            "from_delta_K": {"C": 1.648e-8, "m": 3.0, "rate_unit": "mm",
-                                             "driving_unit": "MPa*m**0.5"}}},
-    "geometry": {"shape": "center-crack-infinite-plate", "crack_length": "1 mm",
-                 "constraint": "plane-stress"},
+    "material": {
+        "elastic_modulus": "200 GPa",
+        "poisson_ratio": 0.3,
+        "yield_strength": "355 MPa",
+        "tensile_strength": "510 MPa",
+        "toughness": {"J_c": "12 kJ/m^2"},
+        "growth": {
+            "law": "paris",
+            "basis": "applied",
+            "from_delta_K": {
+                "C": 1.648e-8,
+                "m": 3.0,
+                "rate_unit": "mm",
+                "driving_unit": "MPa*m**0.5",
+            },
+        },
+    },
+    "geometry": {
+        "shape": "center-crack-infinite-plate",
+        "crack_length": "1 mm",
+        "constraint": "plane-stress",
+    },
     "loading": {"constant": {"max": "100 MPa", "min": "0 MPa"}, "duration": "20 s"},
     "analysis": {"j_method": "elastic"},
     "run": {"criteria": ["toughness", "size-limit"], "crack_length_limit": "100 mm"},
     "inspection": {
-        "detectable_size": "3 mm", "safety_factor": 2, "design_life": 1.0e6,
-        "intervals": [1.0e5, 2.0e5], "pod": {"model": "lognormal", "a50": "2 mm",
-                                             "sigma": 0.4},
-        "samples": 200, "seed": 7, "target_pof": 1.0e-2, "repair": "renew",
-        "max_inspections": 8, "chunk_size": 200,
-        "scatter": {"growth_C": {"distribution": "lognormal", "sigma": 0.3},
-                    "initial_crack": {"distribution": "lognormal", "median": "0.5 mm",
-                                      "sigma": 0.5},
-                    "toughness": {"distribution": "lognormal", "cov": 0.1}},
+        "detectable_size": "3 mm",
+        "safety_factor": 2,
+        "design_life": 1.0e6,
+        "intervals": [1.0e5, 2.0e5],
+        "pod": {"model": "lognormal", "a50": "2 mm", "sigma": 0.4},
+        "samples": 200,
+        "seed": 7,
+        "target_pof": 1.0e-2,
+        "repair": "renew",
+        "max_inspections": 8,
+        "chunk_size": 200,
+        "scatter": {
+            "growth_C": {"distribution": "lognormal", "sigma": 0.3},
+            "initial_crack": {"distribution": "lognormal", "median": "0.5 mm", "sigma": 0.5},
+            "toughness": {"distribution": "lognormal", "cov": 0.1},
+        },
     },
 }
 
 SPECIMEN = {
-    "label": "mutation specimen", "shape": "compact-tension", "width": "50 mm",
-    "thickness": "12.5 mm", "net_thickness": "10 mm", "crack_length": "15 mm",
-    "constraint": "plane-strain", "elastic_modulus": "205 GPa", "poisson_ratio": 0.3,
-    "yield_strength": "450 MPa", "tensile_strength": "600 MPa",
+    "label": "mutation specimen",
+    "shape": "compact-tension",
+    "width": "50 mm",
+    "thickness": "12.5 mm",
+    "net_thickness": "10 mm",
+    "crack_length": "15 mm",
+    "constraint": "plane-strain",
+    "elastic_modulus": "205 GPa",
+    "poisson_ratio": 0.3,
+    "yield_strength": "450 MPa",
+    "tensile_strength": "600 MPa",
     "cyclic_curve": {"strength_coefficient": "480 MPa", "hardening_exponent": 0.12},
     "displacement_at": "front-face",
     "log_units": {"load": "kN", "displacement": "mm", "crack_length": "mm"},
@@ -159,8 +229,18 @@ def raw_log_text() -> str:
         p = Path(d) / "s.toml"
         p.write_text(to_toml(SPECIMEN))
         spec = read_specimen(p)
-    sim = simulate_test(spec, 6e-5, 1.5, p_max=17000, r_ratio=0.1, opening_fraction=0.2,
-                        record_every=1000, samples=40, crack_end=24, seed=5)
+    sim = simulate_test(
+        spec,
+        6e-5,
+        1.5,
+        p_max=17000,
+        r_ratio=0.1,
+        opening_fraction=0.2,
+        record_every=1000,
+        samples=40,
+        crack_end=24,
+        seed=5,
+    )
     raw = sim.raw.copy()
     raw["load"] = (raw["load"] / 1000).round(5)
     raw["displacement"] = raw["displacement"].round(6)
@@ -168,16 +248,23 @@ def raw_log_text() -> str:
 
 
 POD_HIT_MISS = "# link = logit\na_mm,hit\n" + "".join(
-    f"{a:.2f},{int(h)}\n" for a, h in zip(
+    f"{a:.2f},{int(h)}\n"
+    for a, h in zip(
         np.linspace(0.5, 8.0, 40),
-        (np.random.default_rng(1).random(40) < 1 / (1 + np.exp(-(np.linspace(0.5, 8, 40)
-                                                               - 3.0) * 1.5))),
-        strict=True))
+        (
+            np.random.default_rng(1).random(40)
+            < 1 / (1 + np.exp(-(np.linspace(0.5, 8, 40) - 3.0) * 1.5))
+        ),
+        strict=True,
+    )
+)
 
 POD_SIGNAL = "# decision = 1.0\n# floor = 0.25\n# saturation = 9.0\na_mm,ahat\n" + "".join(
-    f"{a:.2f},{min(max(0.4 * a * e, 0.25), 9.0):.3f}\n" for a, e in zip(
-        np.linspace(0.5, 10.0, 40), np.exp(np.random.default_rng(2).normal(0, 0.3, 40)),
-        strict=True))
+    f"{a:.2f},{min(max(0.4 * a * e, 0.25), 9.0):.3f}\n"
+    for a, e in zip(
+        np.linspace(0.5, 10.0, 40), np.exp(np.random.default_rng(2).normal(0, 0.3, 40)), strict=True
+    )
+)
 
 
 def write_bases(root: Path) -> dict:
@@ -200,13 +287,67 @@ def write_bases(root: Path) -> dict:
 # ---------------------------------------------------------------------------- mutations
 #: replacement values for a TOML leaf: wrong types, units, non-finite, zero, huge, empty
 BAD_VALUES = [
-    float("nan"), float("inf"), float("-inf"), 0, 0.0, -1, -1.0e-9, 1e300, 1e-300, 1e30, 7,
-    0.5, 0.999, 1.0, 2, True, False, "", " ", "abc", "nan", "inf mm", "nan MPa", "-3 mm",
-    "0 mm", "1e400 mm", "12 parsec", "5 kN", "5 MPa", "3 mm", "200 GPa", "1 kJ/m^2",
-    "60 MPa*m**0.5", "1 h", "1e9 mm", "1 in", "%%%", "ø∆µ", "x" * 300, [], [1, 2], ["a"],
-    {}, {"x": 1}, {"model": "constant", "U": 2.0}, "none", "auto", "cycle", "block",
-    "newman", "include", "option-1", "plastic", "wheeler", "history.csv", "missing.csv",
-    "../history.csv", "/dev/null", "load", "0", 10**25,
+    float("nan"),
+    float("inf"),
+    float("-inf"),
+    0,
+    0.0,
+    -1,
+    -1.0e-9,
+    1e300,
+    1e-300,
+    1e30,
+    7,
+    0.5,
+    0.999,
+    1.0,
+    2,
+    True,
+    False,
+    "",
+    " ",
+    "abc",
+    "nan",
+    "inf mm",
+    "nan MPa",
+    "-3 mm",
+    "0 mm",
+    "1e400 mm",
+    "12 parsec",
+    "5 kN",
+    "5 MPa",
+    "3 mm",
+    "200 GPa",
+    "1 kJ/m^2",
+    "60 MPa*m**0.5",
+    "1 h",
+    "1e9 mm",
+    "1 in",
+    "%%%",
+    "ø∆µ",
+    "x" * 300,
+    [],
+    [1, 2],
+    ["a"],
+    {},
+    {"x": 1},
+    {"model": "constant", "U": 2.0},
+    "none",
+    "auto",
+    "cycle",
+    "block",
+    "newman",
+    "include",
+    "option-1",
+    "plastic",
+    "wheeler",
+    "history.csv",
+    "missing.csv",
+    "../history.csv",
+    "/dev/null",
+    "load",
+    "0",
+    10**25,
 ]
 
 
@@ -245,8 +386,7 @@ def mutate_dict(d: dict, path: tuple, action: str, value=None) -> dict:
 
 
 #: factors for valid-but-extreme values (a quantity scaled, unit kept)
-SCALES = [1e-9, 1e-4, 1e-2, 0.1, 0.5, 0.9, 0.99, 1.01, 1.1, 1.5, 2.0, 3.0, 10.0, 100.0, 1e4,
-          1e9]
+SCALES = [1e-9, 1e-4, 1e-2, 0.1, 0.5, 0.9, 0.99, 1.01, 1.1, 1.5, 2.0, 3.0, 10.0, 100.0, 1e4, 1e9]
 
 
 def scale_value(v, factor):
@@ -268,8 +408,27 @@ def scale_value(v, factor):
     return v
 
 
-BAD_CELLS = ["nan", "inf", "-inf", "", "abc", "1e308", "-1e308", "0", "-5", "1e-300",
-             "3,4", '"', "0x10", "١٢", "NaN", "None", "1e999", "  ", "-0"]
+BAD_CELLS = [
+    "nan",
+    "inf",
+    "-inf",
+    "",
+    "abc",
+    "1e308",
+    "-1e308",
+    "0",
+    "-5",
+    "1e-300",
+    "3,4",
+    '"',
+    "0x10",
+    "١٢",
+    "NaN",
+    "None",
+    "1e999",
+    "  ",
+    "-0",
+]
 
 
 def mutate_csv(text: str, kind: str, i: int, j: int, cell: str) -> str:
@@ -277,7 +436,7 @@ def mutate_csv(text: str, kind: str, i: int, j: int, cell: str) -> str:
     lines = text.splitlines()
     head = [k for k, ln in enumerate(lines) if ln and not ln.startswith("#")]
     h = head[0] if head else 0
-    body = lines[h + 1:]
+    body = lines[h + 1 :]
     if kind == "cell" and body:
         r = h + 1 + i % len(body)
         cells = lines[r].split(",")
@@ -300,14 +459,17 @@ def mutate_csv(text: str, kind: str, i: int, j: int, cell: str) -> str:
     elif kind == "one_row":
         lines = lines[: h + 2]
     elif kind == "drop_header":
-        lines = lines[:h] + lines[h + 1:]
+        lines = lines[:h] + lines[h + 1 :]
     elif kind == "constant" and body:
         lines = lines[: h + 1] + [lines[h + 1]] * len(body)
     elif kind == "reverse" and body:
         lines = lines[: h + 1] + body[::-1]
     elif kind == "scale_column":
-        factor = float(cell) if cell.replace(".", "", 1).replace("e", "", 1).replace(
-            "-", "").isdigit() else 1e12
+        factor = (
+            float(cell)
+            if cell.replace(".", "", 1).replace("e", "", 1).replace("-", "").isdigit()
+            else 1e12
+        )
         for r in range(h + 1, len(lines)):
             cells = lines[r].split(",")
             try:
@@ -324,9 +486,23 @@ def mutate_csv(text: str, kind: str, i: int, j: int, cell: str) -> str:
     return "\n".join(lines) + ("\n" if lines else "")
 
 
-CSV_KINDS = ["cell", "cell", "cell", "drop_column", "rename_header", "truncate", "header_only",
-             "one_row", "drop_header", "constant", "reverse", "scale_column", "extra_column",
-             "semicolons", "duplicate_rows"]
+CSV_KINDS = [
+    "cell",
+    "cell",
+    "cell",
+    "drop_column",
+    "rename_header",
+    "truncate",
+    "header_only",
+    "one_row",
+    "drop_header",
+    "constant",
+    "reverse",
+    "scale_column",
+    "extra_column",
+    "semicolons",
+    "duplicate_rows",
+]
 
 
 def mutate_text(text: str, kind: str, i: int, blob: bytes) -> bytes:

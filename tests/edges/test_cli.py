@@ -21,9 +21,19 @@ def test_run_example_writes_contract_outputs(tmp_path, capsys):
     code, out, err = run_cli(["run", str(EXAMPLE), "--out", str(tmp_path / "o")], capsys)
     assert code == 0, err
     s = json.loads((tmp_path / "o" / "summary.json").read_text())
-    for key in ("cycles_to_end", "end_reason", "end_values", "a_initial_mm", "a_end_mm",
-                "critical_crack_length_mm", "blocks_to_end", "hours_to_end", "method",
-                "j_method", "version"):
+    for key in (
+        "cycles_to_end",
+        "end_reason",
+        "end_values",
+        "a_initial_mm",
+        "a_end_mm",
+        "critical_crack_length_mm",
+        "blocks_to_end",
+        "hours_to_end",
+        "method",
+        "j_method",
+        "version",
+    ):
         assert key in s
     head = (tmp_path / "o" / "history.csv").read_text().splitlines()[0]
     assert head == "cycle,block,a_mm,dJ_kJm2,dJ_eq_kJm2,Jmax_kJm2,Lr,dadN_mm_per_cycle"
@@ -33,8 +43,9 @@ def test_run_example_writes_contract_outputs(tmp_path, capsys):
 
 
 def test_json_flag(tmp_path, capsys):
-    code, out, _ = run_cli(["run", str(EXAMPLE), "--out", str(tmp_path / "o"), "--json",
-                            "--no-plots"], capsys)
+    code, out, _ = run_cli(
+        ["run", str(EXAMPLE), "--out", str(tmp_path / "o"), "--json", "--no-plots"], capsys
+    )
     assert code == 0 and json.loads(out)["end_reason"] == "tearing"
 
 
@@ -52,16 +63,16 @@ def _write(tmp_path, text):
 
 
 BAD = [
-    ("elastic_modulus = \"205 GPa\"", "elastic_modulus = \"3 mm\"", "wrong dimension"),
+    ('elastic_modulus = "205 GPa"', 'elastic_modulus = "3 mm"', "wrong dimension"),
     ("poisson_ratio = 0.3", "poisson_ration = 0.3", "did you mean 'poisson_ratio'"),
-    ("shape = \"compact-tension\"", "shape = \"compact-tensoin\"", "did you mean"),
-    ("crack_length = \"15 mm\"", "crack_length = \"2 mm\"", "validity"),
-    ("crack_length = \"15 mm\"", "", "missing required key"),
+    ('shape = "compact-tension"', 'shape = "compact-tensoin"', "did you mean"),
+    ('crack_length = "15 mm"', 'crack_length = "2 mm"', "validity"),
+    ('crack_length = "15 mm"', "", "missing required key"),
     ("hardening_exponent = 0.16", "hardening_exponent = 1.6", "out of range"),
     ("[geometry]", "[geometry", "not valid TOML"),
-    ("closure = \"none\"", "closure = \"newman\"", "count closure twice"),
-    ("max = \"14 kN\"", "max = \"abc\"", "cannot read the quantity"),
-    ("j_method = \"reference-stress\"", "j_method = \"plastic\"", "unknown value"),
+    ('closure = "none"', 'closure = "newman"', "count closure twice"),
+    ('max = "14 kN"', 'max = "abc"', "cannot read the quantity"),
+    ('j_method = "reference-stress"', 'j_method = "plastic"', "unknown value"),
 ]
 
 

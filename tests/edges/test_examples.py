@@ -11,8 +11,11 @@ from cycj.life import predict_life
 from tests.helpers import case_dict
 
 EXAMPLES = Path(__file__).parents[2] / "examples"
-LIFE_EXAMPLES = ["lab_compact_tension.toml", "crane_edge_crack.toml",
-                 "thick_section_startstop.toml"]
+LIFE_EXAMPLES = [
+    "lab_compact_tension.toml",
+    "crane_edge_crack.toml",
+    "thick_section_startstop.toml",
+]
 
 
 @pytest.mark.parametrize("name", LIFE_EXAMPLES)
@@ -31,12 +34,14 @@ def test_random_spectra_block_agrees_with_cycle_stepper(tmp_path, seed):
 
     rng = np.random.default_rng(seed)
     values = np.cumsum(rng.normal(size=400))
-    values = 40 + 60 * (values - values.min()) / np.ptp(values)     # 40–100 MPa
+    values = 40 + 60 * (values - values.min()) / np.ptp(values)  # 40–100 MPa
     path = tmp_path / "h.csv"
     np.savetxt(path, values, header="load", comments="", fmt="%.6f")
-    d = case_dict(loading={"history": str(path), "unit": "MPa", "constant": None},
-                  analysis={"j_method": "reference-stress"},
-                  geometry={"shape": "edge-crack-semi-infinite", "crack_length": "1 mm"})
+    d = case_dict(
+        loading={"history": str(path), "unit": "MPa", "constant": None},
+        analysis={"j_method": "reference-stress"},
+        geometry={"shape": "edge-crack-semi-infinite", "crack_length": "1 mm"},
+    )
     d["loading"].pop("constant")
     case = case_from_dict(d, source=str(path), base=tmp_path)
     c = predict_life(case, method="cycle").summary
@@ -45,12 +50,14 @@ def test_random_spectra_block_agrees_with_cycle_stepper(tmp_path, seed):
     assert b["cycles_to_end"] == pytest.approx(c["cycles_to_end"], rel=5e-3)
 
 
-REACH_EXAMPLES = [("weld_toe_surface_crack.toml", "leak"),
-                  ("pipeline_axial_crack.toml", "fad"),
-                  ("lug_tabulated.toml", "size-limit"),
-                  ("pipe_pressure_thermal.toml", "toughness"),
-                  ("welded_joint_residual.toml", "fad"),
-                  ("notched_bar_lcf.toml", "size-limit")]
+REACH_EXAMPLES = [
+    ("weld_toe_surface_crack.toml", "leak"),
+    ("pipeline_axial_crack.toml", "fad"),
+    ("lug_tabulated.toml", "size-limit"),
+    ("pipe_pressure_thermal.toml", "toughness"),
+    ("welded_joint_residual.toml", "fad"),
+    ("notched_bar_lcf.toml", "size-limit"),
+]
 
 
 @pytest.mark.parametrize("name,end", REACH_EXAMPLES)

@@ -19,8 +19,6 @@ ROOT = Path(__file__).parents[2]
 EXAMPLES = ROOT / "examples"
 
 
-
-
 def readme_commands() -> list[list[str]]:
     """The ``cycj ...`` parts of the README's fenced bash blocks (install steps skipped)."""
     text = (ROOT / "README.md").read_text(encoding="utf-8")
@@ -69,14 +67,32 @@ def test_readme_python_block_runs(monkeypatch):
 # ------------------------------------------------------------------------------ examples
 EXAMPLE_COMMANDS = {
     "plan": ["plan", "examples/plate_inspection.toml", "--no-plots"],
-    "fit-two-R": ["fit", "examples/lab_log_ct_r01.csv", "examples/lab_log_ct_r05.csv",
-                  "--specimen", "examples/lab_specimen_ct.toml", "--no-plots"],
-    "fit-shedding": ["fit", "examples/lab_log_ct_shedding.csv", "--specimen",
-                     "examples/lab_specimen_ct.toml", "--no-plots"],
+    "fit-two-R": [
+        "fit",
+        "examples/lab_log_ct_r01.csv",
+        "examples/lab_log_ct_r05.csv",
+        "--specimen",
+        "examples/lab_specimen_ct.toml",
+        "--no-plots",
+    ],
+    "fit-shedding": [
+        "fit",
+        "examples/lab_log_ct_shedding.csv",
+        "--specimen",
+        "examples/lab_specimen_ct.toml",
+        "--no-plots",
+    ],
     "pod-hit-miss": ["pod", "examples/pod_hit_miss.csv"],
     "pod-signal": ["pod", "examples/pod_signal_response.csv"],
-    "count-crane": ["count", "loadspectra/crane_duty.csv", "--column", "load", "--unit", "kN",
-                    "--no-plots"],
+    "count-crane": [
+        "count",
+        "loadspectra/crane_duty.csv",
+        "--column",
+        "load",
+        "--unit",
+        "kN",
+        "--no-plots",
+    ],
 }
 #: examples run by tests/edges/test_examples.py (predict_life, cycle stepper and block mode)
 from tests.edges.test_examples import LIFE_EXAMPLES as _BLOCK_EXAMPLES  # noqa: E402
@@ -100,8 +116,9 @@ def test_example_command_runs(name, tmp_path, capsys, monkeypatch):
 @pytest.mark.parametrize("name", LIFE_EXAMPLES[:1])
 def test_life_example_through_the_cli(name, tmp_path, capsys, monkeypatch):
     monkeypatch.chdir(ROOT)
-    code, out, err = run_cli(["run", f"examples/{name}", "--out", tmp_path / "o", "--json",
-                              "--no-plots"], capsys)
+    code, out, err = run_cli(
+        ["run", f"examples/{name}", "--out", tmp_path / "o", "--json", "--no-plots"], capsys
+    )
     assert code == 0, err
     assert json.loads(out)["end_reason"]
 
@@ -109,9 +126,12 @@ def test_life_example_through_the_cli(name, tmp_path, capsys, monkeypatch):
 def test_every_example_file_is_used():
     used = " ".join(" ".join(c) for c in EXAMPLE_COMMANDS.values())
     for p in EXAMPLES.iterdir():
-        assert (f"examples/{p.name}" in used or p.name in LIFE_EXAMPLES
-                or p.name in GENERATORS or p.name in LIFE_DATA), \
-            f"{p.name} is not run by any test"
+        assert (
+            f"examples/{p.name}" in used
+            or p.name in LIFE_EXAMPLES
+            or p.name in GENERATORS
+            or p.name in LIFE_DATA
+        ), f"{p.name} is not run by any test"
 
 
 def _load(path: Path):
@@ -124,15 +144,13 @@ def _load(path: Path):
 def test_lab_log_generator_reproduces_the_bundled_logs(tmp_path, capsys):
     """examples/make_lab_logs.py (seeded) writes the same logs as those bundled."""
     mod = _load(EXAMPLES / "make_lab_logs.py")
-    (tmp_path / "lab_specimen_ct.toml").write_text(
-        (EXAMPLES / "lab_specimen_ct.toml").read_text())
+    (tmp_path / "lab_specimen_ct.toml").write_text((EXAMPLES / "lab_specimen_ct.toml").read_text())
     mod.HERE = tmp_path
     mod.main()
     for name in ("lab_log_ct_r01.csv", "lab_log_ct_r05.csv", "lab_log_ct_shedding.csv"):
         new, old = pd.read_csv(tmp_path / name), pd.read_csv(EXAMPLES / name)
         assert list(new.columns) == list(old.columns) and new.shape == old.shape
-        np.testing.assert_allclose(new.to_numpy(float), old.to_numpy(float), rtol=1e-6,
-                                   atol=2e-5)
+        np.testing.assert_allclose(new.to_numpy(float), old.to_numpy(float), rtol=1e-6, atol=2e-5)
 
 
 def test_pipe_channel_generator_reproduces_the_bundled_history(tmp_path):
@@ -163,7 +181,8 @@ def test_demo_scenario_inputs_are_valid(tmp_path):
     read_specimen(paths["specimen"])
     import tomllib
 
-    raw = tomllib.loads(case_text('growth = { law = "paris", C = 8e-5, m = 1.45, '
-                                  'basis = "effective" }'))
+    raw = tomllib.loads(
+        case_text('growth = { law = "paris", C = 8e-5, m = 1.45, basis = "effective" }')
+    )
     case = case_from_dict(raw, source="demo", base=tmp_path)
     assert case.inspection is not None and case.loading.history.is_file()

@@ -47,8 +47,7 @@ def test_pod_decision_outside_responses_is_input_error(inputs, capsys):
 
 
 def test_growth_exponent_out_of_range(tmp_path, capsys):
-    d = MI.mutate_dict(MI.CASE_PLAN, ("material", "growth", "from_delta_K", "m"), "replace",
-                       300.0)
+    d = MI.mutate_dict(MI.CASE_PLAN, ("material", "growth", "from_delta_K", "m"), "replace", 300.0)
     p = tmp_path / "c.toml"
     p.write_text(MI.to_toml(d))
     code, _, err = run_cli(["check", p], capsys)
@@ -58,16 +57,19 @@ def test_growth_exponent_out_of_range(tmp_path, capsys):
 def test_log_spanning_less_than_a_cycle(inputs, tmp_path, capsys):
     p = tmp_path / "log.csv"
     p.write_text(MI.mutate_csv(MI.raw_log_text(), "scale_column", 0, 0, "1e-300"))
-    code, _, err = run_cli(["fit", p, "--specimen", inputs / "specimen.toml", "--out",
-                            tmp_path / "o"], capsys)
+    code, _, err = run_cli(
+        ["fit", p, "--specimen", inputs / "specimen.toml", "--out", tmp_path / "o"], capsys
+    )
     assert code == 2 and "less than one cycle" in err
 
 
 def test_implausible_cyclic_curve_in_specimen(inputs, tmp_path, capsys):
     p = tmp_path / "s.toml"
     p.write_text(MI.to_toml(MI.mutate_dict(MI.SPECIMEN, ("cyclic_curve",), "scale", 1e-4)))
-    code, _, err = run_cli(["fit", inputs / "log_crack.csv", "--specimen", p, "--out",
-                            tmp_path / "o", "--no-plots"], capsys)
+    code, _, err = run_cli(
+        ["fit", inputs / "log_crack.csv", "--specimen", p, "--out", tmp_path / "o", "--no-plots"],
+        capsys,
+    )
     assert code == 2 and "cyclic_curve" in err and "s.toml" in err
 
 
@@ -90,8 +92,14 @@ def test_plan_with_critical_initial_crack_is_input_error(tmp_path, capsys):
 COMMANDS = {
     "run": lambda d, out: ["run", d / "case_constant.toml", "--out", out],
     "count": lambda d, out: ["count", d / "history.csv", "--out", out],
-    "fit": lambda d, out: ["fit", d / "log_crack.csv", "--specimen", d / "specimen.toml",
-                           "--out", out],
+    "fit": lambda d, out: [
+        "fit",
+        d / "log_crack.csv",
+        "--specimen",
+        d / "specimen.toml",
+        "--out",
+        out,
+    ],
     "plan": lambda d, out: ["plan", d / "plan.toml", "--out", out],
     "pod": lambda d, out: ["pod", d / "pod_hit_miss.csv", "--out", out],
 }
@@ -138,8 +146,9 @@ def test_ctrl_c_from_progress_leaves_nothing(inputs, tmp_path, capsys, monkeypat
 
     monkeypatch.setattr(R, "_Progress", Stop)
     out = tmp_path / "out"
-    code, _, err = run_cli(["run", inputs / "case_constant.toml", "--out", out,
-                            "--method", "cycle"], capsys)
+    code, _, err = run_cli(
+        ["run", inputs / "case_constant.toml", "--out", out, "--method", "cycle"], capsys
+    )
     assert code == 130 and "stopped by the user" in err
     assert list(tmp_path.iterdir()) == []
 
@@ -177,13 +186,16 @@ def test_error_while_writing_leaves_nothing(inputs, tmp_path, capsys, monkeypatc
 
 
 # ---------------------------------------------------------------------------- provenance
-@pytest.mark.parametrize("cmd,name,keys", [
-    ("run", "summary.json", ["case_sha256"]),
-    ("count", "count.json", ["history_sha256"]),
-    ("fit", "fit.json", ["log_sha256", "specimen_sha256"]),
-    ("plan", "plan.json", ["case_sha256"]),
-    ("pod", "pod.json", ["data_sha256"]),
-])
+@pytest.mark.parametrize(
+    "cmd,name,keys",
+    [
+        ("run", "summary.json", ["case_sha256"]),
+        ("count", "count.json", ["history_sha256"]),
+        ("fit", "fit.json", ["log_sha256", "specimen_sha256"]),
+        ("plan", "plan.json", ["case_sha256"]),
+        ("pod", "pod.json", ["data_sha256"]),
+    ],
+)
 def test_provenance_in_every_json(inputs, tmp_path, capsys, cmd, name, keys):
     from cycj._version import __version__
     from cycj.outputs import sha256_of

@@ -22,12 +22,21 @@ from tests.edges import mutation_inputs as MI
 
 EXAMPLES = int(os.environ.get("CYCJ_MUTATION_EXAMPLES", "200"))
 #: CYCJ_MUTATION_NOSHRINK=1 reports the first failure as found (faster while fixing)
-PHASES = [Phase.explicit, Phase.generate] if os.environ.get("CYCJ_MUTATION_NOSHRINK") else \
-    list(Phase)
-SETTINGS = settings(max_examples=EXAMPLES, deadline=None, derandomize=True, database=None,
-                    phases=PHASES,
-                    suppress_health_check=[HealthCheck.function_scoped_fixture,
-                                           HealthCheck.too_slow, HealthCheck.data_too_large])
+PHASES = (
+    [Phase.explicit, Phase.generate] if os.environ.get("CYCJ_MUTATION_NOSHRINK") else list(Phase)
+)
+SETTINGS = settings(
+    max_examples=EXAMPLES,
+    deadline=None,
+    derandomize=True,
+    database=None,
+    phases=PHASES,
+    suppress_health_check=[
+        HealthCheck.function_scoped_fixture,
+        HealthCheck.too_slow,
+        HealthCheck.data_too_large,
+    ],
+)
 
 
 class _Bases(tuple):
@@ -73,8 +82,7 @@ def _check_outcome(code, err, args, what, workdir: Path, out_json: str | None = 
         assert "error" in lines[-1], msg
         # names the file, a key, a line or an option
         names = [p.name for p in workdir.iterdir()]
-        assert any(n in err for n in names) or "[" in err or "--" in err \
-            or "line" in err, msg
+        assert any(n in err for n in names) or "[" in err or "--" in err or "line" in err, msg
     leftovers = [p.name for p in workdir.iterdir() if ".tmp-" in p.name or ".old-" in p.name]
     assert not leftovers, msg + f"\nleft over: {leftovers}"
     out = workdir / "out"
@@ -87,15 +95,17 @@ def _check_outcome(code, err, args, what, workdir: Path, out_json: str | None = 
 # ------------------------------------------------------------------------------ strategies
 def toml_mutation(base: dict):
     paths = MI.leaf_paths(base)
-    bad = st.tuples(st.sampled_from(paths), st.sampled_from(["delete", "replace", "replace",
-                                                             "replace", "unknown"]),
-                    st.sampled_from(MI.BAD_VALUES))
+    bad = st.tuples(
+        st.sampled_from(paths),
+        st.sampled_from(["delete", "replace", "replace", "replace", "unknown"]),
+        st.sampled_from(MI.BAD_VALUES),
+    )
     extreme = st.tuples(st.sampled_from(paths), st.just("scale"), st.sampled_from(MI.SCALES))
     one = st.one_of(bad, extreme)
     structured = st.lists(one, min_size=1, max_size=2).map(lambda ms: _apply_toml(base, ms))
-    text = st.tuples(st.sampled_from(MI.TEXT_KINDS), st.integers(0, 10**6),
-                     st.binary(min_size=1, max_size=48)).map(
-        lambda t: (f"text {t[0]}@{t[1]}", MI.mutate_text(MI.to_toml(base), *t)))
+    text = st.tuples(
+        st.sampled_from(MI.TEXT_KINDS), st.integers(0, 10**6), st.binary(min_size=1, max_size=48)
+    ).map(lambda t: (f"text {t[0]}@{t[1]}", MI.mutate_text(MI.to_toml(base), *t)))
     return st.one_of(structured, structured, structured, text)
 
 
@@ -105,17 +115,20 @@ def _apply_toml(base, ms):
         try:
             d = MI.mutate_dict(d, path, action, value)
         except (KeyError, IndexError, TypeError):
-            pass        # an earlier mutation removed the path
+            pass  # an earlier mutation removed the path
     return f"toml {ms!r}", MI.to_toml(d).encode("utf-8")
 
 
 def csv_mutation(text: str):
-    structured = st.tuples(st.sampled_from(MI.CSV_KINDS), st.integers(0, 10**6),
-                           st.integers(0, 5), st.sampled_from(MI.BAD_CELLS)).map(
-        lambda t: (f"csv {t!r}", MI.mutate_csv(text, *t).encode("utf-8")))
-    raw = st.tuples(st.sampled_from(MI.TEXT_KINDS), st.integers(0, 10**6),
-                    st.binary(min_size=1, max_size=48)).map(
-        lambda t: (f"text {t[0]}@{t[1]}", MI.mutate_text(text, *t)))
+    structured = st.tuples(
+        st.sampled_from(MI.CSV_KINDS),
+        st.integers(0, 10**6),
+        st.integers(0, 5),
+        st.sampled_from(MI.BAD_CELLS),
+    ).map(lambda t: (f"csv {t!r}", MI.mutate_csv(text, *t).encode("utf-8")))
+    raw = st.tuples(
+        st.sampled_from(MI.TEXT_KINDS), st.integers(0, 10**6), st.binary(min_size=1, max_size=48)
+    ).map(lambda t: (f"text {t[0]}@{t[1]}", MI.mutate_text(text, *t)))
     return st.one_of(structured, structured, raw)
 
 
@@ -133,8 +146,9 @@ def _mutated_file(data, bases, names):
 @given(data=st.data())
 def test_check_never_crashes(bases, capsys, data):
     root, b = bases
-    name, what, payload = _mutated_file(data, b, ["case_constant.toml", "case_history.toml",
-                                                   "plan.toml", "history.csv"])
+    name, what, payload = _mutated_file(
+        data, b, ["case_constant.toml", "case_history.toml", "plan.toml", "history.csv"]
+    )
     case = name if name.endswith(".toml") else "case_history.toml"
     d = _materialise(root, b, [case, "history.csv"], name, payload)
     args = ["check", d / case, *data.draw(st.sampled_from([[], ["--json"]]))]
@@ -147,8 +161,9 @@ def test_check_never_crashes(bases, capsys, data):
 @given(data=st.data())
 def test_run_never_crashes(bases, capsys, data):
     root, b = bases
-    name, what, payload = _mutated_file(data, b, ["case_constant.toml", "case_history.toml",
-                                                   "case_history.toml", "history.csv"])
+    name, what, payload = _mutated_file(
+        data, b, ["case_constant.toml", "case_history.toml", "case_history.toml", "history.csv"]
+    )
     case = name if name.endswith(".toml") else "case_history.toml"
     d = _materialise(root, b, [case, "history.csv"], name, payload)
     method = data.draw(st.sampled_from([[], [], ["--method", "cycle"], ["--method", "block"]]))
@@ -158,12 +173,29 @@ def test_run_never_crashes(bases, capsys, data):
     shutil.rmtree(d)
 
 
-COUNT_OPTIONS = [[], [], ["--repeat"], ["--gate", "abc"], ["--gate", "-1"], ["--gate", "1e300"],
-                 ["--gate", "nan"], ["--gate", "5 MPa"], ["--gate", "5 mm"], ["--unit", "MPa"],
-                 ["--unit", "parsec"], ["--unit", "kN", "--gate", "2 kN"], ["--column", "7"],
-                 ["--column", "nope"], ["--column", "0"], ["--column", "-1"],
-                 ["--scale", "nan"], ["--scale", "0"], ["--scale", "-2"], ["--scale", "1e308"],
-                 ["--bins", "2"]]
+COUNT_OPTIONS = [
+    [],
+    [],
+    ["--repeat"],
+    ["--gate", "abc"],
+    ["--gate", "-1"],
+    ["--gate", "1e300"],
+    ["--gate", "nan"],
+    ["--gate", "5 MPa"],
+    ["--gate", "5 mm"],
+    ["--unit", "MPa"],
+    ["--unit", "parsec"],
+    ["--unit", "kN", "--gate", "2 kN"],
+    ["--column", "7"],
+    ["--column", "nope"],
+    ["--column", "0"],
+    ["--column", "-1"],
+    ["--scale", "nan"],
+    ["--scale", "0"],
+    ["--scale", "-2"],
+    ["--scale", "1e308"],
+    ["--bins", "2"],
+]
 
 
 @SETTINGS
@@ -190,8 +222,17 @@ def test_fit_never_crashes(bases, capsys, data):
     name, what, payload = _mutated_file(data, b, [log, "specimen.toml"])
     d = _materialise(root, b, [log, "specimen.toml"], name, payload)
     method = data.draw(st.sampled_from([[], ["--method", "secant"], ["--method", "direct"]]))
-    args = ["fit", d / log, "--specimen", d / "specimen.toml", "--out", d / "out",
-            "--no-plots", "--json", *method]
+    args = [
+        "fit",
+        d / log,
+        "--specimen",
+        d / "specimen.toml",
+        "--out",
+        d / "out",
+        "--no-plots",
+        "--json",
+        *method,
+    ]
     code, _, err = _run(args, capsys)
     _check_outcome(code, err, args, what, d, "fit.json")
     shutil.rmtree(d)
@@ -209,9 +250,20 @@ def test_plan_never_crashes(bases, capsys, data):
     shutil.rmtree(d)
 
 
-POD_OPTIONS = [[], [], [], ["--link", "probit"], ["--decision", "0"], ["--decision", "nan"],
-               ["--decision", "1e300"], ["--floor", "5"], ["--saturation", "0.1"],
-               ["--floor", "-1"], ["--decision", "-3"], ["--saturation", "inf"]]
+POD_OPTIONS = [
+    [],
+    [],
+    [],
+    ["--link", "probit"],
+    ["--decision", "0"],
+    ["--decision", "nan"],
+    ["--decision", "1e300"],
+    ["--floor", "5"],
+    ["--saturation", "0.1"],
+    ["--floor", "-1"],
+    ["--decision", "-3"],
+    ["--saturation", "inf"],
+]
 
 
 @SETTINGS
@@ -233,16 +285,37 @@ def test_bases_are_valid(bases, capsys):
     root, b = bases
     d = _materialise(root, b, list(b), None, None)
     for args, js in (
-            (["run", d / "case_constant.toml", "--out", d / "o1", "--no-plots"], "summary.json"),
-            (["run", d / "case_history.toml", "--out", d / "o2", "--no-plots"], "summary.json"),
-            (["count", d / "history.csv", "--out", d / "o3", "--no-plots"], "count.json"),
-            (["fit", d / "log_crack.csv", "--specimen", d / "specimen.toml", "--out", d / "o4",
-              "--no-plots"], "fit.json"),
-            (["fit", d / "log_raw.csv", "--specimen", d / "specimen.toml", "--out", d / "o5",
-              "--no-plots"], "fit.json"),
-            (["plan", d / "plan.toml", "--out", d / "o6", "--no-plots"], "plan.json"),
-            (["pod", d / "pod_hit_miss.csv", "--out", d / "o7", "--no-plots"], "pod.json"),
-            (["pod", d / "pod_signal.csv", "--out", d / "o8", "--no-plots"], "pod.json")):
+        (["run", d / "case_constant.toml", "--out", d / "o1", "--no-plots"], "summary.json"),
+        (["run", d / "case_history.toml", "--out", d / "o2", "--no-plots"], "summary.json"),
+        (["count", d / "history.csv", "--out", d / "o3", "--no-plots"], "count.json"),
+        (
+            [
+                "fit",
+                d / "log_crack.csv",
+                "--specimen",
+                d / "specimen.toml",
+                "--out",
+                d / "o4",
+                "--no-plots",
+            ],
+            "fit.json",
+        ),
+        (
+            [
+                "fit",
+                d / "log_raw.csv",
+                "--specimen",
+                d / "specimen.toml",
+                "--out",
+                d / "o5",
+                "--no-plots",
+            ],
+            "fit.json",
+        ),
+        (["plan", d / "plan.toml", "--out", d / "o6", "--no-plots"], "plan.json"),
+        (["pod", d / "pod_hit_miss.csv", "--out", d / "o7", "--no-plots"], "pod.json"),
+        (["pod", d / "pod_signal.csv", "--out", d / "o8", "--no-plots"], "pod.json"),
+    ):
         code, _, err = _run(args, capsys)
         assert code == 0, (args, err)
         assert (Path(args[args.index("--out") + 1]) / js).is_file()

@@ -47,8 +47,9 @@ def test_report_has_caution_and_only_embedded_images(tmp_path):
     png = tmp_path / "p.png"
     fig.savefig(png)
     plt.close(fig)
-    text = render_report(title="t", question="q", answer="a", figures=[("c", png)],
-                         references=["Ainsworth (1984)"])
+    text = render_report(
+        title="t", question="q", answer="a", figures=[("c", png)], references=["Ainsworth (1984)"]
+    )
     assert CAUTION in text and "Ainsworth (1984)" in text
     assert "data:image/png;base64," in text
     assert "http://" not in text and "https://" not in text

@@ -23,8 +23,14 @@ from tests.edges import mutation_inputs as MI
 COMMANDS = {
     "run": lambda d, out: ["run", d / "case_constant.toml", "--out", out],
     "count": lambda d, out: ["count", d / "history.csv", "--out", out],
-    "fit": lambda d, out: ["fit", d / "log_raw.csv", "--specimen", d / "specimen.toml",
-                           "--out", out],
+    "fit": lambda d, out: [
+        "fit",
+        d / "log_raw.csv",
+        "--specimen",
+        d / "specimen.toml",
+        "--out",
+        out,
+    ],
     "plan": lambda d, out: ["plan", d / "plan.toml", "--out", out],
     "pod": lambda d, out: ["pod", d / "pod_signal.csv", "--out", out],
 }
@@ -85,19 +91,30 @@ window.addEventListener('load', function () {
 
 
 def _render(browser, page, tmp_path, *extra):
-    cmd = [browser, "--headless=new", "--no-sandbox", "--disable-gpu", "--no-first-run",
-           "--disable-dev-shm-usage", f"--user-data-dir={tmp_path / 'profile'}",
-           "--virtual-time-budget=10000", *extra, page.as_uri()]
-    return subprocess.run(cmd, capture_output=True, text=True, timeout=120,
-                          env={**os.environ, "HOME": str(tmp_path)})
+    cmd = [
+        browser,
+        "--headless=new",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--no-first-run",
+        "--disable-dev-shm-usage",
+        f"--user-data-dir={tmp_path / 'profile'}",
+        "--virtual-time-budget=10000",
+        *extra,
+        page.as_uri(),
+    ]
+    return subprocess.run(
+        cmd, capture_output=True, text=True, timeout=120, env={**os.environ, "HOME": str(tmp_path)}
+    )
 
 
 @pytest.mark.parametrize("cmd", sorted(COMMANDS))
 def test_report_renders_in_chromium_without_broken_images(reports, tmp_path, cmd):
     browser = _chromium()
     if browser is None:
-        pytest.skip("no Chromium binary found (apt-get install chromium); report rendering "
-                    "not checked")
+        pytest.skip(
+            "no Chromium binary found (apt-get install chromium); report rendering not checked"
+        )
     html = reports[cmd].read_text(encoding="utf-8")
     page = tmp_path / "page.html"
     page.write_text(html.replace("</body>", CHECK_SCRIPT + "</body>"), encoding="utf-8")
@@ -114,8 +131,14 @@ def screenshot(report, png, width: int, height: int = 2400):
     from pathlib import Path
 
     with tempfile.TemporaryDirectory() as d:
-        _render(_chromium(), Path(report), Path(d), f"--window-size={width},{height}",
-                f"--screenshot={png}", "--hide-scrollbars")
+        _render(
+            _chromium(),
+            Path(report),
+            Path(d),
+            f"--window-size={width},{height}",
+            f"--screenshot={png}",
+            "--hide-scrollbars",
+        )
     return png
 
 
@@ -125,7 +148,10 @@ def test_chromium_check_detects_a_broken_image(tmp_path):
     if browser is None:
         pytest.skip("no Chromium binary found (apt-get install chromium)")
     page = tmp_path / "page.html"
-    page.write_text("<!DOCTYPE html><html><body><img src='data:image/png;base64,AAAA'>"
-                    + CHECK_SCRIPT + "</body></html>")
+    page.write_text(
+        "<!DOCTYPE html><html><body><img src='data:image/png;base64,AAAA'>"
+        + CHECK_SCRIPT
+        + "</body></html>"
+    )
     proc = _render(browser, page, tmp_path, "--dump-dom")
     assert 'data-images="1" data-broken="1"' in proc.stdout

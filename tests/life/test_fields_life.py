@@ -9,15 +9,17 @@ from cycj.errors import CycjInputError
 from cycj.life import predict_life
 from tests.helpers import case_dict
 
-GEO = {"shape": "edge-crack-plate", "width": "40 mm", "thickness": "10 mm",
-       "crack_length": "2 mm"}
+GEO = {"shape": "edge-crack-plate", "width": "40 mm", "thickness": "10 mm", "crack_length": "2 mm"}
 RUN = {"criteria": ["size-limit"], "crack_length_limit": "20 mm"}
 
 
 def _case(tmp_path=None, geometry=None, loading=None, analysis=None, material=None):
-    d = case_dict(geometry={**GEO, **(geometry or {})}, run=RUN,
-                  loading=loading or {"constant": {"max": "120 MPa", "min": "12 MPa"}},
-                  analysis=analysis or {"j_method": "elastic"})
+    d = case_dict(
+        geometry={**GEO, **(geometry or {})},
+        run=RUN,
+        loading=loading or {"constant": {"max": "120 MPa", "min": "12 MPa"}},
+        analysis=analysis or {"j_method": "elastic"},
+    )
     if material:
         d["material"].update(material)
     if "history" in d["loading"]:
@@ -29,16 +31,18 @@ def test_uniform_profile_reproduces_shape_solution():
     # Glinka–Shen with Tada's SE(T) as reference reproduces the shape's own K (Tada 1973), so
     # the LEFM life is the same as with the edge-crack-plate formula
     plain = predict_life(_case()).summary["cycles_to_end"]
-    prof = predict_life(_case(geometry={"stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0]}})).summary["cycles_to_end"]
+    prof = predict_life(
+        _case(geometry={"stress_profile": {"kind": "polynomial", "coefficients": [1.0]}})
+    ).summary["cycles_to_end"]
     assert prof == pytest.approx(plain, rel=2e-3)
 
 
 def test_bending_profile_grows_slower_than_membrane():
     # a through-wall bending profile σ(1 − 2x/t) falls off with depth (BS 7910 linearisation)
     mem = predict_life(_case()).summary["cycles_to_end"]
-    bend = predict_life(_case(geometry={"stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0, -2.0]}}))
+    bend = predict_life(
+        _case(geometry={"stress_profile": {"kind": "polynomial", "coefficients": [1.0, -2.0]}})
+    )
     assert bend.summary["cycles_to_end"] > 1.3 * mem
 
 
@@ -47,14 +51,30 @@ def test_two_channels_with_same_profile_equal_their_sum(tmp_path):
     rng = np.random.default_rng(3)
     p = 60 + 40 * rng.random(300)
     q = 20 * rng.random(300)
-    np.savetxt(tmp_path / "h.csv", np.column_stack([p, q, p + q]), delimiter=",",
-               header="p,q,total", comments="")
+    np.savetxt(
+        tmp_path / "h.csv",
+        np.column_stack([p, q, p + q]),
+        delimiter=",",
+        header="p,q,total",
+        comments="",
+    )
     uniform = {"kind": "polynomial", "coefficients": [1.0]}
-    two = _case(tmp_path, loading={"history": "h.csv", "quantity": "stress", "channels": [
-        {"name": "p", "column": "p", "unit": "MPa", "stress_profile": uniform},
-        {"name": "q", "column": "q", "unit": "MPa", "stress_profile": uniform}]})
-    one = _case(tmp_path, loading={"history": "h.csv", "column": "total", "unit": "MPa"},
-                geometry={"stress_profile": uniform})
+    two = _case(
+        tmp_path,
+        loading={
+            "history": "h.csv",
+            "quantity": "stress",
+            "channels": [
+                {"name": "p", "column": "p", "unit": "MPa", "stress_profile": uniform},
+                {"name": "q", "column": "q", "unit": "MPa", "stress_profile": uniform},
+            ],
+        },
+    )
+    one = _case(
+        tmp_path,
+        loading={"history": "h.csv", "column": "total", "unit": "MPa"},
+        geometry={"stress_profile": uniform},
+    )
     n2 = predict_life(two, method="cycle").summary["cycles_to_end"]
     n1 = predict_life(one, method="cycle").summary["cycles_to_end"]
     assert n2 == pytest.approx(n1, rel=1e-9)
@@ -65,19 +85,30 @@ def test_residual_stress_raises_r_shortens_life_and_leaves_lr():
     # range is open, so the crack grows faster (BS 7910 §7.3: secondary stress in K only);
     # L_r is from the primary load alone (R6 II.2)
     law = {"growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}}
-    kw = {"loading": {"constant": {"max": "120 MPa", "min": "12 MPa"}, "closure": "newman"},
-          "analysis": {"j_method": "reference-stress"}, "material": law}
-    base = predict_life(_case(geometry={"stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0]}}, **kw))
+    kw = {
+        "loading": {"constant": {"max": "120 MPa", "min": "12 MPa"}, "closure": "newman"},
+        "analysis": {"j_method": "reference-stress"},
+        "material": law,
+    }
+    base = predict_life(
+        _case(geometry={"stress_profile": {"kind": "polynomial", "coefficients": [1.0]}}, **kw)
+    )
     res = predict_life(_case(geometry={"residual_stress": {"uniform": "150 MPa"}}, **kw))
     assert res.summary["cycles_to_end"] < 0.9 * base.summary["cycles_to_end"]
     assert res.history["Lr"].iloc[0] == pytest.approx(base.history["Lr"].iloc[0], rel=1e-12)
 
 
 def test_fields_refused_for_other_shapes():
-    d = case_dict(geometry={"shape": "compact-tension", "width": "50 mm", "thickness": "10 mm",
-                            "crack_length": "15 mm", "residual_stress": {"uniform": "100 MPa"}},
-                  run={"crack_length_limit": "40 mm"})
+    d = case_dict(
+        geometry={
+            "shape": "compact-tension",
+            "width": "50 mm",
+            "thickness": "10 mm",
+            "crack_length": "15 mm",
+            "residual_stress": {"uniform": "100 MPa"},
+        },
+        run={"crack_length_limit": "40 mm"},
+    )
     with pytest.raises(CycjInputError, match="available for edge-crack-plate"):
         case_from_dict(d)
 
@@ -85,12 +116,12 @@ def test_fields_refused_for_other_shapes():
 def _hole_case(jm):
     from tests.helpers import make_case
 
-    return make_case(geometry={"shape": "crack-at-hole", "hole_radius": "5 mm",
-                               "crack_length": "0.1 mm"},
-                     loading={"constant": {"max": "220 MPa", "min": "-220 MPa"},
-                              "compressive_part": "include"},
-                     analysis={"j_method": jm},
-                     run={"criteria": ["size-limit"], "crack_length_limit": "15 mm"})
+    return make_case(
+        geometry={"shape": "crack-at-hole", "hole_radius": "5 mm", "crack_length": "0.1 mm"},
+        loading={"constant": {"max": "220 MPa", "min": "-220 MPa"}, "compressive_part": "include"},
+        analysis={"j_method": jm},
+        run={"criteria": ["size-limit"], "crack_length_limit": "15 mm"},
+    )
 
 
 def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
@@ -107,8 +138,9 @@ def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
     g = notch.geometry
 
     def dj(mp, a):
-        return K.cycle_driving_force(loads.lmax, loads.lmin, 0, a, g.code, g.params, loads.ct,
-                                     mp)[0]
+        return K.cycle_driving_force(loads.lmax, loads.lmin, 0, a, g.code, g.params, loads.ct, mp)[
+            0
+        ]
 
     assert dj(mp_n, 12.0) == pytest.approx(dj(mp_p, 12.0), rel=1e-12)
     a = 0.02
@@ -120,18 +152,29 @@ def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
 def _surface(geometry=None, **kw):
     from tests.helpers import make_case
 
-    geo = {"shape": "surface-crack-plate", "width": "200 mm", "thickness": "20 mm",
-           "crack_length": "2 mm", "half_length": "4 mm", **(geometry or {})}
-    return make_case(geometry=geo, loading={"constant": {"max": "150 MPa", "min": "0 MPa"}},
-                     run={"criteria": ["size-limit"], "crack_length_limit": "100 mm"}, **kw)
+    geo = {
+        "shape": "surface-crack-plate",
+        "width": "200 mm",
+        "thickness": "20 mm",
+        "crack_length": "2 mm",
+        "half_length": "4 mm",
+        **(geometry or {}),
+    }
+    return make_case(
+        geometry=geo,
+        loading={"constant": {"max": "150 MPa", "min": "0 MPa"}},
+        run={"criteria": ["size-limit"], "crack_length_limit": "100 mm"},
+        **kw,
+    )
 
 
 def test_surface_crack_uniform_profile_reproduces_newman_raju_life():
     # Shen & Glinka (1991) weight functions use Newman–Raju tension and bending as references,
     # so a uniform profile gives the shape's own K at both points and the same LEFM life
     plain = predict_life(_surface()).summary
-    prof = predict_life(_surface(geometry={"stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0]}})).summary
+    prof = predict_life(
+        _surface(geometry={"stress_profile": {"kind": "polynomial", "coefficients": [1.0]}})
+    ).summary
     assert prof["end_reason"] == plain["end_reason"] == "leak"
     assert prof["cycles_to_end"] == pytest.approx(plain["cycles_to_end"], rel=5e-3)
 
@@ -141,8 +184,13 @@ def test_surface_crack_bending_profile_matches_bending_ratio():
     # profile [1 + β, −2β] is P_m = 1, P_b = β, as bending_ratio = β in the Newman–Raju shape
     beta = 0.5
     shape = predict_life(_surface(geometry={"bending_ratio": beta})).summary
-    prof = predict_life(_surface(geometry={"stress_profile": {
-        "kind": "polynomial", "coefficients": [1.0 + beta, -2.0 * beta]}})).summary
+    prof = predict_life(
+        _surface(
+            geometry={
+                "stress_profile": {"kind": "polynomial", "coefficients": [1.0 + beta, -2.0 * beta]}
+            }
+        )
+    ).summary
     assert prof["cycles_to_end"] == pytest.approx(shape["cycles_to_end"], rel=1e-2)
 
 
@@ -151,18 +199,32 @@ def test_secondary_channel_adds_to_k_not_to_lr(tmp_path):
     rng = np.random.default_rng(4)
     p = 60 + 40 * rng.random(200)
     q = 30 * rng.random(200)
-    np.savetxt(tmp_path / "h.csv", np.column_stack([p, q]), delimiter=",", header="p,q",
-               comments="")
+    np.savetxt(
+        tmp_path / "h.csv", np.column_stack([p, q]), delimiter=",", header="p,q", comments=""
+    )
     bend = {"kind": "polynomial", "coefficients": [1.0, -2.0]}
     uniform = {"kind": "polynomial", "coefficients": [1.0]}
 
     def run(secondary):
         chans = [{"name": "p", "column": "p", "unit": "MPa", "stress_profile": uniform}]
         if secondary is not None:
-            chans.append({"name": "q", "column": "q", "unit": "MPa", "stress_profile": bend,
-                          "secondary": secondary})
-        return predict_life(_case(tmp_path, loading={"history": "h.csv", "channels": chans},
-                                  analysis={"j_method": "reference-stress"}), method="cycle")
+            chans.append(
+                {
+                    "name": "q",
+                    "column": "q",
+                    "unit": "MPa",
+                    "stress_profile": bend,
+                    "secondary": secondary,
+                }
+            )
+        return predict_life(
+            _case(
+                tmp_path,
+                loading={"history": "h.csv", "channels": chans},
+                analysis={"j_method": "reference-stress"},
+            ),
+            method="cycle",
+        )
 
     alone, sec, prim = run(None), run(True), run(False)
     assert sec.summary["cycles_to_end"] < alone.summary["cycles_to_end"]

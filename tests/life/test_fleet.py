@@ -25,8 +25,9 @@ def test_fleet_in_process(tmp_path):
 def test_fleet_on_dask_matches(tmp_path):
     distributed = pytest.importorskip("distributed")
     local = run_fleet(CASES, tmp_path / "a")
-    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False,
-                                  dashboard_address=None) as cluster:
+    with distributed.LocalCluster(
+        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=None
+    ) as cluster:
         remote = run_fleet(CASES, tmp_path / "b", scheduler=cluster.scheduler_address)
     assert list(remote["cycles_to_end"]) == list(local["cycles_to_end"])
     assert list(remote["end_reason"]) == list(local["end_reason"])
@@ -42,7 +43,6 @@ def test_interrupted_run_leaves_nothing(tmp_path):
 
     out = tmp_path / "o"
     with pytest.raises(LifeInterrupted, match="stopped by the user after"):
-        run_and_write(load_case(EX / "crane_edge_crack.toml"), out, method="cycle",
-                      progress=stop)
+        run_and_write(load_case(EX / "crane_edge_crack.toml"), out, method="cycle", progress=stop)
     assert not out.exists()
     assert list(tmp_path.iterdir()) == []

@@ -9,15 +9,18 @@ from scipy import integrate
 from cycj.life import predict_life
 from tests.helpers import make_case
 
-BS7910 = {"law": "paris", "basis": "applied",
-          "from_delta_K": {"C": 1.648e-11, "m": 3.0, "rate_unit": "m",
-                           "driving_unit": "MPa*m**0.5"}}
+BS7910 = {
+    "law": "paris",
+    "basis": "applied",
+    "from_delta_K": {"C": 1.648e-11, "m": 3.0, "rate_unit": "m", "driving_unit": "MPa*m**0.5"},
+}
 
 
 def paris_closed_form(c_k, m, ds, a0, af, y=1.0):
     """∫ da / (C (YΔσ√(πa))^m), m ≠ 2 (Anderson, Fracture Mechanics 3rd ed. Eq. 10.9)."""
-    return (a0 ** (1 - m / 2) - af ** (1 - m / 2)) / (c_k * (m / 2 - 1) * (y * ds * math.sqrt(
-        math.pi)) ** m)
+    return (a0 ** (1 - m / 2) - af ** (1 - m / 2)) / (
+        c_k * (m / 2 - 1) * (y * ds * math.sqrt(math.pi)) ** m
+    )
 
 
 @pytest.mark.parametrize("method", ["cycle", "block"])
@@ -27,7 +30,7 @@ def test_infinite_plate_closed_form_bs7910(method):
     case = make_case(material={"growth": BS7910})
     res = predict_life(case, method=method)
     assert res.summary["end_reason"] == "size-limit"
-    c_k = 1.648e-8 / math.sqrt(1000) ** 3          # mm/cycle per (MPa√mm)^3
+    c_k = 1.648e-8 / math.sqrt(1000) ** 3  # mm/cycle per (MPa√mm)^3
     exact = paris_closed_form(c_k, 3.0, 100.0, 1.0, 10.0)
     assert exact == pytest.approx(4.714e5, rel=1e-3)
     assert res.summary["cycles_to_end"] == pytest.approx(exact, rel=5e-3)
@@ -35,18 +38,28 @@ def test_infinite_plate_closed_form_bs7910(method):
 
 def test_delta_k_law_in_other_units_same_life():
     # BS 7910:2013 §8: A = 5.21e-13 mm/cycle with ΔK in N·mm^-3/2 is the same law
-    law = {"law": "paris", "from_delta_K": {"C": 5.21e-13, "m": 3.0, "rate_unit": "mm",
-                                             "driving_unit": "N*mm**-1.5"}}
+    law = {
+        "law": "paris",
+        "from_delta_K": {"C": 5.21e-13, "m": 3.0, "rate_unit": "mm", "driving_unit": "N*mm**-1.5"},
+    }
     n1 = predict_life(make_case(material={"growth": law})).summary["cycles_to_end"]
     n2 = predict_life(make_case(material={"growth": BS7910})).summary["cycles_to_end"]
     assert n1 == pytest.approx(n2, rel=2e-3)
 
 
 def _ct_case(**kw):
-    geo = {"shape": "compact-tension", "width": "50 mm", "thickness": "12.5 mm",
-           "crack_length": "12.5 mm"}
-    return make_case(geometry=geo, loading={"constant": {"max": "6 kN", "min": "0.6 kN"}},
-                     run={"crack_length_limit": "30 mm", "criteria": ["size-limit"]}, **kw)
+    geo = {
+        "shape": "compact-tension",
+        "width": "50 mm",
+        "thickness": "12.5 mm",
+        "crack_length": "12.5 mm",
+    }
+    return make_case(
+        geometry=geo,
+        loading={"constant": {"max": "6 kN", "min": "0.6 kN"}},
+        run={"crack_length_limit": "30 mm", "criteria": ["size-limit"]},
+        **kw,
+    )
 
 
 def test_compact_tension_elastic_matches_independent_integration():
@@ -56,8 +69,11 @@ def test_compact_tension_elastic_matches_independent_integration():
     w, b, e_prime = 50.0, 12.5, 200e3 / (1 - 0.09)
 
     def f(al):
-        return (2 + al) * (0.886 + 4.64 * al - 13.32 * al**2 + 14.72 * al**3
-                           - 5.6 * al**4) / (1 - al) ** 1.5
+        return (
+            (2 + al)
+            * (0.886 + 4.64 * al - 13.32 * al**2 + 14.72 * al**3 - 5.6 * al**4)
+            / (1 - al) ** 1.5
+        )
 
     def rate(a):
         dk = 5400.0 / (b * math.sqrt(w)) * f(a / w)
@@ -71,31 +87,44 @@ def test_constant_closure_scales_life_by_u_power():
     # elastic ΔJ: ΔJ_eff = U²ΔJ, so N ∝ U^(−2m) exactly (DESIGN closure rule)
     law = {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}
     n1 = predict_life(make_case(material={"growth": law})).summary["cycles_to_end"]
-    n2 = predict_life(make_case(material={"growth": law}, loading={
-        "closure": {"model": "constant", "U": 0.7}})).summary["cycles_to_end"]
+    n2 = predict_life(
+        make_case(material={"growth": law}, loading={"closure": {"model": "constant", "U": 0.7}})
+    ).summary["cycles_to_end"]
     assert n2 / n1 == pytest.approx(0.7 ** (-2 * 1.6), rel=2e-3)
 
 
 def test_constant_closure_with_plasticity_n_to_one():
     # reference stress method with n' → 1: f_pl → U², so N ∝ U^(−2m) again
-    mat = {"growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"},
-           "cyclic_curve": {"strength_coefficient": "1e5 MPa", "hardening_exponent": 0.9999}}
+    mat = {
+        "growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"},
+        "cyclic_curve": {"strength_coefficient": "1e5 MPa", "hardening_exponent": 0.9999},
+    }
     kw = {"analysis": {"j_method": "reference-stress"}, "material": mat}
-    n1 = predict_life(make_case(**kw, loading={"constant": {"max": "200 MPa", "min": "0 MPa"}})
-                      ).summary["cycles_to_end"]
-    n2 = predict_life(make_case(**kw, loading={"constant": {"max": "200 MPa", "min": "0 MPa"},
-                                               "closure": {"model": "constant", "U": 0.75}})
-                      ).summary["cycles_to_end"]
+    n1 = predict_life(
+        make_case(**kw, loading={"constant": {"max": "200 MPa", "min": "0 MPa"}})
+    ).summary["cycles_to_end"]
+    n2 = predict_life(
+        make_case(
+            **kw,
+            loading={
+                "constant": {"max": "200 MPa", "min": "0 MPa"},
+                "closure": {"model": "constant", "U": 0.75},
+            },
+        )
+    ).summary["cycles_to_end"]
     assert n2 / n1 == pytest.approx(0.75 ** (-3.2), rel=3e-3)
 
 
 def test_larger_plastic_part_shorter_life():
-    kw = {"analysis": {"j_method": "reference-stress"},
-          "loading": {"constant": {"max": "250 MPa", "min": "0 MPa"}}}
+    kw = {
+        "analysis": {"j_method": "reference-stress"},
+        "loading": {"constant": {"max": "250 MPa", "min": "0 MPa"}},
+    }
     lives = []
     for k in ("1500 MPa", "900 MPa", "600 MPa"):
-        c = make_case(material={"cyclic_curve": {"strength_coefficient": k,
-                                                 "hardening_exponent": 0.15}}, **kw)
+        c = make_case(
+            material={"cyclic_curve": {"strength_coefficient": k, "hardening_exponent": 0.15}}, **kw
+        )
         lives.append(predict_life(c).summary["cycles_to_end"])
     assert lives[0] > lives[1] > lives[2]
 
@@ -117,8 +146,10 @@ def test_max_cycles_end():
 def test_toughness_end(method):
     # j_method "elastic" is the LEFM comparison: J_max = K_max²/E' = J_c at
     # a = J_c·E'/(S²π) exactly (Griffith–Irwin K = S√(πa))
-    case = make_case(material={"toughness": {"J_c": "20 kJ/m^2"}},
-                     run={"criteria": ["toughness"], "crack_length_limit": "1000 mm"})
+    case = make_case(
+        material={"toughness": {"J_c": "20 kJ/m^2"}},
+        run={"criteria": ["toughness"], "crack_length_limit": "1000 mm"},
+    )
     res = predict_life(case, method=method)
     assert res.summary["end_reason"] == "toughness"
     e_prime = 200e3 / 0.91
@@ -130,9 +161,11 @@ def test_toughness_end(method):
 
 def test_toughness_end_with_plasticity_is_earlier():
     # the reference stress J_max (Ainsworth 1984) exceeds K²/E', so the crack is critical sooner
-    case = make_case(material={"toughness": {"J_c": "20 kJ/m^2"}},
-                     analysis={"j_method": "reference-stress"},
-                     run={"criteria": ["toughness"], "crack_length_limit": "1000 mm"})
+    case = make_case(
+        material={"toughness": {"J_c": "20 kJ/m^2"}},
+        analysis={"j_method": "reference-stress"},
+        run={"criteria": ["toughness"], "crack_length_limit": "1000 mm"},
+    )
     res = predict_life(case)
     a_elastic = 20.0 * (200e3 / 0.91) / (100.0**2 * math.pi)
     assert res.summary["end_reason"] == "toughness"
@@ -140,10 +173,18 @@ def test_toughness_end_with_plasticity_is_earlier():
 
 
 def test_collapse_end():
-    geo = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm",
-           "crack_length": "10 mm", "constraint": "plane-stress"}
-    case = make_case(geometry=geo, loading={"constant": {"max": "150 kN", "min": "0 kN"}},
-                     run={"criteria": ["collapse"], "crack_length_limit": "45 mm"})
+    geo = {
+        "shape": "center-crack-plate",
+        "width": "100 mm",
+        "thickness": "10 mm",
+        "crack_length": "10 mm",
+        "constraint": "plane-stress",
+    }
+    case = make_case(
+        geometry=geo,
+        loading={"constant": {"max": "150 kN", "min": "0 kN"}},
+        run={"criteria": ["collapse"], "crack_length_limit": "45 mm"},
+    )
     res = predict_life(case)
     assert res.summary["end_reason"] == "collapse"
     # net section: P = L_r,max·(W − 2a)·B·σ_y ⇒ 2a = W − P/(L_r,max·B·σ_y)
@@ -153,11 +194,18 @@ def test_collapse_end():
 
 
 def test_fad_end_before_collapse():
-    geo = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm",
-           "crack_length": "10 mm"}
-    case = make_case(geometry=geo, loading={"constant": {"max": "150 kN", "min": "0 kN"}},
-                     material={"toughness": {"J_c": "30 kJ/m^2"}},
-                     run={"criteria": ["fad", "collapse"], "crack_length_limit": "45 mm"})
+    geo = {
+        "shape": "center-crack-plate",
+        "width": "100 mm",
+        "thickness": "10 mm",
+        "crack_length": "10 mm",
+    }
+    case = make_case(
+        geometry=geo,
+        loading={"constant": {"max": "150 kN", "min": "0 kN"}},
+        material={"toughness": {"J_c": "30 kJ/m^2"}},
+        run={"criteria": ["fad", "collapse"], "crack_length_limit": "45 mm"},
+    )
     res = predict_life(case)
     assert res.summary["end_reason"] == "fad"
 
@@ -179,8 +227,16 @@ def test_history_is_sparse_and_monotone():
     h = res.history
     assert len(h) < 1000 < res.summary["cycles_to_end"]
     assert np.all(np.diff(h["a_mm"]) >= 0) and np.all(np.diff(h["cycle"]) >= 0)
-    assert list(h.columns) == ["cycle", "block", "a_mm", "dJ_kJm2", "dJ_eq_kJm2", "Jmax_kJm2",
-                               "Lr", "dadN_mm_per_cycle"]
+    assert list(h.columns) == [
+        "cycle",
+        "block",
+        "a_mm",
+        "dJ_kJm2",
+        "dJ_eq_kJm2",
+        "Jmax_kJm2",
+        "Lr",
+        "dadN_mm_per_cycle",
+    ]
 
 
 def test_fad_end_point_lies_on_the_curve():
@@ -188,12 +244,19 @@ def test_fad_end_point_lies_on_the_curve():
     # (R6 / BS 7910), and the first one inside it
     from cycj.jintegral import fad_option1
 
-    geo = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm",
-           "crack_length": "10 mm"}
-    case = make_case(geometry=geo, loading={"constant": {"max": "150 kN", "min": "0 kN"}},
-                     material={"toughness": {"J_c": "30 kJ/m^2"}},
-                     analysis={"fad": "option-1"},
-                     run={"criteria": ["fad", "collapse"], "crack_length_limit": "45 mm"})
+    geo = {
+        "shape": "center-crack-plate",
+        "width": "100 mm",
+        "thickness": "10 mm",
+        "crack_length": "10 mm",
+    }
+    case = make_case(
+        geometry=geo,
+        loading={"constant": {"max": "150 kN", "min": "0 kN"}},
+        material={"toughness": {"J_c": "30 kJ/m^2"}},
+        analysis={"fad": "option-1"},
+        run={"criteria": ["fad", "collapse"], "crack_length_limit": "45 mm"},
+    )
     res = predict_life(case)
     assert res.summary["end_reason"] == "fad"
     lr, kr = res.peak_points([res.summary["a_initial_mm"], res.summary["a_end_mm"]])

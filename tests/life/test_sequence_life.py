@@ -21,12 +21,13 @@ def _case(tmp_path, overload, sequence, name="h.csv"):
     values[1::2] = peaks
     path = tmp_path / name
     np.savetxt(path, values, header="load", comments="")
-    d = case_dict(loading={"history": name, "unit": "MPa", "sequence": sequence},
-                  material={"growth": {"law": "paris", "C": 1e-3, "m": 1.6}},
-                  analysis={"j_method": "reference-stress"},
-                  geometry={"shape": "center-crack-infinite-plate", "crack_length": "2 mm"},
-                  run={"criteria": ["size-limit"], "crack_length_limit": "5 mm",
-                       "method": "cycle"})
+    d = case_dict(
+        loading={"history": name, "unit": "MPa", "sequence": sequence},
+        material={"growth": {"law": "paris", "C": 1e-3, "m": 1.6}},
+        analysis={"j_method": "reference-stress"},
+        geometry={"shape": "center-crack-infinite-plate", "crack_length": "2 mm"},
+        run={"criteria": ["size-limit"], "crack_length_limit": "5 mm", "method": "cycle"},
+    )
     d["loading"].pop("constant")
     return case_from_dict(d, base=tmp_path)
 
@@ -57,10 +58,10 @@ def test_no_overload_no_change(tmp_path, model):
 def test_overload_delays_and_delay_ends(tmp_path, model, overload):
     none = predict_life(_case(tmp_path, overload, "none"), history_rows=3000)
     seq = predict_life(_case(tmp_path, overload, model), history_rows=3000)
-    assert seq.summary["cycles_to_end"] > 1.01 * none.summary["cycles_to_end"]   # a delay
+    assert seq.summary["cycles_to_end"] > 1.01 * none.summary["cycles_to_end"]  # a delay
     e_n, _, _ = _first_block_rates(none)
     e_s, l_s, a_late = _first_block_rates(seq)
-    assert e_s < 0.6 * e_n                    # retarded right after the overload
+    assert e_s < 0.6 * e_n  # retarded right after the overload
     # through the zone: the constant-amplitude rate at the same crack size
     assert l_s == pytest.approx(_rate_at(none, a_late), rel=0.03)
 

@@ -18,28 +18,54 @@ def _variant(tmp_path, name, old, new):
     spectra.mkdir()
     (ex / name).write_text(text.replace(old, new, 1))
     (ex / "pipe_startstop_channels.csv").write_text(
-        (EX / "pipe_startstop_channels.csv").read_text())
-    (spectra / "crane_duty.csv").write_text((EX.parent / "loadspectra" / "crane_duty.csv")
-                                            .read_text())
+        (EX / "pipe_startstop_channels.csv").read_text()
+    )
+    (spectra / "crane_duty.csv").write_text(
+        (EX.parent / "loadspectra" / "crane_duty.csv").read_text()
+    )
     return ex / name
 
 
 BAD = [
-    ("welded_joint_residual.toml", 'stress_profile = { kind = "polynomial", coefficients = [1.0] }',
-     'stress_profile = { kind = "cubic", coefficients = [1.0] }', "unknown value"),
-    ("welded_joint_residual.toml", 'stress_profile = { kind = "polynomial", coefficients = [1.0] }',
-     'stress_profile = { kind = "polynomial", coefficients = "1.0" }', "list of numbers"),
+    (
+        "welded_joint_residual.toml",
+        'stress_profile = { kind = "polynomial", coefficients = [1.0] }',
+        'stress_profile = { kind = "cubic", coefficients = [1.0] }',
+        "unknown value",
+    ),
+    (
+        "welded_joint_residual.toml",
+        'stress_profile = { kind = "polynomial", coefficients = [1.0] }',
+        'stress_profile = { kind = "polynomial", coefficients = "1.0" }',
+        "list of numbers",
+    ),
     ("welded_joint_residual.toml", "relaxation = 1.0 }", "relaxation = 1.5 }", "out of range"),
-    ("welded_joint_residual.toml", "residual_stress = { profile",
-     "residual_stress = { uniform = \"100 MPa\", profile", "either uniform"),
+    (
+        "welded_joint_residual.toml",
+        "residual_stress = { profile",
+        'residual_stress = { uniform = "100 MPa", profile',
+        "either uniform",
+    ),
     ("pipe_pressure_thermal.toml", 'column = "thermal_bore_MPa"', 'column = "nope"', "nope"),
     ("pipe_pressure_thermal.toml", "secondary = true", "secondary = 3", "true or false"),
-    ("notched_bar_lcf.toml", 'notch = { kt = 2.6, depth = "4 mm", root_radius = "1.5 mm" }',
-     'notch = { kt = 2.6, root_radius = "1.5 mm" }', "missing required key"),
-    ("notched_bar_lcf.toml", 'notch = { kt = 2.6, depth = "4 mm", root_radius = "1.5 mm" }',
-     "", "needs [geometry] notch"),
-    ("notched_bar_lcf.toml", 'criteria = ["toughness", "size-limit"]',
-     'criteria = ["toughness", "size-limit"]\nafter_leak = "through-crack"', "surface crack"),
+    (
+        "notched_bar_lcf.toml",
+        'notch = { kt = 2.6, depth = "4 mm", root_radius = "1.5 mm" }',
+        'notch = { kt = 2.6, root_radius = "1.5 mm" }',
+        "missing required key",
+    ),
+    (
+        "notched_bar_lcf.toml",
+        'notch = { kt = 2.6, depth = "4 mm", root_radius = "1.5 mm" }',
+        "",
+        "needs [geometry] notch",
+    ),
+    (
+        "notched_bar_lcf.toml",
+        'criteria = ["toughness", "size-limit"]',
+        'criteria = ["toughness", "size-limit"]\nafter_leak = "through-crack"',
+        "surface crack",
+    ),
 ]
 
 

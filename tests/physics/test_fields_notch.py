@@ -38,8 +38,7 @@ def test_neuber_product_holds_to_1e_10(steel):
     for kt in (1.0, 2.2, 3.0, 5.0):
         dsig, deps = neuber_masing(kt, ds, steel)
         np.testing.assert_allclose(dsig * deps, (kt * ds) ** 2 / E, rtol=1e-10)
-        np.testing.assert_allclose(deps, dsig / E + 2 * (dsig / 1800.0) ** (1 / 0.15),
-                                   rtol=1e-13)
+        np.testing.assert_allclose(deps, dsig / E + 2 * (dsig / 1800.0) ** (1 / 0.15), rtol=1e-13)
         assert np.all(dsig <= kt * ds * (1 + 1e-15))
 
 
@@ -82,11 +81,13 @@ def test_compiled_scalar_python_and_vectorised_agree(steel):
 def test_notch_root_delta_j_uses_local_range(steel):
     a = np.array([0.02, 0.2])
     dsig, _ = neuber_masing(3.0, 180.0, steel)
-    np.testing.assert_allclose(notch_root_delta_j(a, 180.0, 3.0, steel),
-                               small_crack_delta_j(a, dsig, steel), rtol=1e-14)
+    np.testing.assert_allclose(
+        notch_root_delta_j(a, 180.0, 3.0, steel), small_crack_delta_j(a, dsig, steel), rtol=1e-14
+    )
     el = Material(E, 0.3, 350.0, cyclic_curve=StressStrainCurve(1e12, 0.15))
-    np.testing.assert_allclose(notch_root_delta_j(a, 50.0, 3.0, el),
-                               1.6 * 150.0**2 * a / E, rtol=1e-12)
+    np.testing.assert_allclose(
+        notch_root_delta_j(a, 50.0, 3.0, el), 1.6 * 150.0**2 * a / E, rtol=1e-12
+    )
 
 
 # Dowling (1979, from memory): ΔJ = min[ΔJ_root(a), ΔJ_long(a + D)]: the notch-root value for
@@ -94,8 +95,11 @@ def test_notch_root_delta_j_uses_local_range(steel):
 def test_notch_transition_limits(steel):
     d, ds = 5.0, 200.0
     a_short = np.array([1e-4, 1e-3])
-    np.testing.assert_allclose(notch_delta_j(a_short, ds, 3.0, steel, d),
-                               notch_root_delta_j(a_short, ds, 3.0, steel), rtol=1e-14)
+    np.testing.assert_allclose(
+        notch_delta_j(a_short, ds, 3.0, steel, d),
+        notch_root_delta_j(a_short, ds, 3.0, steel),
+        rtol=1e-14,
+    )
     a_far = np.array([1e3, 1e5])
     ratio = notch_delta_j(a_far, ds, 3.0, steel, d) / small_crack_delta_j(a_far, ds, steel)
     np.testing.assert_allclose(ratio, 1.0 + d / a_far, rtol=1e-12)
@@ -114,8 +118,11 @@ def test_notch_transition_with_a_supplied_long_crack_solution(steel):
     def long_crack(a_eff):
         return small_crack_delta_j(a_eff, 200.0, steel)
 
-    np.testing.assert_allclose(notch_delta_j(a, 200.0, 3.0, steel, 2.0, long_crack=long_crack),
-                               notch_delta_j(a, 200.0, 3.0, steel, 2.0), rtol=1e-13)
+    np.testing.assert_allclose(
+        notch_delta_j(a, 200.0, 3.0, steel, 2.0, long_crack=long_crack),
+        notch_delta_j(a, 200.0, 3.0, steel, 2.0),
+        rtol=1e-13,
+    )
 
 
 # Smith & Miller (1977, from memory): notch field depth 0.13√(Dρ).
@@ -150,17 +157,18 @@ def test_crack_at_hole_monotone_and_scalar_agrees():
     f = k_over_s_crack_at_hole(a, 1.0, 2) / np.sqrt(np.pi * a)
     assert np.all(np.diff(f) < 0)
     assert _py(crack_at_hole_factor_scalar)(2.0, 1.0, 1.0) == pytest.approx(
-        k_over_s_crack_at_hole(2.0, 1.0, 1) / math.sqrt(2 * math.pi), rel=1e-14)
+        k_over_s_crack_at_hole(2.0, 1.0, 1) / math.sqrt(2 * math.pi), rel=1e-14
+    )
     with pytest.raises(ValidityRangeError):
         k_over_s_crack_at_hole(1.0, 1.0, 3)
 
 
 def test_notch_validity(steel):
     with pytest.raises(ValidityRangeError):
-        neuber_masing(0.9, 100.0, steel)                  # K_t < 1
+        neuber_masing(0.9, 100.0, steel)  # K_t < 1
     with pytest.raises(ValidityRangeError):
-        neuber_masing(2.0, -1.0, steel)                   # ΔS < 0
+        neuber_masing(2.0, -1.0, steel)  # ΔS < 0
     with pytest.raises(ValidityRangeError):
-        notch_delta_j(0.0, 100.0, 2.0, steel, 1.0)        # a ≤ 0
+        notch_delta_j(0.0, 100.0, 2.0, steel, 1.0)  # a ≤ 0
     with pytest.raises(ValidityRangeError):
         neuber_masing(2.0, 100.0, Material(E, 0.3, 350.0))  # no cyclic curve

@@ -26,7 +26,7 @@ def test_tabulated_stress_interpolates_linearly_and_refuses_extrapolation():
     with pytest.raises(ValidityRangeError):
         tabulated_stress(0.9, [0.0, 0.5], [1.0, 2.0])
     with pytest.raises(ValidityRangeError):
-        tabulated_stress(0.2, [0.0, 0.5, 0.4], [1.0, 2.0, 3.0])   # not increasing
+        tabulated_stress(0.2, [0.0, 0.5, 0.4], [1.0, 2.0, 3.0])  # not increasing
 
 
 def test_depth_ratio_outside_section_is_refused():
@@ -49,8 +49,9 @@ def test_linearisation_of_cubic_closed_form_and_table_agree():
     pm, pb = linearise_polynomial(coeff)
     # P_m = Σσ_i/(i+1), P_b = 6Σσ_i[1/(2(i+1)) − 1/(i+2)] (arithmetic)
     assert pm == pytest.approx(100 - 25 + 10 + 2.5, rel=1e-14)
-    assert pb == pytest.approx(6 * (0 - 50 * (0.25 - 1 / 3) + 30 * (1 / 6 - 0.25)
-                                    + 10 * (0.125 - 0.2)), rel=1e-14)
+    assert pb == pytest.approx(
+        6 * (0 - 50 * (0.25 - 1 / 3) + 30 * (1 / 6 - 0.25) + 10 * (0.125 - 0.2)), rel=1e-14
+    )
     x = np.linspace(0.0, 1.0, 4001)
     pm_t, pb_t = linearise_table(x, polynomial_stress(x, coeff))
     assert pm_t == pytest.approx(pm, rel=1e-6)

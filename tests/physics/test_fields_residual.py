@@ -20,12 +20,16 @@ def test_uniform_residual_reproduces_the_shapes_uniform_solution():
     k = residual_stress_k(a, 250.0, "edge-crack-plate", width=50.0)
     ref = 250.0 * np.array([edge_crack_plate.k_over_s(x, np.array([50.0])) for x in a])
     np.testing.assert_allclose(k, ref, rtol=1e-12)
-    np.testing.assert_allclose(residual_stress_k(a, 100.0, "edge-crack-semi-infinite"),
-                               100.0 * 1.1215 * np.sqrt(np.pi * a), rtol=1e-12)
+    np.testing.assert_allclose(
+        residual_stress_k(a, 100.0, "edge-crack-semi-infinite"),
+        100.0 * 1.1215 * np.sqrt(np.pi * a),
+        rtol=1e-12,
+    )
     p = np.zeros(8)
     p[1], p[5] = 30.0, 10.0
-    ks = residual_stress_k(np.array([4.0]), 300.0, "surface-crack-plate", c=10.0,
-                           thickness=30.0, relaxation=0.5)
+    ks = residual_stress_k(
+        np.array([4.0]), 300.0, "surface-crack-plate", c=10.0, thickness=30.0, relaxation=0.5
+    )
     assert ks[0] == pytest.approx(150.0 * surface_crack_plate.k_over_s(4.0, p), rel=1e-12)
 
 
@@ -50,8 +54,9 @@ def test_bs7910_relaxation_limits():
 
 # A residual stress shifts K_max and K_min (so R), never ΔK (BS 7910 §8, from memory).
 def test_residual_shifts_r_not_delta_k():
-    kmax, kmin, r = residual_k_shift(np.array([600.0, 600.0]), np.array([60.0, 60.0]),
-                                     np.array([0.0, 300.0]))
+    kmax, kmin, r = residual_k_shift(
+        np.array([600.0, 600.0]), np.array([60.0, 60.0]), np.array([0.0, 300.0])
+    )
     np.testing.assert_allclose(kmax - kmin, 540.0)
     np.testing.assert_allclose(r, [0.1, 360.0 / 900.0])
     _, _, r_closed = residual_k_shift(100.0, 10.0, -200.0)
@@ -70,7 +75,7 @@ def test_rho_is_zero_without_secondary_stress():
 def test_rho1_value_and_regions():
     # K_s·L_r/K_p = 1 at L_r = 0.5 with K_s = 1000, K_p = 500
     assert r6_plasticity_interaction(1000.0, 500.0, 0.5) == pytest.approx(0.09303, rel=1e-12)
-    assert r6_plasticity_interaction(1e6, 500.0, 0.5) == pytest.approx(0.25)   # χ > 4
+    assert r6_plasticity_interaction(1e6, 500.0, 0.5) == pytest.approx(0.25)  # χ > 4
     assert r6_plasticity_interaction(1000.0, 500.0, 1.05) == 0.0
     assert r6_plasticity_interaction(1000.0, 500.0, 1.3) == 0.0
 

@@ -47,15 +47,16 @@ def _p_surface(c, t, width=0.0, beta=0.0):
 def test_edge_crack_plate_uniform_reproduces_tada_set():
     k = edge_crack_plate_k(A_EDGE, W, uniform)
     ref = np.array([edge_crack_plate.k_over_s(a, np.array([W])) for a in A_EDGE])
-    np.testing.assert_allclose(k, ref, rtol=5e-3)     # brief: < 0.5 %
-    np.testing.assert_allclose(k, ref, rtol=1e-12)    # by construction: to round-off
+    np.testing.assert_allclose(k, ref, rtol=5e-3)  # brief: < 0.5 %
+    np.testing.assert_allclose(k, ref, rtol=1e-12)  # by construction: to round-off
 
 
 # REFERENCE.md item 4 [C]: Tada F(0.2) = 1.3667, F(0.5) = 2.8266.
 def test_edge_crack_plate_uniform_reference_check_values():
     k = edge_crack_plate_k(np.array([10.0, 25.0]), W, uniform)
-    np.testing.assert_allclose(k / np.sqrt(np.pi * np.array([10.0, 25.0])),
-                               [1.3667, 2.8266], atol=1e-4)
+    np.testing.assert_allclose(
+        k / np.sqrt(np.pi * np.array([10.0, 25.0])), [1.3667, 2.8266], atol=1e-4
+    )
 
 
 # Tada pure-bending fit (from memory): σ_b(1 − 2x/W) reproduces F_b for a/W ≥ 0.2 by
@@ -76,11 +77,12 @@ def test_tada_pure_bending_against_brown_srawley_from_memory():
 
 
 def test_edge_crack_plate_linear_reference_is_continuous_and_tends_to_half_plane():
-    y0, y1 = edge_crack_plate_references(np.array([1e-6 * W, 0.2 * W * (1 - 1e-9),
-                                                   0.2 * W * (1 + 1e-9)]), W)
+    y0, y1 = edge_crack_plate_references(
+        np.array([1e-6 * W, 0.2 * W * (1 - 1e-9), 0.2 * W * (1 + 1e-9)]), W
+    )
     assert y1[0] == pytest.approx(HALF_PLANE_LINEAR, rel=1e-5)
     assert y1[1] == pytest.approx(y1[2], rel=1e-7)
-    assert y0[0] == pytest.approx(1.1215, abs=1e-3)   # Tada F(0) = 0.752 + 0.37 = 1.122
+    assert y0[0] == pytest.approx(1.1215, abs=1e-3)  # Tada F(0) = 0.752 + 0.37 = 1.122
 
 
 # Small cracks in a finite plate see the half-plane weight function (exact limit a/W → 0).
@@ -110,9 +112,12 @@ def _tada_green_k(profile):
     """K/(σ√(πa)) of an edge crack in a half-plane from Tada's point-force Green's function
     K = 2P/√(πa)·F(b/a)/√(1 − (b/a)²), F = 1.3 − 0.3(b/a)^{5/4} (fit of the Hartranft–Sih
     solution, 1 %; from memory), with b/a = sin θ."""
-    val, _ = integrate.quad(lambda th: profile(math.sin(th))
-                            * (1.3 - 0.3 * math.sin(th) ** 1.25), 0.0, 0.5 * math.pi,
-                            epsabs=1e-13)
+    val, _ = integrate.quad(
+        lambda th: profile(math.sin(th)) * (1.3 - 0.3 * math.sin(th) ** 1.25),
+        0.0,
+        0.5 * math.pi,
+        epsabs=1e-13,
+    )
     return 2.0 / math.pi * val
 
 
@@ -123,11 +128,17 @@ def test_semi_infinite_against_tada_point_force_green_function():
     assert _tada_green_k(lambda s: 1.0) == pytest.approx(1.1215, rel=2e-3)
     assert _tada_green_k(lambda s: s) == pytest.approx(0.683, rel=3e-3)
     a = np.array([2.0])
-    for prof in (lambda s: s**2, lambda s: s**3, lambda s: math.exp(-3 * s),
-                 lambda s: math.cos(math.pi * s), lambda s: (1 - s) ** 2):
+    for prof in (
+        lambda s: s**2,
+        lambda s: s**3,
+        lambda s: math.exp(-3 * s),
+        lambda s: math.cos(math.pi * s),
+        lambda s: (1 - s) ** 2,
+    ):
         k = edge_crack_semi_infinite_k(a, np.vectorize(lambda x, p=prof: p(x / a[0])))
-        assert k[0] / math.sqrt(math.pi * a[0]) == pytest.approx(_tada_green_k(prof),
-                                                                 rel=0.02, abs=2e-3)
+        assert k[0] / math.sqrt(math.pi * a[0]) == pytest.approx(
+            _tada_green_k(prof), rel=0.02, abs=2e-3
+        )
 
 
 # Glinka & Shen (1991) / Shen & Glinka (1991) closed forms for point A (from memory), with Y
@@ -136,8 +147,9 @@ def test_point_a_coefficients_closed_form():
     y0, y1 = 1.3, 0.55
     m = glinka_shen_coefficients(y0, y1, DEEPEST)
     c = math.pi / math.sqrt(2)
-    np.testing.assert_allclose(m, [c * (4 * y0 - 6 * y1) - 4.8, 3.0,
-                                   c * (12 * y1 - 6 * y0) + 1.6], rtol=1e-13)
+    np.testing.assert_allclose(
+        m, [c * (4 * y0 - 6 * y1) - 4.8, 3.0, c * (12 * y1 - 6 * y0) + 1.6], rtol=1e-13
+    )
 
 
 def test_point_b_weight_function_vanishes_at_the_far_end():
@@ -158,17 +170,20 @@ def test_surface_crack_reproduces_newman_raju_tension_and_bending(point, ac):
     t, width = 20.0, 400.0
     a = np.array([0.5, 4.0, 10.0, 16.0])
     c = a / ac
-    kfun = (surface_crack_plate.k_over_s if point == DEEPEST
-            else surface_crack_plate.k_over_s_surface)
+    kfun = (
+        surface_crack_plate.k_over_s if point == DEEPEST else surface_crack_plate.k_over_s_surface
+    )
     k_t = surface_crack_k(a, c, t, uniform, width=width, point=point)
     ref_t = np.array([kfun(ai, _p_surface(ci, t, width)) for ai, ci in zip(a, c, strict=True)])
     np.testing.assert_allclose(k_t, ref_t, rtol=5e-3)
     np.testing.assert_allclose(k_t, ref_t, rtol=1e-12)
     # pure bending σ_b(1 − 2x/t): Newman–Raju K = (S + HβS)√(πa/Q)F with S → 0 via β-split
-    k_b = surface_crack_k(a, c, t, StressProfile("polynomial", coefficients=(1.0, -2.0)),
-                          width=width, point=point)
-    ref_tb = np.array([kfun(ai, _p_surface(ci, t, width, 1.0))
-                       for ai, ci in zip(a, c, strict=True)])
+    k_b = surface_crack_k(
+        a, c, t, StressProfile("polynomial", coefficients=(1.0, -2.0)), width=width, point=point
+    )
+    ref_tb = np.array(
+        [kfun(ai, _p_surface(ci, t, width, 1.0)) for ai, ci in zip(a, c, strict=True)]
+    )
     np.testing.assert_allclose(k_b, ref_tb - ref_t, rtol=1e-11)
 
 
@@ -218,10 +233,12 @@ def test_superposition_is_exact():
     def both(x):
         return s1(x) + s2(x)
 
-    for fn in (lambda s: edge_crack_plate_k(a, 40.0, s),
-               lambda s: edge_crack_semi_infinite_k(a, s),
-               lambda s: surface_crack_k(a, 1.5 * a, 16.0, s, point=DEEPEST),
-               lambda s: surface_crack_k(a, 1.5 * a, 16.0, s, point=SURFACE)):
+    for fn in (
+        lambda s: edge_crack_plate_k(a, 40.0, s),
+        lambda s: edge_crack_semi_infinite_k(a, s),
+        lambda s: surface_crack_k(a, 1.5 * a, 16.0, s, point=DEEPEST),
+        lambda s: surface_crack_k(a, 1.5 * a, 16.0, s, point=SURFACE),
+    ):
         np.testing.assert_allclose(fn(both), fn(s1) + fn(s2), rtol=1e-12, atol=1e-10)
 
 
@@ -237,8 +254,9 @@ def test_table_profile_integrates_exactly_between_kinks(point):
     k3 = surface_crack_k(a, 1.2 * a, t, prof, point=point, n_points=3)
     k64 = surface_crack_k(a, 1.2 * a, t, prof, point=point)
     np.testing.assert_allclose(k3, k64, rtol=1e-12)
-    k_blind = surface_crack_k(a, 1.2 * a, t, lambda x: np.interp(x / t, xt, st),
-                              point=point, n_points=4000)
+    k_blind = surface_crack_k(
+        a, 1.2 * a, t, lambda x: np.interp(x / t, xt, st), point=point, n_points=4000
+    )
     np.testing.assert_allclose(k64, k_blind, rtol=1e-6, atol=1e-3)
     ke = edge_crack_plate_k(a, W, prof, n_points=3)
     np.testing.assert_allclose(ke, edge_crack_plate_k(a, W, prof), rtol=1e-12)
@@ -254,11 +272,11 @@ def test_vectorised_grid_of_crack_sizes():
 
 def test_validity_ranges_are_enforced():
     with pytest.raises(ValidityRangeError):
-        edge_crack_plate_k(np.array([46.0]), W, uniform)          # a/W > 0.9
+        edge_crack_plate_k(np.array([46.0]), W, uniform)  # a/W > 0.9
     with pytest.raises(ValidityRangeError):
-        edge_crack_semi_infinite_k(np.array([0.0]), uniform)       # a ≤ 0
+        edge_crack_semi_infinite_k(np.array([0.0]), uniform)  # a ≤ 0
     with pytest.raises(ValidityRangeError):
-        surface_crack_k(np.array([3.0]), np.array([2.0]), 20.0, uniform)   # a/c > 1
+        surface_crack_k(np.array([3.0]), np.array([2.0]), 20.0, uniform)  # a/c > 1
     with pytest.raises(ValidityRangeError):
         surface_crack_k(np.array([17.0]), np.array([30.0]), 20.0, uniform)  # a/t > 0.8
     with pytest.raises(ValidityRangeError):
@@ -266,5 +284,6 @@ def test_validity_ranges_are_enforced():
     with pytest.raises(ValueError, match="deepest"):
         glinka_shen_coefficients(1.0, 0.5, "middle")
     with pytest.raises(ValidityRangeError):
-        edge_crack_semi_infinite_k(np.array([1.0]),
-                                   StressProfile("polynomial", coefficients=(1.0,)))
+        edge_crack_semi_infinite_k(
+            np.array([1.0]), StressProfile("polynomial", coefficients=(1.0,))
+        )

@@ -12,8 +12,9 @@ MPA_SQRT_M = math.sqrt(1000.0)
 
 # ASTM E399 / Srawley (1976) C(T) f(a/W); values from Anderson, Fracture Mechanics 3rd ed. (2005)
 # Table 2.4 (REFERENCE item 1, confirmed)
-@pytest.mark.parametrize("alpha,f", [(0.2, 4.2737), (0.4, 7.2787), (0.5, 9.6591),
-                                     (0.6, 13.654), (0.7, 21.552)])
+@pytest.mark.parametrize(
+    "alpha,f", [(0.2, 4.2737), (0.4, 7.2787), (0.5, 9.6591), (0.6, 13.654), (0.7, 21.552)]
+)
 def test_compact_tension_srawley_e399(alpha, f):
     g = make_geometry("compact-tension", alpha * 50, width=50, thickness=25)
     assert g.k_over_s(alpha * 50) / math.sqrt(50) == pytest.approx(f, rel=2e-4)
@@ -47,8 +48,7 @@ def test_center_crack_plate_worked_value():
     # the same case gives 6.6655·1.18623/1.18921.
     g = make_geometry("center-crack-plate", 25, width=100, thickness=5)
     s = 10e3 * g.nominal_stress_per_force()
-    assert s * g.k_over_s(25) / MPA_SQRT_M == pytest.approx(6.6655 * 1.18623 / 1.18921,
-                                                            rel=1e-4)
+    assert s * g.k_over_s(25) / MPA_SQRT_M == pytest.approx(6.6655 * 1.18623 / 1.18921, rel=1e-4)
 
 
 # Tada SE(T): Anderson Table 2.4 (REFERENCE item 4, confirmed)
@@ -81,8 +81,7 @@ def test_compact_tension_limit_load_epri():
     p_l = g.limit_stress(25, 300.0) * 50 * 10
     assert p_l / (25 * 300.0 * 10) == pytest.approx(0.2361, rel=5e-4)
     g2 = make_geometry("compact-tension", 25, width=50, thickness=10, constraint="plane-stress")
-    assert g2.limit_stress(25, 300.0) / g.limit_stress(25, 300.0) == pytest.approx(
-        1.072 / 1.455)
+    assert g2.limit_stress(25, 300.0) / g.limit_stress(25, 300.0) == pytest.approx(1.072 / 1.455)
 
 
 def test_three_point_bend_limit_load_epri():
@@ -94,18 +93,15 @@ def test_three_point_bend_limit_load_epri():
 
 def test_center_crack_plate_limit_load_net_section():
     # net section (W − 2a)·B·σ_y in plane stress; ×2/√3 in plane strain (EPRI NP-1931)
-    g = make_geometry("center-crack-plate", 20, width=100, thickness=5,
-                      constraint="plane-stress")
+    g = make_geometry("center-crack-plate", 20, width=100, thickness=5, constraint="plane-stress")
     assert g.limit_stress(20, 300.0) * 100 * 5 == pytest.approx(60 * 5 * 300.0)
     h = make_geometry("center-crack-plate", 20, width=100, thickness=5)
-    assert h.limit_stress(20, 300.0) / g.limit_stress(20, 300.0) == pytest.approx(
-        2 / math.sqrt(3))
+    assert h.limit_stress(20, 300.0) / g.limit_stress(20, 300.0) == pytest.approx(2 / math.sqrt(3))
 
 
 def test_edge_crack_plate_limit_load_limits():
     # tension–bending interaction: full section at a → 0, zero at a → W (common practice)
-    g = make_geometry("edge-crack-plate", 1e-9, width=50, thickness=5,
-                      constraint="plane-stress")
+    g = make_geometry("edge-crack-plate", 1e-9, width=50, thickness=5, constraint="plane-stress")
     assert g.limit_stress(1e-9, 300.0) == pytest.approx(300.0, rel=1e-6)
     # rectangular section under N and M = N·a/2: M/M0 + (N/N0)² = 1 (plastic interaction)
     a, w, sy = 20.0, 50.0, 300.0
@@ -116,14 +112,19 @@ def test_edge_crack_plate_limit_load_limits():
 
 
 def test_six_shapes_registered():
-    assert set(SHAPES) >= {"center-crack-infinite-plate", "center-crack-plate",
-                           "edge-crack-plate", "edge-crack-semi-infinite", "compact-tension",
-                           "three-point-bend"}
+    assert set(SHAPES) >= {
+        "center-crack-infinite-plate",
+        "center-crack-plate",
+        "edge-crack-plate",
+        "edge-crack-semi-infinite",
+        "compact-tension",
+        "three-point-bend",
+    }
 
 
 def test_outside_validity_is_an_error():
     with pytest.raises(CycjInputError, match="validity"):
-        make_geometry("compact-tension", 5, width=50, thickness=10)   # a/W = 0.1 < 0.2
+        make_geometry("compact-tension", 5, width=50, thickness=10)  # a/W = 0.1 < 0.2
     g = make_geometry("compact-tension", 25, width=50, thickness=10)
     with pytest.raises(ValidityRangeError):
         g.k_over_s(49.0)

@@ -7,9 +7,16 @@ from cycj.errors import ValidityRangeError
 from cycj.growth import from_delta_k
 
 
-@pytest.mark.parametrize("alpha,r,so", [(1.0, 0.0, 0.4767), (3.0, 0.0, 0.2454),
-                                        (2.0, 0.1, 0.3422), (2.0, 0.5, 0.5481),
-                                        (2.0, -1.0, 0.2438)])
+@pytest.mark.parametrize(
+    "alpha,r,so",
+    [
+        (1.0, 0.0, 0.4767),
+        (3.0, 0.0, 0.2454),
+        (2.0, 0.1, 0.3422),
+        (2.0, 0.5, 0.5481),
+        (2.0, -1.0, 0.2438),
+    ],
+)
 def test_newman_1984_opening_ratio(alpha, r, so):
     # Newman, Int. J. Fract. 24 (1984) R131, S_max/σ0 = 0.3 (REFERENCE 12, from memory)
     assert G.newman_closure(r, 0.3, alpha) == pytest.approx(so, abs=1e-4)
@@ -45,7 +52,7 @@ def test_opening_fraction_conventions():
 def test_delta_k_law_conversion_exact():
     # ΔJ = ΔK²/E' (Rice 1968): the converted law gives the same rate at the matching ΔK
     e_prime = 219780.0
-    law = from_delta_k(5.21e-13, 3.0, e_prime, 63.0)   # BS 7910 simplified law, N·mm^-3/2
+    law = from_delta_k(5.21e-13, 3.0, e_prime, 63.0)  # BS 7910 simplified law, N·mm^-3/2
     dk = 600.0
     dj = dk**2 / e_prime
     assert law.rate(dj) == pytest.approx(5.21e-13 * dk**3, rel=1e-12)

@@ -42,8 +42,7 @@ def test_small_crack_dowling_check_value():
 def test_small_crack_elastic_limit():
     # DESIGN limit: with no plastic strain the estimate is its own elastic term 1.6·Δσ²·a/E
     m = Material(200e3, 0.3, 350.0, None, StressStrainCurve(1e9, 0.15))
-    assert J.small_crack_delta_j(2.0, 300.0, m) == pytest.approx(1.6 * 300**2 * 2 / 200e3,
-                                                                 rel=1e-9)
+    assert J.small_crack_delta_j(2.0, 300.0, m) == pytest.approx(1.6 * 300**2 * 2 / 200e3, rel=1e-9)
 
 
 def test_reference_stress_limits():
@@ -52,7 +51,8 @@ def test_reference_stress_limits():
     dsig = 300.0
     lr_cyc = J.lr_cyclic(dsig, m.cyclic_curve)
     assert J.reference_stress_delta_j(10.0, dsig, m) == pytest.approx(
-        10.0 * (1 + 0.5 * lr_cyc**2), rel=1e-9)
+        10.0 * (1 + 0.5 * lr_cyc**2), rel=1e-9
+    )
     m2 = mat()
     assert J.reference_stress_delta_j(10.0, 1e-9, m2) == pytest.approx(10.0, rel=1e-9)
     assert J.reference_stress_delta_j(10.0, 0.0, m2) == 10.0
@@ -118,7 +118,7 @@ def test_ainsworth_ramberg_osgood_check_values():
     m = Material(e, 0.3, sy, 470.0, None, curve, 100.0)
     assert J.fad_option2(0.5, m) == pytest.approx(0.92052, abs=1e-5)
     assert J.fad_option2(1.0, m) == pytest.approx(2 / 3, abs=1e-4)
-    assert m.lr_max == pytest.approx(1.1620, abs=1e-4)   # (355 + 470)/(2·355)
+    assert m.lr_max == pytest.approx(1.1620, abs=1e-4)  # (355 + 470)/(2·355)
 
 
 def test_j_max_tends_to_elastic_at_small_load():

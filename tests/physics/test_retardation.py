@@ -9,7 +9,7 @@ def test_wheeler_kłysz_check():
     # Wheeler (1972) as written in Kłysz, JTAM 39(4) (2001) Eq. (1.1) (REFERENCE 17, confirmed):
     # r_i = 0.2, a_OL = 10, r_OL = 1, a_i = 10.3 mm, m = 1.5 → C_p = 0.15272
     assert wheeler(0.2, 10.3, 10.0, 1.0, 1.5) == pytest.approx(0.15272, abs=1e-5)
-    assert wheeler(0.2, 10.9, 10.0, 1.0, 1.5) == 1.0      # current zone past the boundary
+    assert wheeler(0.2, 10.9, 10.0, 1.0, 1.5) == 1.0  # current zone past the boundary
 
 
 def test_willenborg_check_value():

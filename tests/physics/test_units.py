@@ -9,8 +9,9 @@ from cycj.units import FAST_UNITS, INTERNAL, registry, to_internal
 @pytest.mark.parametrize("unit", sorted(FAST_UNITS))
 def test_fast_table_agrees_with_pint(unit):
     kind, factor = FAST_UNITS[unit]
-    q = registry().Quantity(1.0, unit.replace("^", "**").replace("√m", "*m**0.5")
-                            .replace("sqrt(m)", "m**0.5"))
+    q = registry().Quantity(
+        1.0, unit.replace("^", "**").replace("√m", "*m**0.5").replace("sqrt(m)", "m**0.5")
+    )
     assert q.to(INTERNAL[kind][0]).magnitude == pytest.approx(factor, rel=1e-12)
 
 

@@ -12,13 +12,13 @@ import math
 
 import numpy as np
 
-E_PRIME = 200_000.0                      # MPa (plane stress)
-C_K = 1.648e-8 / 1000.0**1.5             # mm/cycle per (MPa√mm)^3 (REFERENCE 13, from memory)
-M_J = 1.5                                # m_K/2
-C_J = C_K * E_PRIME**M_J                 # mm/cycle per (kJ/m²)^1.5
-DSIGMA = 100.0                           # MPa, R = 0
+E_PRIME = 200_000.0  # MPa (plane stress)
+C_K = 1.648e-8 / 1000.0**1.5  # mm/cycle per (MPa√mm)^3 (REFERENCE 13, from memory)
+M_J = 1.5  # m_K/2
+C_J = C_K * E_PRIME**M_J  # mm/cycle per (kJ/m²)^1.5
+DSIGMA = 100.0  # MPa, R = 0
 SIGMA_MAX = 100.0
-J_C = 12.0                               # kJ/m² → a_c = 76.4 mm at s = t = 1
+J_C = 12.0  # kJ/m² → a_c = 76.4 mm at s = t = 1
 
 
 def b_coef(s=1.0):

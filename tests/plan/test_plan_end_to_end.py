@@ -72,8 +72,9 @@ def test_deterministic_interval_closed_form():
     assert d["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=1e-3)
     assert d["interval_hours"] == pytest.approx(d["interval_cycles"] * 10 / 3600)
     assert [r["inspection"] for r in d["schedule"]] == [1, 2, 3, 4]
-    assert d["schedule"][0]["a_mm"] == pytest.approx(cf.size_after(1.0, d["interval_cycles"]),
-                                                     rel=1e-3)
+    assert d["schedule"][0]["a_mm"] == pytest.approx(
+        cf.size_after(1.0, d["interval_cycles"]), rel=1e-3
+    )
 
 
 def test_plan_inspections_with_life_engine(case13):
@@ -89,12 +90,11 @@ def test_plan_inspections_with_life_engine(case13):
     from scipy.special import ndtr
 
     p = 1 - ndtr(math.log(4.714e5 / 1e6) / 0.3)
-    assert s["no_inspection"]["pof"] == pytest.approx(p, abs=4 * s["no_inspection"]
-                                                      ["std_error"] + 2e-3)
-    assert set(s) >= {"deterministic", "no_inspection", "what_if",
-                      "recommended_interval_cycles"}
-    assert list(r.what_if.columns[:4]) == ["interval_cycles", "pof", "std_error",
-                                           "detections_mean"]
+    assert s["no_inspection"]["pof"] == pytest.approx(
+        p, abs=4 * s["no_inspection"]["std_error"] + 2e-3
+    )
+    assert set(s) >= {"deterministic", "no_inspection", "what_if", "recommended_interval_cycles"}
+    assert list(r.what_if.columns[:4]) == ["interval_cycles", "pof", "std_error", "detections_mean"]
 
 
 def test_dask_path_equals_in_process():
@@ -103,24 +103,36 @@ def test_dask_path_equals_in_process():
     from test_plan_montecarlo import closed_table
 
     tab = closed_table(s)
-    inp = PlanInputs(pod=pod_from_a50("lognormal", 2.0, 0.4), design_life=1e6,
-                     detectable_size=3.0, detectable_source="test", intervals=(1e5, 2e5),
-                     samples=3000, seed=11, target_pof=1e-2, max_inspections=20,
-                     chunk_size=1000, scatter=s)
+    inp = PlanInputs(
+        pod=pod_from_a50("lognormal", 2.0, 0.4),
+        design_life=1e6,
+        detectable_size=3.0,
+        detectable_source="test",
+        intervals=(1e5, 2e5),
+        samples=3000,
+        seed=11,
+        target_pof=1e-2,
+        max_inspections=20,
+        chunk_size=1000,
+        scatter=s,
+    )
     local = probabilistic_plan(tab, inp)
-    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False,
-                                  dashboard_address=None) as cluster:
+    with distributed.LocalCluster(
+        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=None
+    ) as cluster:
         remote = probabilistic_plan(tab, inp, scheduler=cluster.scheduler_address)
     assert remote["what_if"] == local["what_if"]
     assert remote["no_inspection"] == local["no_inspection"]
     assert remote["recommended_interval_cycles"] == local["recommended_interval_cycles"]
-    assert np.array_equal(remote["cumulative"]["no_inspection"],
-                          local["cumulative"]["no_inspection"])
+    assert np.array_equal(
+        remote["cumulative"]["no_inspection"], local["cumulative"]["no_inspection"]
+    )
 
 
 def _cli(*args):
-    return subprocess.run([sys.executable, "-m", "cycj", *args], capture_output=True,
-                          text=True, cwd=ROOT, timeout=300)
+    return subprocess.run(
+        [sys.executable, "-m", "cycj", *args], capture_output=True, text=True, cwd=ROOT, timeout=300
+    )
 
 
 def test_cli_plan_writes_outputs(case13, tmp_path):
@@ -131,8 +143,14 @@ def test_cli_plan_writes_outputs(case13, tmp_path):
     assert plan["deterministic"]["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=2e-3)
     for w in plan["what_if"]:
         assert set(w) >= {"interval_cycles", "pof", "std_error", "detections_mean"}
-    for f in ("what_if.csv", "schedule.csv", "pof_vs_interval.png", "cumulative_pof.png",
-              "crack_envelope.png", "report.html"):
+    for f in (
+        "what_if.csv",
+        "schedule.csv",
+        "pof_vs_interval.png",
+        "cumulative_pof.png",
+        "crack_envelope.png",
+        "report.html",
+    ):
         assert (out / f).is_file()
     assert "not replace" in (out / "report.html").read_text()
     again = _cli("plan", str(case13.path), "--out", str(out))
@@ -153,7 +171,7 @@ def test_cli_pod_examples(tmp_path):
     assert r.returncode == 0, r.stderr
     s = json.loads(r.stdout)
     assert s["a90_95_mm"] > s["a90_mm"] > s["a50_mm"] > 0
-    assert s["pod_toml"].startswith("pod = { model = \"loglogistic\"")
+    assert s["pod_toml"].startswith('pod = { model = "loglogistic"')
     out = tmp_path / "pod"
     r = _cli("pod", "examples/pod_signal_response.csv", "--out", str(out))
     assert r.returncode == 0, r.stderr
@@ -171,11 +189,13 @@ def test_cli_pod_examples(tmp_path):
 def test_cracks_below_threshold_are_raised_to_the_growing_size(tmp_path):
     # ΔK_th = 3 MPa√m: a_th = (3/100)²·1000/π = 0.2865 mm at Δσ = 100 MPa (K = S√(πa),
     # Tada–Paris–Irwin); smaller initial cracks are treated as a_th (conservative)
-    text = CASE_13.replace('driving_unit = "MPa*m**0.5" }',
-                           'driving_unit = "MPa*m**0.5", threshold = "3 MPa*m**0.5" }')
-    text = text.replace('growth_C = { distribution = "lognormal", sigma = 0.3 }',
-                        'initial_crack = { distribution = "lognormal", median = "0.4 mm", '
-                        'sigma = 0.5 }')
+    text = CASE_13.replace(
+        'driving_unit = "MPa*m**0.5" }', 'driving_unit = "MPa*m**0.5", threshold = "3 MPa*m**0.5" }'
+    )
+    text = text.replace(
+        'growth_C = { distribution = "lognormal", sigma = 0.3 }',
+        'initial_crack = { distribution = "lognormal", median = "0.4 mm", sigma = 0.5 }',
+    )
     p = tmp_path / "thr.toml"
     p.write_text(text)
     s = plan_inspections(load_case(p)).summary

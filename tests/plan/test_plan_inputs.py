@@ -44,34 +44,52 @@ def test_detectable_size_defaults_to_a90_or_a90_95(case):
     c = with_inspection(case, detectable_size=None)
     inp = read_inspection(c)
     assert inp.detectable_size == pytest.approx(inp.pod.a90)
-    c = with_inspection(case, detectable_size=None,
-                        pod={"model": "loglogistic", "a50": "2 mm", "sigma": 0.2,
-                             "a90_95": "3.9 mm"})
+    c = with_inspection(
+        case,
+        detectable_size=None,
+        pod={"model": "loglogistic", "a50": "2 mm", "sigma": 0.2, "a90_95": "3.9 mm"},
+    )
     inp = read_inspection(c)
     assert inp.detectable_size == pytest.approx(3.9) and "a90/95" in inp.detectable_source
 
 
-@pytest.mark.parametrize("changes, words", [
-    ({"safty_factor": 2}, "did you mean 'safety_factor'"),
-    ({"pod": {"model": "lognormal", "a50": "2 mm"}}, "inspection.pod.sigma"),
-    ({"pod": {"model": "gaussian", "a50": "2 mm", "sigma": 0.3}}, "unknown value"),
-    ({"pod": {"a50": "2 mm", "a90": "3 mm", "sigma": 0.3}}, "exactly one of a50 and a90"),
-    ({"pod": {"a50": "2 kg", "sigma": 0.3}}, "inspection.pod.a50"),
-    ({"repair": "replace"}, "inspection.repair"),
-    ({"target_pof": 2.0}, "inspection.target_pof"),
-    ({"intervals": [1e5, -3]}, "inspection.intervals"),
-    ({"schedule": [2e5, 3e6]}, "within the design life"),
-    ({"design_life": None}, "inspection.design_life"),
-    ({"scatter": {"growth_c": {"distribution": "lognormal", "sigma": 0.3}}},
-     "did you mean 'growth_C'"),
-    ({"scatter": {"toughness": {"distribution": "lognormal", "sd": 0.3}}},
-     "needs exactly one spread"),
-    ({"scatter": {"toughness": {"distribution": "gamma", "cov": 0.1}}},
-     "inspection.scatter.toughness.distribution"),
-    ({"findings": [{"cycles": 2e5, "result": "found"}]}, "inspection.findings[0].size"),
-    ({"findings": [{"cycles": 3e5, "result": "not-found"},
-                   {"cycles": 2e5, "result": "not-found"}]}, "time order"),
-])
+@pytest.mark.parametrize(
+    "changes, words",
+    [
+        ({"safty_factor": 2}, "did you mean 'safety_factor'"),
+        ({"pod": {"model": "lognormal", "a50": "2 mm"}}, "inspection.pod.sigma"),
+        ({"pod": {"model": "gaussian", "a50": "2 mm", "sigma": 0.3}}, "unknown value"),
+        ({"pod": {"a50": "2 mm", "a90": "3 mm", "sigma": 0.3}}, "exactly one of a50 and a90"),
+        ({"pod": {"a50": "2 kg", "sigma": 0.3}}, "inspection.pod.a50"),
+        ({"repair": "replace"}, "inspection.repair"),
+        ({"target_pof": 2.0}, "inspection.target_pof"),
+        ({"intervals": [1e5, -3]}, "inspection.intervals"),
+        ({"schedule": [2e5, 3e6]}, "within the design life"),
+        ({"design_life": None}, "inspection.design_life"),
+        (
+            {"scatter": {"growth_c": {"distribution": "lognormal", "sigma": 0.3}}},
+            "did you mean 'growth_C'",
+        ),
+        (
+            {"scatter": {"toughness": {"distribution": "lognormal", "sd": 0.3}}},
+            "needs exactly one spread",
+        ),
+        (
+            {"scatter": {"toughness": {"distribution": "gamma", "cov": 0.1}}},
+            "inspection.scatter.toughness.distribution",
+        ),
+        ({"findings": [{"cycles": 2e5, "result": "found"}]}, "inspection.findings[0].size"),
+        (
+            {
+                "findings": [
+                    {"cycles": 3e5, "result": "not-found"},
+                    {"cycles": 2e5, "result": "not-found"},
+                ]
+            },
+            "time order",
+        ),
+    ],
+)
 def test_bad_keys_give_one_line_errors(case, changes, words):
     with pytest.raises(CycjInputError) as exc:
         read_inspection(with_inspection(case, **changes))
@@ -80,9 +98,13 @@ def test_bad_keys_give_one_line_errors(case, changes, words):
 
 
 def test_weibull_and_normal_distributions(case):
-    c = with_inspection(case, scatter={
-        "toughness": {"distribution": "weibull", "cov": 0.1},
-        "initial_crack": {"distribution": "normal", "mean": "1 mm", "sd": "0.5 mm"}})
+    c = with_inspection(
+        case,
+        scatter={
+            "toughness": {"distribution": "weibull", "cov": 0.1},
+            "initial_crack": {"distribution": "normal", "mean": "1 mm", "sd": "0.5 mm"},
+        },
+    )
     inp = read_inspection(c)
     tough = inp.scatter.toughness
     assert tough.kind == "weibull" and tough.median == pytest.approx(1.0, rel=1e-9)
@@ -91,7 +113,7 @@ def test_weibull_and_normal_distributions(case):
     draws = inp.scatter.sample(np.random.default_rng(0), 20000)
     x = draws["toughness_factor"]
     assert x.min() > 0 and x.std() / x.mean() == pytest.approx(0.1, rel=0.05)
-    assert draws["a0_mm"].min() > 0           # truncated at zero
+    assert draws["a0_mm"].min() > 0  # truncated at zero
 
 
 def test_weibull_shape_from_cov():
@@ -102,11 +124,19 @@ def test_weibull_shape_from_cov():
 
 
 def test_findings_read(case):
-    c = with_inspection(case, findings=[
-        {"cycles": 2e5, "result": "not-found"},
-        {"cycles": 3e5, "result": "found", "size": "4 mm",
-         "pod": {"model": "loglogistic", "a90": "2 mm", "sigma": 0.2}}])
+    c = with_inspection(
+        case,
+        findings=[
+            {"cycles": 2e5, "result": "not-found"},
+            {
+                "cycles": 3e5,
+                "result": "found",
+                "size": "4 mm",
+                "pod": {"model": "loglogistic", "a90": "2 mm", "sigma": 0.2},
+            },
+        ],
+    )
     f = read_inspection(c).findings
     assert not f[0].found and f[1].found
-    assert f[1].sizing_sd_mm == pytest.approx(0.4)      # default 10 % of the size
+    assert f[1].sizing_sd_mm == pytest.approx(0.4)  # default 10 % of the size
     assert f[1].pod.a90 == pytest.approx(2.0)

@@ -25,15 +25,29 @@ def closed_table(scatter: sc.Scatter, a_min=0.05):
     loads = factor_grid(scatter.load_scale, 7)
     tough = factor_grid(scatter.toughness, 5)
     t_max = float(tough.max())
-    return build_table(lambda a, s: cf.growth_curve(a, s, t_max),
-                       lambda s, t: cf.critical_size(s, t), a_min, loads, tough)
+    return build_table(
+        lambda a, s: cf.growth_curve(a, s, t_max),
+        lambda s, t: cf.critical_size(s, t),
+        a_min,
+        loads,
+        tough,
+    )
 
 
 def inputs(scatter, pod=None, **kw):
-    base = dict(pod=pod or pod_from_a50("lognormal", 2.0, 0.4), design_life=1.0e6,
-                detectable_size=3.0, detectable_source="test", intervals=(5e4, 1e5),
-                samples=20000, seed=3, target_pof=1e-2, max_inspections=40, chunk_size=5000,
-                scatter=scatter)
+    base = dict(
+        pod=pod or pod_from_a50("lognormal", 2.0, 0.4),
+        design_life=1.0e6,
+        detectable_size=3.0,
+        detectable_source="test",
+        intervals=(5e4, 1e5),
+        samples=20000,
+        seed=3,
+        target_pof=1e-2,
+        max_inspections=40,
+        chunk_size=5000,
+        scatter=scatter,
+    )
     base.update(kw)
     return PlanInputs(**base)
 
@@ -42,7 +56,7 @@ def test_life_coordinate_table_matches_closed_form():
     # Paris law, centre crack, infinite plate: N(a0 → a) closed form (REFERENCE 13, from memory)
     s = sc.Scatter(load_scale=sc.lognormal(1.0, 0.1), initial_crack=sc.fixed(1.0))
     tab = closed_table(s)
-    load = np.array([0.83, 1.0, 1.17])            # off the grid points
+    load = np.array([0.83, 1.0, 1.17])  # off the grid points
     k, w = tab.load_position(load)
     la = np.log(np.array([1.0, 4.0, 20.0]))
     got = tab.phi(la, k, w)
@@ -69,8 +83,9 @@ def test_no_inspection_pof_equals_lognormal_closed_form():
     s = sc.Scatter(growth_C=sc.lognormal(1.0, sigma), initial_crack=sc.fixed(1.0))
     inp = inputs(s)
     tab = closed_table(s)
-    spec = McSpec(tab, s, inp.pod, inp.design_life, inp.samples, inp.seed, n_max=1,
-                  chunk_size=inp.chunk_size)
+    spec = McSpec(
+        tab, s, inp.pod, inp.design_life, inp.samples, inp.seed, n_max=1, chunk_size=inp.chunk_size
+    )
     arr, n = pack_schedules([[]], 1)
     res = summarise(Runner().run(spec, arr, n))
     life = cf.cycles(1.0, cf.critical_size())
@@ -86,14 +101,14 @@ def test_no_inspection_pof_equals_lognormal_closed_form():
 def test_perfect_detection_gives_zero_and_no_detection_gives_no_inspection_value():
     s = sc.Scatter(growth_C=sc.lognormal(1.0, 0.3), initial_crack=sc.lognormal(1.0, 0.3))
     tab = closed_table(s)
-    sure = pod_from_a50("lognormal", 0.01, 0.01)      # POD = 1 above 0.05 mm
-    never = pod_from_a50("lognormal", 1e6, 0.1)       # POD = 0 at any real size
+    sure = pod_from_a50("lognormal", 0.01, 0.01)  # POD = 1 above 0.05 mm
+    never = pod_from_a50("lognormal", 1e6, 0.1)  # POD = 0 at any real size
     for pod, expect_zero in ((sure, True), (never, False)):
         spec = McSpec(tab, s, pod, 1e6, 5000, 1, n_max=100, chunk_size=2500)
         arr, n = pack_schedules([[], uniform_schedule(1e4, 1e6)], 100)
         res = summarise(Runner().run(spec, arr, n))
-        assert res["pof"][0] > 0.05                      # the no-inspection value is not small
-        if expect_zero:   # interval 1e4 ≪ shortest life (> 1e5 cycles here)
+        assert res["pof"][0] > 0.05  # the no-inspection value is not small
+        if expect_zero:  # interval 1e4 ≪ shortest life (> 1e5 cycles here)
             assert res["pof"][1] == 0.0
             assert res["detections_mean"][1] > 90
         else:
@@ -110,14 +125,17 @@ def test_remove_repair_and_seed_reproducibility():
         spec = McSpec(tab, s, pod, 1e6, 4000, seed, repair, n_max=10, chunk_size=1000)
         arr, n = pack_schedules([uniform_schedule(1e5, 1e6)], 10)
         out.append(summarise(Runner().run(spec, arr, n))["pof"][0])
-    assert out[0] == out[1]            # same seed → same answer
-    assert out[2] <= out[0]            # a removed crack cannot fail later
+    assert out[0] == out[1]  # same seed → same answer
+    assert out[2] <= out[0]  # a removed crack cannot fail later
     assert out[3] != out[0]
 
 
 def test_probabilistic_plan_search_and_hazard():
-    s = sc.Scatter(growth_C=sc.lognormal(1.0, 0.3), initial_crack=sc.lognormal(0.5, 0.5),
-                   toughness=sc.lognormal(1.0, 0.1))
+    s = sc.Scatter(
+        growth_C=sc.lognormal(1.0, 0.3),
+        initial_crack=sc.lognormal(0.5, 0.5),
+        toughness=sc.lognormal(1.0, 0.1),
+    )
     inp = inputs(s, samples=6000, target_pof=5e-3, schedule=(3e5, 6e5))
     r = probabilistic_plan(closed_table(s), inp)
     rec = r["recommended_interval_cycles"]
@@ -142,8 +160,15 @@ def test_finding_of_a_sized_crack_fixes_the_remaining_life():
     rest = cf.cycles(5.0, cf.critical_size())
     found = Finding(2e5, True, pod, 5.0, 0.02)
     for frac, expect in ((0.9, 0.0), (1.1, 1.0)):
-        inp = inputs(s, pod=pod, design_life=2e5 + frac * rest, intervals=(5e4,),
-                     findings=(found,), samples=4000, chunk_size=2000)
+        inp = inputs(
+            s,
+            pod=pod,
+            design_life=2e5 + frac * rest,
+            intervals=(5e4,),
+            findings=(found,),
+            samples=4000,
+            chunk_size=2000,
+        )
         r = probabilistic_plan(tab, inp)
         assert r["no_inspection"]["pof"] == pytest.approx(expect, abs=1e-3)
         assert r["start_cycles"] == 2e5
@@ -155,8 +180,9 @@ def test_not_found_lowers_the_probability_of_failure():
     pod = pod_from_a50("lognormal", 2.0, 0.3)
     base = probabilistic_plan(tab, inputs(s, pod=pod, intervals=(1e5,), samples=4000))
     miss = Finding(1e5, False, pod)
-    upd = probabilistic_plan(tab, inputs(s, pod=pod, intervals=(1e5,), samples=4000,
-                                         findings=(miss,)))
+    upd = probabilistic_plan(
+        tab, inputs(s, pod=pod, intervals=(1e5,), samples=4000, findings=(miss,))
+    )
     # the prior probability of failing after 1e5 cycles, with nothing found at 1e5, is lower
     assert upd["no_inspection"]["pof"] < base["no_inspection"]["pof"]
     assert upd["effective_samples"] < 4000

@@ -14,8 +14,7 @@ from cycj.spectrum.reversals import block_reversals
 # ASTM E1049-85 Fig. 6 example history, points A..I (REFERENCE.md item 7, [M]: from memory)
 ASTM_E1049_FIG6 = [-2.0, 1.0, -3.0, 5.0, -1.0, 3.0, -4.0, 4.0, -2.0]
 # from memory (REFERENCE.md item 7): cycles counted per range, §5.4.4
-ASTM_E1049_TABLE = {10: 0.0, 9: 0.5, 8: 1.0, 7: 0.0, 6: 0.5, 5: 0.0, 4: 1.5, 3: 0.5, 2: 0.0,
-                    1: 0.0}
+ASTM_E1049_TABLE = {10: 0.0, 9: 0.5, 8: 1.0, 7: 0.0, 6: 0.5, 5: 0.0, 4: 1.5, 3: 0.5, 2: 0.0, 1: 0.0}
 # from memory (REFERENCE.md item 7): §5.4.5 repeating history started at D
 ASTM_E1049_REPEAT = {9: 1.0, 7: 1.0, 4: 1.0, 3: 1.0}
 
@@ -84,7 +83,8 @@ def _multiset(rows):
 
 
 histories = st.lists(st.integers(min_value=-20, max_value=20), min_size=3, max_size=60).map(
-    lambda xs: np.array(xs, dtype=float) / 4.0)
+    lambda xs: np.array(xs, dtype=float) / 4.0
+)
 
 
 @settings(max_examples=300, deadline=None)
@@ -92,8 +92,9 @@ histories = st.lists(st.integers(min_value=-20, max_value=20), min_size=3, max_s
 def test_matches_rainflow_package_oracle(x):
     # oracle: PyPI `rainflow` 3.2 (general-purpose ASTM E1049 §5.4.4 implementation)
     ours = count_cycles(x)
-    oracle = [(r, m, c) for r, m, c, _, _ in rainflow.extract_cycles(x.tolist())
-              if r > 0]  # `rainflow` reports a constant history as one zero-range half cycle
+    oracle = [
+        (r, m, c) for r, m, c, _, _ in rainflow.extract_cycles(x.tolist()) if r > 0
+    ]  # `rainflow` reports a constant history as one zero-range half cycle
     got = zip(ours["range"], ours["mean"], ours["count"], strict=True)
     assert _multiset(got) == _multiset(oracle)
 

@@ -19,16 +19,22 @@ def _write(tmp_path, name, text):
 
 @pytest.mark.parametrize("sep", [",", ";", "\t", " ", "|"])
 def test_sniffs_delimiter_header_and_comments(tmp_path, sep):
-    text = ("# invented demo history\n# unit: kN\n"
-            f"time_s{sep}load{sep}strain\n"
-            + "".join(f"{0.1 * i:.1f}{sep}{v}{sep}{2 * v}\n" for i, v in enumerate([0, 5, 1, 4]))
-            + "# trailing comment\n")
+    text = (
+        "# invented demo history\n# unit: kN\n"
+        f"time_s{sep}load{sep}strain\n"
+        + "".join(f"{0.1 * i:.1f}{sep}{v}{sep}{2 * v}\n" for i, v in enumerate([0, 5, 1, 4]))
+        + "# trailing comment\n"
+    )
     p = _write(tmp_path, "h.csv", text)
     values, times = read_history_with_time(p)
     assert values.tolist() == [0.0, 5.0, 1.0, 4.0]  # first non-time column
     assert times == pytest.approx([0.0, 0.1, 0.2, 0.3], abs=1e-12)
     assert read_history(p, column="STRAIN", unit_factor=1000.0, scale=0.5).tolist() == [
-        0.0, 5000.0, 1000.0, 4000.0]
+        0.0,
+        5000.0,
+        1000.0,
+        4000.0,
+    ]
     assert read_history(p, column=2).tolist() == [0.0, 10.0, 2.0, 8.0]
 
 
@@ -103,6 +109,7 @@ def test_history_unit():
 
 # ---------------------------------------------------------------- the command
 
+
 def _run(args, capsys):
     with pytest.raises(SystemExit) as ex:
         main(args)
@@ -119,8 +126,9 @@ def test_count_command_astm_example(tmp_path, capsys):
     assert (s["samples"], s["reversals"], s["full_cycles"], s["half_cycles"]) == (9, 9, 1, 6)
     assert s["cycles"] == pytest.approx(4.0, abs=1e-12)
     assert s["largest_range"] == pytest.approx(9.0, abs=1e-12)
-    code, out, _ = _run(["count", str(p), "--repeat", "--unit", "kN", "--gate", "3.5 kN",
-                         "--json"], capsys)
+    code, out, _ = _run(
+        ["count", str(p), "--repeat", "--unit", "kN", "--gate", "3.5 kN", "--json"], capsys
+    )
     s = json.loads(out)
     # repeating variant: full cycles of 9, 7, 4 (3 is below the 3.5 kN gate)
     assert (s["full_cycles"], s["half_cycles"], s["unit"]) == (3, 0, "N")
@@ -131,13 +139,24 @@ def test_count_command_outputs_and_refusal(tmp_path, capsys):
     x = np.tile([0.0, 10.0, 2.0, 8.0], 50)
     np.save(tmp_path / "h.npy", x)
     out_dir = tmp_path / "out"
-    code, out, _ = _run(["count", str(tmp_path / "h.npy"), "--out", str(out_dir),
-                         "--bins", "8"], capsys)
+    code, out, _ = _run(
+        ["count", str(tmp_path / "h.npy"), "--out", str(out_dir), "--bins", "8"], capsys
+    )
     assert code == 0 and "largest range: 10" in out
     names = sorted(p.name for p in out_dir.iterdir())
-    assert names == sorted(["cycles.csv", "range_mean_matrix.csv", "from_to_matrix.csv",
-                            "exceedance.csv", "history.png", "exceedance.png",
-                            "rainflow_matrix.png", "count.json", "report.html"])
+    assert names == sorted(
+        [
+            "cycles.csv",
+            "range_mean_matrix.csv",
+            "from_to_matrix.csv",
+            "exceedance.csv",
+            "history.png",
+            "exceedance.png",
+            "rainflow_matrix.png",
+            "count.json",
+            "report.html",
+        ]
+    )
     import pandas as pd
 
     table = pd.read_csv(out_dir / "cycles.csv")
@@ -145,17 +164,19 @@ def test_count_command_outputs_and_refusal(tmp_path, capsys):
     assert table["count"].sum() == pytest.approx(count_cycles(x)["count"].sum(), abs=1e-12)
     code, _, err = _run(["count", str(tmp_path / "h.npy"), "--out", str(out_dir)], capsys)
     assert code == 2 and "not empty" in err and len(err.strip().splitlines()) == 1
-    code, _, _ = _run(["count", str(tmp_path / "h.npy"), "--out", str(out_dir), "--force"],
-                      capsys)
+    code, _, _ = _run(["count", str(tmp_path / "h.npy"), "--out", str(out_dir), "--force"], capsys)
     assert code == 0
 
 
-@pytest.mark.parametrize(("text", "args", "fragment"), [
-    ("load\n1\nabc\n", [], "bad.csv:3"),
-    ("load\n1\n2\n", ["--column", "force"], "'load'"),
-    ("load\n1\n2\n", ["--unit", "mm"], "force or stress"),
-    ("load\n1\n2\n", ["--gate", "-1"], "gate"),
-])
+@pytest.mark.parametrize(
+    ("text", "args", "fragment"),
+    [
+        ("load\n1\nabc\n", [], "bad.csv:3"),
+        ("load\n1\n2\n", ["--column", "force"], "'load'"),
+        ("load\n1\n2\n", ["--unit", "mm"], "force or stress"),
+        ("load\n1\n2\n", ["--gate", "-1"], "gate"),
+    ],
+)
 def test_count_command_errors_one_line_exit_2(tmp_path, capsys, text, args, fragment):
     p = _write(tmp_path, "bad.csv", text)
     code, out, err = _run(["count", str(p), *args], capsys)
@@ -175,8 +196,16 @@ def test_count_command_constant(tmp_path, capsys):
 SPECTRA_DIR = __import__("pathlib").Path(__file__).resolve().parents[2] / "loadspectra"
 
 
-@pytest.mark.parametrize("name", ["crane_duty.csv", "pressure_vessel.csv", "wind_member.csv",
-                                  "press_frame.csv", "suspension_arm.csv"])
+@pytest.mark.parametrize(
+    "name",
+    [
+        "crane_duty.csv",
+        "pressure_vessel.csv",
+        "wind_member.csv",
+        "press_frame.csv",
+        "suspension_arm.csv",
+    ],
+)
 def test_demo_spectra_are_small_labelled_and_readable(name):
     path = SPECTRA_DIR / name
     head = path.read_text().splitlines()[:8]

@@ -72,7 +72,8 @@ def test_matrices_conserve_counts():
 def test_irregularity_factor_limits():
     # narrow band (constant amplitude): one mean up-crossing per peak (Rice 1944/45)
     assert irregularity_factor(constant_amplitude(5.0, -5.0, 100, 20)) == pytest.approx(
-        1.0, abs=0.02)
+        1.0, abs=0.02
+    )
 
 
 @pytest.mark.parametrize("target", [0.4, 0.7, 0.95])
@@ -127,7 +128,9 @@ def test_plots_write_png(tmp_path):
     df = count_cycles(x)
     rm, re_, me = range_mean_matrix(df["range"], df["mean"], df["count"], 5, 5)
     levels, cum = range_exceedance(df["range"], df["count"])
-    for p in (plots.plot_history(x, tmp_path / "h.png", unit="kN"),
-              plots.plot_exceedance(levels, cum, tmp_path / "e.png", unit="kN"),
-              plots.plot_rainflow_matrix(rm, re_, me, tmp_path / "m.png", unit="kN")):
+    for p in (
+        plots.plot_history(x, tmp_path / "h.png", unit="kN"),
+        plots.plot_exceedance(levels, cum, tmp_path / "e.png", unit="kN"),
+        plots.plot_rainflow_matrix(rm, re_, me, tmp_path / "m.png", unit="kN"),
+    ):
         assert p.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
