@@ -24,7 +24,25 @@ def _source_key() -> str:
     root = Path(__file__).resolve().parent
     for path in sorted(root.rglob("*.py")):
         h.update(path.read_bytes())
+    h.update(_extension_sources())
     return h.hexdigest()[:12]
+
+
+def _extension_sources() -> bytes:
+    """Names and sources of the extension modules in ``CYCJ_EXTENSIONS`` (found, not
+    imported): their models are compiled into the kernels, so they key the cache too."""
+    import importlib.util
+
+    raw = os.environ.get("CYCJ_EXTENSIONS", "")
+    out = raw.encode()
+    for name in (m.strip() for m in raw.split(",") if m.strip()):
+        try:
+            spec = importlib.util.find_spec(name)
+        except (ImportError, ValueError):
+            spec = None
+        if spec is not None and spec.origin and Path(spec.origin).is_file():
+            out += Path(spec.origin).read_bytes()
+    return out
 
 
 def _cache_dir() -> str:

@@ -26,7 +26,7 @@ import numpy as np
 
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
-from cycj.models import register
+from cycj.models import records, register
 
 # closure model codes of the stepper
 # closure models: one record each (name, kernel code, slots read, validity, citation)
@@ -110,13 +110,42 @@ def newman_u(r, smax_flow, alpha):
     return (1.0 - newman_opening_ratio(r, smax_flow, alpha)) / (1.0 - r)
 
 
+def _chain_of_openings(added):
+    """A compiled dispatcher over the closure models added through their records: calls the
+    record's ``opening(r, smax_flow, u_const, alpha)`` for its code, −1 for an unknown code."""
+    if not added:
+
+        @jit
+        def no_model_left(model, r, smax_flow, u_const, alpha):
+            return -1.0
+
+        return no_model_left
+    kernel, code, rest = added[0].kernel, added[0].code, _chain_of_openings(added[1:])
+
+    @jit
+    def one_model(model, r, smax_flow, u_const, alpha):
+        if model == code:
+            return max(kernel(r, smax_flow, u_const, alpha), 0.0)
+        return rest(model, r, smax_flow, u_const, alpha)
+
+    return one_model
+
+
+#: closure models registered (before this module is imported) with their own opening kernel
+_extension_opening = _chain_of_openings(
+    [r for r in records("closure") if r.kernel is not None and r.code not in CLOSURE_CODES.values()]
+)
+
+
 @jit
 def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compressive):
     """x = (S_op − S_min)/ΔS for one cycle (0 ≤ x ≤ 1), and a flag: 1 if R or S_max/σ_0 had to
     be clipped into the model's range (counted by the stepper, warned by Python).
 
-    ``model``: 0 none, 1 constant U, 2 Elber, 3 Newman.  With ``none`` and S_min < 0 the
-    compressive part is excluded (S_op = 0) unless ``include_compressive``.
+    ``model``: the closure record's code (none, constant U, Elber, Newman, or a model added
+    through its record with an ``opening`` kernel).  With ``none`` and S_min < 0 the
+    compressive part is excluded (S_op = 0) unless ``include_compressive``.  An unknown code
+    is an error.
     """
     ds = smax - smin
     if ds <= 0.0 or smax <= 0.0:
@@ -135,13 +164,18 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
         elif r > 0.7:
             r, clipped = 0.7, 1
         return 1.0 - elber_u(r), clipped
-    if r < -1.0:
-        r, clipped = -1.0, 1
-    sf = smax_flow
-    if sf > 0.8:
-        sf, clipped = 0.8, 1
-    x = 1.0 - newman_u(r, sf, alpha)
-    return min(max(x, 0.0), 1.0), clipped
+    if model == NEWMAN:
+        if r < -1.0:
+            r, clipped = -1.0, 1
+        sf = smax_flow
+        if sf > 0.8:
+            sf, clipped = 0.8, 1
+        x = 1.0 - newman_u(r, sf, alpha)
+        return min(max(x, 0.0), 1.0), clipped
+    x = _extension_opening(model, r, smax_flow, u_const, alpha)
+    if x < 0.0:
+        raise ValueError("unknown closure model code")
+    return min(x, 1.0), 0
 
 
 @jit

@@ -47,10 +47,6 @@ _METHODS = {
         "re-characterised as a through-thickness flaw of the same length "
         "(from memory)",
     ),
-    "through-crack-plate": (
-        "Tada, H., Paris, P. C., Irwin, G. R., The Stress Analysis of "
-        "Cracks Handbook (1973): centre-cracked plate",
-    ),
     # job 2: calibration
     "e647-reduction": (
         "ASTM E647, Standard Test Method for Measurement of Fatigue Crack Growth "

@@ -19,7 +19,8 @@ from __future__ import annotations
 
 import difflib
 import importlib
-from dataclasses import dataclass
+import os
+from dataclasses import dataclass, field
 
 #: the kinds of model, the module that declares each kind's records, and what selects it
 KINDS = {
@@ -47,6 +48,9 @@ class ModelRecord:
     slots : names of the model-parameter slots (:mod:`cycj.kernel_slots`) the model reads
     validity : the published range of the model, in words
     citation : the published sources, one string each (``from memory`` where unconfirmed)
+    kernel : optional compiled scalar of a model added from outside the built-in ones (for a
+        closure model: ``opening(r, smax_flow, u_const, alpha)`` → x = (S_op − S_min)/ΔS);
+        the kind's dispatcher calls it for the record's code
     """
 
     kind: str
@@ -55,13 +59,14 @@ class ModelRecord:
     slots: tuple[str, ...] = ()
     validity: str = ""
     citation: tuple[str, ...] = ()
+    kernel: object = field(default=None, compare=False, repr=False)
 
 
 _RECORDS: dict[str, dict[str, ModelRecord]] = {kind: {} for kind in KINDS}
 
 
 def register(
-    kind: str, name: str, code: int, *, slots=(), validity: str = "", citation=()
+    kind: str, name: str, code: int, *, slots=(), validity: str = "", citation=(), kernel=None
 ) -> ModelRecord:
     """Declare a model; returns its record.  Raises ValueError on an unknown kind or a name or
     code already taken by another model of the kind."""
@@ -69,7 +74,7 @@ def register(
         raise ValueError(f"unknown model kind {kind!r}; expected one of {', '.join(KINDS)}")
     if isinstance(citation, str):
         citation = (citation,)
-    rec = ModelRecord(kind, name, int(code), tuple(slots), validity, tuple(citation))
+    rec = ModelRecord(kind, name, int(code), tuple(slots), validity, tuple(citation), kernel)
     table = _RECORDS[kind]
     old = table.get(name)
     if old is not None and old != rec:
@@ -86,9 +91,33 @@ def unregister(kind: str, name: str) -> None:
     _RECORDS[kind].pop(name, None)
 
 
+#: environment variable listing extension modules (comma-separated) that register models
+EXTENSIONS_VARIABLE = "CYCJ_EXTENSIONS"
+
+
+def extension_modules() -> tuple[str, ...]:
+    """Modules named in ``CYCJ_EXTENSIONS``; they are imported before any built-in record, so
+    the kernels are compiled with their models (the kernel cache is keyed on them too)."""
+    raw = os.environ.get(EXTENSIONS_VARIABLE, "")
+    return tuple(m.strip() for m in raw.split(",") if m.strip())
+
+
+_EXTENSIONS_LOADED = False
+
+
+def load_extensions() -> None:
+    """Import the extension modules once (each registers its records)."""
+    global _EXTENSIONS_LOADED
+    if not _EXTENSIONS_LOADED:
+        _EXTENSIONS_LOADED = True
+        for module in extension_modules():
+            importlib.import_module(module)
+
+
 def _load(kind: str) -> dict[str, ModelRecord]:
     if kind not in KINDS:
         raise ValueError(f"unknown model kind {kind!r}; expected one of {', '.join(KINDS)}")
+    load_extensions()
     importlib.import_module(KINDS[kind][0])
     return _RECORDS[kind]
 

@@ -50,3 +50,50 @@ def run_cli(args, capsys):
         code = exc.code
     cap = capsys.readouterr()
     return code, cap.out, cap.err
+
+
+def expected_models(case, summary) -> list[tuple[str, str]]:
+    """The (kind, name) of every model a run of ``case`` used, read from the case file and the
+    run's summary (independently of the code that cites them)."""
+    used = [
+        ("geometry", case.geometry.shape.name),
+        ("j_method", case.analysis.j_method),
+        ("growth_law", case.growth.law),
+        ("closure", case.loading.closure.model),
+        ("retardation", case.loading.sequence),
+    ]
+    used += [("end_criterion", c) for c in case.run.criteria]
+    if "fad" in case.run.criteria:
+        used.append(("fad", case.analysis.fad if case.material.peak_curve else "option-1"))
+    methods = []
+    if case.growth.converted_from:
+        methods.append("delta-k-conversion")
+    if case.loading.compressive_part == "ignore":
+        methods.append("compressive-part-excluded")
+    if case.loading.history is not None or case.fields is not None:
+        methods.append("rainflow")
+    if case.fields is not None:
+        methods += ["weight-functions", "plate-reference-stress"]
+        if case.fields.residual is not None:
+            methods.append("residual-stress")
+    if summary["method"] == "block":
+        methods.append("block-integration")
+    if "phases" in summary:  # the through-crack phase runs on a centre-cracked plate
+        methods.append("surface-to-through")
+        used.append(("geometry", "center-crack-plate"))
+    return used + [("method", m) for m in methods]
+
+
+def assert_references_match(case, summary):
+    """The references a run printed are exactly those its models declare in their records:
+    nothing printed that no used model declares, nothing declared by a used model missing."""
+    from cycj import models
+
+    declared = set()
+    for kind, name in expected_models(case, summary):
+        rec = models.record(kind, name)
+        declared.update(rec.citation)
+        missing = set(rec.citation) - set(summary["references"])
+        assert not missing, f"{kind} {name!r} used but not cited: {missing}"
+    extra = set(summary["references"]) - declared
+    assert not extra, f"printed but declared by no model the run used: {extra}"

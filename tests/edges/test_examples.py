@@ -8,7 +8,7 @@ import pytest
 
 from cycj.case import load_case
 from cycj.life import predict_life
-from tests.helpers import case_dict
+from tests.helpers import assert_references_match, case_dict
 
 EXAMPLES = Path(__file__).parents[2] / "examples"
 LIFE_EXAMPLES = [
@@ -24,6 +24,8 @@ def test_example_block_agrees_with_cycle_stepper(name):
     c = predict_life(case, method="cycle").summary
     b = predict_life(case, method="block").summary
     assert c["end_reason"] == b["end_reason"]
+    assert_references_match(case, c)
+    assert_references_match(case, b)
     assert b["cycles_to_end"] == pytest.approx(c["cycles_to_end"], rel=5e-3)
     assert b["a_end_mm"] == pytest.approx(c["a_end_mm"], rel=5e-3)
 
@@ -62,6 +64,8 @@ REACH_EXAMPLES = [
 
 @pytest.mark.parametrize("name,end", REACH_EXAMPLES)
 def test_geometry_reach_examples_run(name, end):
-    res = predict_life(load_case(EXAMPLES / name))
+    case = load_case(EXAMPLES / name)
+    res = predict_life(case)
     assert res.summary["end_reason"] == end
+    assert_references_match(case, res.summary)
     assert res.summary["cycles_to_end"] > 100
