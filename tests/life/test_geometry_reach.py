@@ -20,7 +20,7 @@ def nr(a, c, t, w=1e12, beta=0.0):
 
 
 # Newman & Raju (1981), Eng. Fract. Mech. 15:185 — K/(S√πa) values computed from the published
-# equation (REFERENCE 14; coefficients from memory)
+# equation (docs/references.md R14; coefficients from memory)
 @pytest.mark.parametrize(
     "a,c,t,w,deep,surf",
     [

@@ -18,12 +18,12 @@ from cycj.growth import from_delta_k
     ],
 )
 def test_newman_1984_opening_ratio(alpha, r, so):
-    # Newman, Int. J. Fract. 24 (1984) R131, S_max/σ0 = 0.3 (REFERENCE 12, from memory)
+    # Newman, Int. J. Fract. 24 (1984) R131, S_max/σ0 = 0.3 (docs/references.md R12, from memory)
     assert G.newman_closure(r, 0.3, alpha) == pytest.approx(so, abs=1e-4)
 
 
 def test_newman_u_value():
-    # REFERENCE 12: α = 2, R = 0.1 → U = 0.7309 (from memory)
+    # docs/references.md R12: α = 2, R = 0.1 → U = 0.7309 (from memory)
     assert G.newman_u(0.1, 0.3, 2.0) == pytest.approx(0.7309, abs=1e-4)
 
 
