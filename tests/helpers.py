@@ -1,6 +1,7 @@
-"""Small builders of case dicts for tests (invented data)."""
+"""Small builders of case dicts for tests (invented data), and a reader of check tables."""
 
 import copy
+import csv
 
 BASE = {
     "title": "test case",
@@ -50,3 +51,15 @@ def run_cli(args, capsys):
         code = exc.code
     cap = capsys.readouterr()
     return code, cap.out, cap.err
+
+
+def read_check_csv(path):
+    """Rows (dicts of strings) of a published check table in tests/data.
+
+    Lines starting with ``#`` name the source, table and confidence; they are skipped.
+    """
+    with open(path, newline="", encoding="utf-8") as fh:
+        rows = list(csv.DictReader(line for line in fh if not line.startswith("#")))
+    if not rows:
+        raise ValueError(f"{path}: no rows")
+    return rows
