@@ -392,7 +392,8 @@ def shih_dn(n, alpha_eps0=0.002, plane_strain=True):
     References
     ----------
     .. [1] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326 (90° intercept definition);
-       values interpolated in n from D_n computed from the HRR field (from memory, [X]).
+       values interpolated in n from D_n computed from the HRR field (from memory,
+       cross-checked; docs/references.md R15).
     """
     n = np.asarray(n, float)
     if np.any((n < 3) | (n > 13)):
