@@ -377,7 +377,8 @@ def fad_option2(lr, material):
     )
 
 
-# Shih (1981) D_n = d_n/(αε_0)^(1/n) at αε_0 = 0.002, computed from the HRR field (REFERENCE 15)
+# Shih (1981) D_n = d_n/(αε_0)^(1/n) at αε_0 = 0.002, computed from the HRR field
+# (docs/references.md R15)
 _SHIH_N = np.array([3.0, 5.0, 10.0, 13.0])
 _SHIH_DN = {
     True: np.array([1.326, 1.085, 0.931, 0.898]),
@@ -391,7 +392,8 @@ def shih_dn(n, alpha_eps0=0.002, plane_strain=True):
     References
     ----------
     .. [1] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326 (90° intercept definition);
-       values interpolated in n from D_n computed from the HRR field (from memory, [X]).
+       values interpolated in n from D_n computed from the HRR field (from memory,
+       cross-checked; docs/references.md R15).
     """
     n = np.asarray(n, float)
     if np.any((n < 3) | (n > 13)):

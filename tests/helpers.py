@@ -1,6 +1,7 @@
-"""Small builders of case dicts for tests (invented data)."""
+"""Small builders of case dicts for tests (invented data), and a reader of check tables."""
 
 import copy
+import csv
 
 BASE = {
     "title": "test case",
@@ -97,3 +98,15 @@ def assert_references_match(case, summary):
         assert not missing, f"{kind} {name!r} used but not cited: {missing}"
     extra = set(summary["references"]) - declared
     assert not extra, f"printed but declared by no model the run used: {extra}"
+
+
+def read_check_csv(path):
+    """Rows (dicts of strings) of a published check table in tests/data.
+
+    Lines starting with ``#`` name the source, table and confidence; they are skipped.
+    """
+    with open(path, newline="", encoding="utf-8") as fh:
+        rows = list(csv.DictReader(line for line in fh if not line.startswith("#")))
+    if not rows:
+        raise ValueError(f"{path}: no rows")
+    return rows

@@ -11,7 +11,7 @@ Units: P [N], V [mm], compliance [mm/N], E [MPa], B [mm], a [mm].
 References
 ----------
 .. [1] ASTM E647, Standard Test Method for Measurement of Fatigue Crack Growth Rates, §A1
-   (C(T) compliance coefficients; from memory, REFERENCE item 5).
+   (C(T) compliance coefficients; from memory, docs/references.md R5).
 .. [2] Saxena, A., Hudak, S. J., "Review and extension of compliance information for common
    crack growth specimens", Int. J. Fract. 14 (1978) 453–468.
 .. [3] Tada, H., Paris, P. C., Irwin, G. R., *The Stress Analysis of Cracks Handbook*, 3rd ed.
@@ -60,7 +60,7 @@ def e647_ct_crack_ratio(normalised_compliance, location="load-line"):
 
     References
     ----------
-    .. [1] ASTM E647, Annex A1 (coefficients from memory, REFERENCE item 5).
+    .. [1] ASTM E647, Annex A1 (coefficients from memory, docs/references.md R5).
     """
     if location not in E647_CT_COEFFICIENTS:
         raise ValueError(
@@ -83,7 +83,7 @@ def saxena_hudak_load_line(alpha):
 
     References
     ----------
-    .. [1] Saxena & Hudak, Int. J. Fract. 14 (1978) 453 (REFERENCE item 5).
+    .. [1] Saxena & Hudak, Int. J. Fract. 14 (1978) 453 (docs/references.md R5).
     """
     a = _ct_alpha(alpha)
     poly = 2.1630 + a * (12.219 + a * (-20.065 + a * (-0.9925 + a * (20.609 - 9.9314 * a))))

@@ -327,7 +327,7 @@ def eta_plastic(shape, crack_length, width, location="load-line"):
 
     References
     ----------
-    .. [1] ASTM E1820 (from memory, REFERENCE item 8).
+    .. [1] ASTM E1820 (from memory, docs/references.md R8).
     """
     a = np.asarray(crack_length, float)
     alpha = a / width
@@ -357,7 +357,7 @@ def dowling_begley_delta_j(area, thickness, ligament, eta):
 
     References
     ----------
-    .. [1] Dowling & Begley, ASTM STP 590 (1976) 82–103; ASTM E1820 (REFERENCE items 8, 9).
+    .. [1] Dowling & Begley, ASTM STP 590 (1976) 82–103; ASTM E1820 (docs/references.md R8, R9).
     """
     b = np.asarray(ligament, float)
     if not thickness > 0 or np.any(b <= 0):
@@ -373,7 +373,7 @@ def e1820_j(k, e_mod, poisson, plastic_area, net_thickness, ligament, eta):
 
     References
     ----------
-    .. [1] ASTM E1820 (REFERENCE item 8).
+    .. [1] ASTM E1820 (docs/references.md R8).
     """
     if not e_mod > 0:
         raise ValidityRangeError("E must be > 0")

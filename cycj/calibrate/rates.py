@@ -5,7 +5,7 @@ Units: a [mm], N [cycles], da/dN [mm/cycle].
 References
 ----------
 .. [1] ASTM E647, Appendix X1: secant and seven-point incremental polynomial methods; §8
-   (minimum crack extension between readings).  From memory (REFERENCE item 6).
+   (minimum crack extension between readings).  From memory (docs/references.md R6, R35).
 """
 
 from __future__ import annotations
@@ -54,7 +54,7 @@ def incremental_polynomial_rate(cycles, crack_length, half_width=3):
 
     References
     ----------
-    .. [1] ASTM E647 Appendix X1.2 (REFERENCE item 6).
+    .. [1] ASTM E647 Appendix X1.2 (docs/references.md R6).
     """
     k = int(half_width)
     if k < 1:

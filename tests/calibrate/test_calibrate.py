@@ -1,6 +1,7 @@
 """Tests of calibration from fatigue crack growth logs (cycj.calibrate, ``cycj fit``).
 
-Each check names its source; values marked [M] in REFERENCE.md are labelled "from memory".
+Each check names its source and its section of docs/references.md; values recalled but not confirmed
+are labelled "from memory".
 """
 
 from __future__ import annotations
@@ -22,9 +23,13 @@ from cycj.calibrate import rates as rt
 from cycj.calibrate.simulate import simulate_test
 from cycj.calibrate.specimen import read_specimen
 from cycj.errors import CycjInputError, ValidityRangeError
+from tests.helpers import read_check_csv
 
 ROOT = Path(__file__).resolve().parents[2]
 EXAMPLES = ROOT / "examples"
+ROUND_TRIP = read_check_csv(
+    Path(__file__).parents[1] / "data" / "saxena_hudak_1978_e647_round_trip.csv"
+)
 
 CT_SPEC = """
 shape = "compact-tension"
@@ -68,20 +73,22 @@ def write_log(tmp_path, frame, name):
 
 
 # ------------------------------------------------------------------ ASTM E647 compliance
-# REFERENCE item 5 (ASTM E647 / Saxena & Hudak 1978), marked [X]: round-trip values computed
-# from the expressions (coefficients from memory).
+# ASTM E647 / Saxena & Hudak (1978), docs/references.md R5, cross-checked: round-trip values
+# computed from the expressions (coefficients from memory).
+# (rows in tests/data/saxena_hudak_1978_e647_round_trip.csv)
 @pytest.mark.parametrize(
-    "alpha, ebv, back", [(0.2, 8.6086, 0.2001), (0.5, 36.989, 0.5001), (0.9, 1386.6, 0.8999)]
+    "alpha, ebv, back",
+    [(float(r["alpha"]), float(r["ebv_over_p"]), float(r["alpha_back"])) for r in ROUND_TRIP],
 )
 def test_e647_load_line_round_trip_reference_item5(alpha, ebv, back):
     x = cm.saxena_hudak_load_line(alpha)
     assert x == pytest.approx(ebv, rel=2e-4)
     assert cm.e647_ct_crack_ratio(x, "load-line") == pytest.approx(back, abs=1.5e-4)
-    assert abs(cm.e647_ct_crack_ratio(x, "load-line") - alpha) < 3e-4  # item 5: error < 3e-4
+    assert abs(cm.e647_ct_crack_ratio(x, "load-line") - alpha) < 3e-4  # R5: error < 3e-4
 
 
 def test_e647_front_face_reference_item5():
-    # REFERENCE item 5 (from memory): front face at α = 0.5, E·B·V0/P = 54.78, u = 0.11903
+    # docs/references.md R5 (from memory): front face at α = 0.5, E·B·V0/P = 54.78, u = 0.11903
     x = cm.e647_ct_normalised_compliance(0.5, "front-face")
     assert x == pytest.approx(54.78, rel=2e-4)
     assert 1 / (math.sqrt(x) + 1) == pytest.approx(0.11903, abs=2e-5)
@@ -123,7 +130,7 @@ def test_effective_thickness_e1820():
 
 # ------------------------------------------------------------------ da/dN, ASTM E647 X1
 def test_incremental_polynomial_reference_item6():
-    # REFERENCE item 6 (ASTM E647 X1, from memory): a = 10 + 1e-3 N + 2e-8 N², exact 1.12e-3
+    # ASTM E647 X1, docs/references.md R6 (from memory): a = 10 + 1e-3 N + 2e-8 N², exact 1.12e-3
     n = np.arange(0, 6001, 1000.0)
     a = 10 + 1e-3 * n + 2e-8 * n**2
     ni, ahat, rate = rt.incremental_polynomial_rate(n, a)
@@ -133,7 +140,7 @@ def test_incremental_polynomial_reference_item6():
 
 
 def test_secant_reference_item6():
-    # REFERENCE item 6 (from memory): secant 3000–4000, ā = 13.75, 1.1400e-3
+    # docs/references.md R6 (from memory): secant 3000–4000, ā = 13.75, 1.1400e-3
     n = np.arange(0, 6001, 1000.0)
     a = 10 + 1e-3 * n + 2e-8 * n**2
     nm, am, rate = rt.secant_rate(n, a)
@@ -153,7 +160,7 @@ def test_e647_spacing_from_memory():
 
 # ------------------------------------------------------------------ ΔJ from loop areas
 def test_dowling_begley_reference_item9():
-    # REFERENCE item 9 (Dowling & Begley 1976, from memory): ΔA = 5 J, B = b = 25 mm
+    # Dowling & Begley (1976), docs/references.md R9 (from memory): ΔA = 5 J, B = b = 25 mm
     assert lp.dowling_begley_delta_j(5000.0, 25.0, 25.0, 2.0) == pytest.approx(16.00, abs=5e-3)
     eta = lp.eta_plastic("compact-tension", 25.0, 50.0)
     assert eta == pytest.approx(2.261)
@@ -161,7 +168,7 @@ def test_dowling_begley_reference_item9():
 
 
 def test_e1820_j_reference_item8():
-    # REFERENCE item 8 (ASTM E1820, η from memory): C(T) W=50, B=B_N=25, a=25 mm, P=30 kN,
+    # ASTM E1820, docs/references.md R8 (η from memory): C(T) W=50, B=B_N=25, a=25 mm, P=30 kN,
     # A_pl=20 J, E=200 GPa, ν=0.3 → K=51.836 MPa√m, J=84.58 kJ/m²; SE(B) J_pl=60.80 kJ/m²
     from cycj.geometry import make_geometry
 

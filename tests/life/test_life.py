@@ -25,8 +25,8 @@ def paris_closed_form(c_k, m, ds, a0, af, y=1.0):
 
 @pytest.mark.parametrize("method", ["cycle", "block"])
 def test_infinite_plate_closed_form_bs7910(method):
-    # REFERENCE 13 (BS 7910 simplified law, from memory): Δσ = 100 MPa, a = 1 → 10 mm gives
-    # N = 4.714e5 cycles; Paris closed form (Anderson 2005 Eq. 10.9)
+    # BS 7910:2013+A1:2015 §8 simplified law, docs/references.md R13 (from memory): Δσ = 100 MPa,
+    # a = 1 → 10 mm gives N = 4.714e5 cycles; Paris closed form (Anderson 2005 Eq. 10.9)
     case = make_case(material={"growth": BS7910})
     res = predict_life(case, method=method)
     assert res.summary["end_reason"] == "size-limit"

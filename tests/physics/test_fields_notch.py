@@ -42,8 +42,8 @@ def test_neuber_product_holds_to_1e_10(steel):
         assert np.all(dsig <= kt * ds * (1 + 1e-15))
 
 
-# REFERENCE.md item 18 [M]: E = 200 GPa, K' = 1000 MPa, n' = 0.15, Δσ = 800 MPa →
-# Δε = 0.0084473; so K_t·ΔS = √(800·0.0084473·E) must return Δσ = 800 MPa.
+# Masing branch, docs/references.md R18 (from memory): E = 200 GPa, K' = 1000 MPa, n' = 0.15,
+# Δσ = 800 MPa → Δε = 0.0084473; so K_t·ΔS = √(800·0.0084473·E) must return Δσ = 800 MPa.
 def test_neuber_inverse_of_reference_item_18():
     m = Material(E, 0.3, 400.0, cyclic_curve=StressStrainCurve(1000.0, 0.15))
     deps = 800.0 / E + 2 * (400.0 / 1000.0) ** (1 / 0.15)
@@ -76,8 +76,8 @@ def test_compiled_scalar_python_and_vectorised_agree(steel):
     np.testing.assert_allclose(dj, dj_py, rtol=1e-13)
 
 
-# Dowling (1977), REFERENCE.md item 9 [M]: the notch-root ΔJ is the small-crack form with the
-# local range; in the elastic limit its value is 1.6·(K_t·ΔS)²·a/E.
+# Dowling (1977), docs/references.md R9 (from memory): the notch-root ΔJ is the small-crack form
+# with the local range; in the elastic limit its value is 1.6·(K_t·ΔS)²·a/E.
 def test_notch_root_delta_j_uses_local_range(steel):
     a = np.array([0.02, 0.2])
     dsig, _ = neuber_masing(3.0, 180.0, steel)

@@ -43,7 +43,8 @@ def _p_surface(c, t, width=0.0, beta=0.0):
     return p
 
 
-# Tada's SE(T) tension fit (REFERENCE.md item 4 [C]): uniform crack-face stress must give it.
+# Tada's SE(T) tension fit (docs/references.md R4, confirmed): uniform crack-face stress must
+# give it.
 def test_edge_crack_plate_uniform_reproduces_tada_set():
     k = edge_crack_plate_k(A_EDGE, W, uniform)
     ref = np.array([edge_crack_plate.k_over_s(a, np.array([W])) for a in A_EDGE])
@@ -51,7 +52,8 @@ def test_edge_crack_plate_uniform_reproduces_tada_set():
     np.testing.assert_allclose(k, ref, rtol=1e-12)  # by construction: to round-off
 
 
-# REFERENCE.md item 4 [C]: Tada F(0.2) = 1.3667, F(0.5) = 2.8266.
+# Anderson (2005) Table 2.4, docs/references.md R4 (confirmed): Tada F(0.2) = 1.3667,
+# F(0.5) = 2.8266.
 def test_edge_crack_plate_uniform_reference_check_values():
     k = edge_crack_plate_k(np.array([10.0, 25.0]), W, uniform)
     np.testing.assert_allclose(
@@ -98,8 +100,8 @@ def test_edge_crack_plate_small_crack_limit_is_half_plane():
     np.testing.assert_allclose(k_plate, k_half, rtol=1e-3)
 
 
-# Half-plane edge crack: 1.1215 (Tada; REFERENCE via geometry module) and, by construction,
-# 0.683 for σ0·x/a (Tada's handbook, from memory).
+# Half-plane edge crack: 1.1215 (Tada 2000, via the geometry module; docs/references.md R21)
+# and, by construction, 0.683 for σ0·x/a (Tada's handbook, from memory).
 def test_semi_infinite_uniform_and_linear_references():
     a = np.array([0.1, 3.0, 100.0])
     k = edge_crack_semi_infinite_k(a, uniform) / np.sqrt(np.pi * a)
@@ -162,7 +164,7 @@ def test_point_b_weight_function_vanishes_at_the_far_end():
     assert (w[0] - 2 * w[1] + w[2]) / h**2 == pytest.approx(0.0, abs=1e-3)
 
 
-# Newman–Raju (REFERENCE.md item 14, coefficients [M]) uniform tension and bending at the
+# Newman–Raju (docs/references.md R14, coefficients from memory) uniform tension and bending at the
 # deepest (φ = 90°) and surface (φ = 0) points are reproduced by construction.
 @pytest.mark.parametrize("point", [DEEPEST, SURFACE])
 @pytest.mark.parametrize("ac", [0.2, 0.5, 1.0])
@@ -187,8 +189,8 @@ def test_surface_crack_reproduces_newman_raju_tension_and_bending(point, ac):
     np.testing.assert_allclose(k_b, ref_tb - ref_t, rtol=1e-11)
 
 
-# REFERENCE.md item 14 check values [M]: a/c = 1, a/t = 0.2, φ = 90°: K/(S√πa) = 0.66757;
-# φ = 0: 0.74368 (wide plate).
+# Newman & Raju (1981), docs/references.md R14 check values (from memory): a/c = 1, a/t = 0.2,
+# φ = 90°: K/(S√πa) = 0.66757; φ = 0: 0.74368 (wide plate).
 def test_surface_crack_reference_check_values():
     a = np.array([4.0])
     kd = surface_crack_k(a, a, 20.0, uniform, point=DEEPEST) / np.sqrt(np.pi * a)

@@ -1,29 +1,32 @@
 """Closure models and growth-law conversion against published values."""
 
+from pathlib import Path
+
 import pytest
 
 from cycj import growth as G
 from cycj.errors import ValidityRangeError
 from cycj.growth import from_delta_k
+from tests.helpers import read_check_csv
+
+# Newman (1984) S_o/S_max check values (docs/references.md R12, from memory), all at S_max/σ0 = 0.3
+NEWMAN_1984 = read_check_csv(Path(__file__).parents[1] / "data" / "newman_1984_opening_checks.csv")
 
 
 @pytest.mark.parametrize(
-    "alpha,r,so",
+    "smax,alpha,r,so",
     [
-        (1.0, 0.0, 0.4767),
-        (3.0, 0.0, 0.2454),
-        (2.0, 0.1, 0.3422),
-        (2.0, 0.5, 0.5481),
-        (2.0, -1.0, 0.2438),
+        (float(x["smax_over_flow"]), float(x["alpha"]), float(x["r"]), float(x["so_over_smax"]))
+        for x in NEWMAN_1984
     ],
 )
-def test_newman_1984_opening_ratio(alpha, r, so):
-    # Newman, Int. J. Fract. 24 (1984) R131, S_max/σ0 = 0.3 (REFERENCE 12, from memory)
-    assert G.newman_closure(r, 0.3, alpha) == pytest.approx(so, abs=1e-4)
+def test_newman_1984_opening_ratio(smax, alpha, r, so):
+    # Newman, Int. J. Fract. 24 (1984) R131, S_max/σ0 = 0.3 (docs/references.md R12, from memory)
+    assert G.newman_closure(r, smax, alpha) == pytest.approx(so, abs=1e-4)
 
 
 def test_newman_u_value():
-    # REFERENCE 12: α = 2, R = 0.1 → U = 0.7309 (from memory)
+    # docs/references.md R12: α = 2, R = 0.1 → U = 0.7309 (from memory)
     assert G.newman_u(0.1, 0.3, 2.0) == pytest.approx(0.7309, abs=1e-4)
 
 

@@ -17,22 +17,22 @@ def mat(k=900.0, n=0.15, mono=None):
 
 
 def test_delta_j_elastic_rice():
-    # ΔK = 20 MPa√m, E = 207 GPa, ν = 0.3 → ΔJ = 1758.5 J/m² (REFERENCE 13, from memory;
+    # ΔK = 20 MPa√m, E = 207 GPa, ν = 0.3 → ΔJ = 1758.5 J/m² (docs/references.md R13, from memory;
     # arithmetic of ΔJ = ΔK²/E', Rice 1968)
     e_prime = 207e3 / (1 - 0.3**2)
     assert J.delta_j_elastic(20 * math.sqrt(1000), e_prime) == pytest.approx(1.7585, rel=1e-4)
 
 
 def test_masing_branch_reference_values():
-    # REFERENCE 18 (Masing; Morrow 1965, from memory): E = 200 GPa, K' = 1000, n' = 0.15,
-    # Δσ = 800 MPa → Δε_p = 0.0044473, Δε = 0.0084473, ΔW_p = 3.0938 MJ/m³
+    # Masing; Morrow (1965), docs/references.md R18 (from memory): E = 200 GPa, K' = 1000,
+    # n' = 0.15, Δσ = 800 MPa → Δε_p = 0.0044473, Δε = 0.0084473, ΔW_p = 3.0938 MJ/m³
     c = StressStrainCurve(1000.0, 0.15)
     assert c.masing_strain_range(800.0, 200e3) == pytest.approx(0.0084473, rel=1e-4)
     assert c.masing_plastic_work(800.0) == pytest.approx(3.0938, rel=1e-4)
 
 
 def test_small_crack_dowling_check_value():
-    # Dowling (1977), REFERENCE 9 (from memory): Δσ = 600, E = 200 GPa, Δε_p = 0.005,
+    # Dowling (1977), docs/references.md R9 (from memory): Δσ = 600, E = 200 GPa, Δε_p = 0.005,
     # n' = 0.15, a = 1 mm → ΔJ = 15.92 kJ/m².  K' chosen so the Masing branch gives Δε_p = 0.005.
     k = 300.0 / 0.0025**0.15
     m = Material(200e3, 0.3, 350.0, None, StressStrainCurve(k, 0.15))
@@ -104,15 +104,16 @@ def test_scalar_kernel_and_vectorised_agree():
 
 
 def test_option1_fad_values():
-    # R6 / BS 7910 Option 1 (REFERENCE 10, from memory): f(0)=1, f(0.5)=0.95817, f(1)=0.57227
+    # R6 / BS 7910 Option 1 (docs/references.md R10, from memory): f(0)=1, f(0.5)=0.95817,
+    # f(1)=0.57227
     assert J.fad_option1([0.0, 0.5, 1.0]) == pytest.approx([1.0, 0.95817, 0.57227], abs=1e-5)
     assert J.fad_option1(1.3, lr_max=1.2) == 0.0
 
 
 def test_ainsworth_ramberg_osgood_check_values():
-    # REFERENCE 10 (Ainsworth 1984, confirmed): α = 1, n = 5, σ0 = σ_y → J/J_e = 1.18015 at
-    # L_r = 0.5 (K_r = 0.92052) and 2.25 at L_r = 1 (K_r = 0.6667).  In cycj's form
-    # ε = σ/E + (σ/K)^(1/n_h): n_h = 1/5 and K = σ0/(αε0)^(1/5).
+    # Ainsworth (1984), docs/references.md R10 (confirmed): α = 1, n = 5, σ0 = σ_y →
+    # J/J_e = 1.18015 at L_r = 0.5 (K_r = 0.92052) and 2.25 at L_r = 1 (K_r = 0.6667).  In
+    # cycj's form ε = σ/E + (σ/K)^(1/n_h): n_h = 1/5 and K = σ0/(αε0)^(1/5).
     sy, e = 355.0, 200e3
     curve = StressStrainCurve(sy / (sy / e) ** 0.2, 0.2)
     m = Material(e, 0.3, sy, 470.0, None, curve, 100.0)
@@ -130,8 +131,8 @@ def test_j_max_tends_to_elastic_at_small_load():
 
 
 def test_shih_dn_table_values():
-    # REFERENCE 15 (computed from the HRR field, [X]): plane strain d_n = 0.313 at n = 5,
-    # αε0 = 0.002; plane stress 0.474
+    # Shih (1981), docs/references.md R15 (computed from the HRR field, cross-checked): plane
+    # strain d_n = 0.313 at n = 5, αε0 = 0.002; plane stress 0.474
     assert J.shih_dn(5.0) == pytest.approx(0.313, abs=2e-3)
     assert J.shih_dn(5.0, plane_strain=False) == pytest.approx(0.474, abs=2e-3)
     assert J.ctod_from_j(100.0, 400.0, 5.0) == pytest.approx(0.313 * 100 / 400, abs=1e-3)

@@ -4,8 +4,8 @@ K = S·√(πa) (exact, Tada–Paris–Irwin), ΔJ = ΔK²/E', da/dN = C·ΔJ^m.
 N(a0 → a) = (a0^(1−m) − a^(1−m)) / ((m − 1)·C·(s²B)^m) for a load factor s, and the critical
 size from J_max = J_c·t: a_c = t·J_c·E'/(π·(s·σ_max)²).
 
-REFERENCE 13 (from memory): C_K = 1.648e-8 mm/cycle per (MPa√m)^3, m_K = 3; Δσ = 100 MPa,
-a = 1 → 10 mm gives N = 4.714e5 cycles.
+BS 7910:2013+A1:2015 §8, docs/references.md R13 (from memory): C_K = 1.648e-8 mm/cycle per
+(MPa√m)^3, m_K = 3; Δσ = 100 MPa, a = 1 → 10 mm gives N = 4.714e5 cycles.
 """
 
 import math
@@ -13,7 +13,7 @@ import math
 import numpy as np
 
 E_PRIME = 200_000.0  # MPa (plane stress)
-C_K = 1.648e-8 / 1000.0**1.5  # mm/cycle per (MPa√mm)^3 (REFERENCE 13, from memory)
+C_K = 1.648e-8 / 1000.0**1.5  # mm/cycle per (MPa√mm)^3 (docs/references.md R13, from memory)
 M_J = 1.5  # m_K/2
 C_J = C_K * E_PRIME**M_J  # mm/cycle per (kJ/m²)^1.5
 DSIGMA = 100.0  # MPa, R = 0

@@ -20,10 +20,11 @@ from cycj.plan.probabilistic import probabilistic_plan
 
 ROOT = Path(__file__).resolve().parents[2]
 
-# REFERENCE 13 (from memory): centre crack in an infinite plate, Δσ = 100 MPa, Paris law
-# C = 1.648e-8 mm/cycle per (MPa√m)^3, m = 3: a = 1 → 10 mm takes N = 4.714e5 cycles.
+# BS 7910:2013+A1:2015 §8, docs/references.md R13 (from memory): centre crack in an infinite
+# plate, Δσ = 100 MPa, Paris law C = 1.648e-8 mm/cycle per (MPa√m)^3, m = 3: a = 1 → 10 mm
+# takes N = 4.714e5 cycles.
 CASE_13 = """
-title = "REFERENCE 13 plate"
+title = "docs/references.md R13 plate"
 [material]
 elastic_modulus = "200 GPa"
 poisson_ratio = 0.3
@@ -64,8 +65,8 @@ def case13(tmp_path_factory):
 
 
 def test_deterministic_interval_closed_form():
-    # interval = closed-form life ÷ safety factor (REFERENCE 13, from memory; common practice
-    # SF = 2)
+    # interval = closed-form life ÷ safety factor (docs/references.md R13, from memory; common
+    # practice SF = 2)
     a, n = cf.growth_curve(1.0, 1.0)
     d = deterministic_interval(a, n, 1.0, 10.0, 2.0, 1e6, 1, 10 / 3600)
     assert d["life_cycles"] == pytest.approx(4.714e5, rel=1e-3)
@@ -81,7 +82,7 @@ def test_plan_inspections_with_life_engine(case13):
     r = plan_inspections(case13)
     s = r.summary
     d = s["deterministic"]
-    # REFERENCE 13 (from memory) through the life engine: 4.714e5 cycles, ÷ 2
+    # docs/references.md R13 (from memory) through the life engine: 4.714e5 cycles, ÷ 2
     assert d["critical_crack_length_mm"] == pytest.approx(10.0, rel=1e-6)
     assert d["life_cycles"] == pytest.approx(4.714e5, rel=2e-3)
     assert d["interval_cycles"] == pytest.approx(4.714e5 / 2, rel=2e-3)
@@ -204,7 +205,8 @@ def test_cracks_below_threshold_are_raised_to_the_growing_size(tmp_path):
     a_g = float(grow.split("below ")[1].split(" mm")[0])
     assert a_g == pytest.approx(0.2865, rel=5e-3)
     # fixed C: failure within 1e6 cycles iff a0 ≥ a*, with N(a* → 10 mm) = 1e6 (closed
-    # form, REFERENCE 13 from memory) and a* above a_th; a0 log-normal (median 0.4, σ 0.5)
+    # form, docs/references.md R13, from memory) and a* above a_th; a0 log-normal (median 0.4,
+    # σ 0.5)
     from scipy.optimize import brentq
     from scipy.special import ndtr
 

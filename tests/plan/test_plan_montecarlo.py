@@ -1,8 +1,8 @@
 """Monte Carlo core of inspection planning, checked against closed forms.
 
 Growth curves come from the closed-form Paris law for a centre crack in an infinite plate
-(tests/plan/plan_closed_form.py; REFERENCE 13, from memory), so these tests do not need the life
-engine.
+(tests/plan/plan_closed_form.py; docs/references.md R13, from memory), so these tests do not
+need the life engine.
 """
 
 import math
@@ -53,7 +53,8 @@ def inputs(scatter, pod=None, **kw):
 
 
 def test_life_coordinate_table_matches_closed_form():
-    # Paris law, centre crack, infinite plate: N(a0 → a) closed form (REFERENCE 13, from memory)
+    # Paris law, centre crack, infinite plate: N(a0 → a) closed form (docs/references.md R13,
+    # from memory)
     s = sc.Scatter(load_scale=sc.lognormal(1.0, 0.1), initial_crack=sc.fixed(1.0))
     tab = closed_table(s)
     load = np.array([0.83, 1.0, 1.17])  # off the grid points
@@ -69,7 +70,7 @@ def test_life_coordinate_table_matches_closed_form():
 
 
 def test_reference_13_life_from_table():
-    # REFERENCE 13 (from memory): Δσ = 100 MPa, a = 1 → 10 mm, N = 4.714e5 cycles
+    # docs/references.md R13 (from memory): Δσ = 100 MPa, a = 1 → 10 mm, N = 4.714e5 cycles
     tab = closed_table(sc.Scatter(initial_crack=sc.fixed(1.0)))
     k, w = np.zeros(2, np.int64), np.zeros(2)
     phi = tab.phi(np.log([1.0, 10.0]), k, w)

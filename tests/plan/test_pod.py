@@ -16,7 +16,7 @@ from cycj.plan.pod_fit import fit_hit_miss, fit_signal_response
 
 
 def test_signal_response_check_values_mil_hdbk_1823a():
-    # REFERENCE 16, MIL-HDBK-1823A (2009), from memory: β0=−1, β1=1.2, τ=0.3, â_dec=1
+    # MIL-HDBK-1823A (2009), docs/references.md R16, from memory: β0=−1, β1=1.2, τ=0.3, â_dec=1
     c = pod_from_signal_response(-1.0, 1.2, 0.3, 1.0)
     assert c.mu == pytest.approx(0.8333, abs=1e-4)
     assert c.sigma == pytest.approx(0.25, abs=1e-12)
@@ -25,7 +25,7 @@ def test_signal_response_check_values_mil_hdbk_1823a():
 
 
 def test_logit_check_values_mil_hdbk_1823a():
-    # REFERENCE 16, MIL-HDBK-1823A (2009), from memory: logit β0=−3, β1=4
+    # MIL-HDBK-1823A (2009), docs/references.md R16, from memory: logit β0=−3, β1=4
     c = pod_from_glm("logit", -3.0, 4.0)
     assert c.a50 == pytest.approx(2.1170, abs=5e-4)
     assert c.a90 == pytest.approx(3.6668, abs=5e-4)

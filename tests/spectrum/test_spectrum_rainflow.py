@@ -1,6 +1,7 @@
 """Reversals, rainflow counting and cycles in sequence."""
 
 from collections import Counter
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -10,13 +11,21 @@ from hypothesis import strategies as st
 
 from cycj.spectrum import count_cycles, cycles_in_sequence, reversals
 from cycj.spectrum.reversals import block_reversals
+from tests.helpers import read_check_csv
 
-# ASTM E1049-85 Fig. 6 example history, points A..I (REFERENCE.md item 7, [M]: from memory)
-ASTM_E1049_FIG6 = [-2.0, 1.0, -3.0, 5.0, -1.0, 3.0, -4.0, 4.0, -2.0]
-# from memory (REFERENCE.md item 7): cycles counted per range, §5.4.4
-ASTM_E1049_TABLE = {10: 0.0, 9: 0.5, 8: 1.0, 7: 0.0, 6: 0.5, 5: 0.0, 4: 1.5, 3: 0.5, 2: 0.0, 1: 0.0}
-# from memory (REFERENCE.md item 7): §5.4.5 repeating history started at D
-ASTM_E1049_REPEAT = {9: 1.0, 7: 1.0, 4: 1.0, 3: 1.0}
+DATA = Path(__file__).parents[1] / "data"
+_COUNTS = read_check_csv(DATA / "astm_e1049_85_fig6_counts.csv")
+# ASTM E1049-85 Fig. 6 example history, points A..I (docs/references.md R7, from memory)
+ASTM_E1049_FIG6 = [
+    float(r["load"]) for r in read_check_csv(DATA / "astm_e1049_85_fig6_history.csv")
+]
+# from memory (ASTM E1049-85 §5.4.4; docs/references.md R7): cycles counted per range
+ASTM_E1049_TABLE = {int(r["range"]): float(r["cycles_5_4_4"]) for r in _COUNTS}
+# from memory (ASTM E1049-85 §5.4.5; docs/references.md R7): repeating history started at D, the
+# ranges with a count (every one a full cycle)
+ASTM_E1049_REPEAT = {
+    int(r["range"]): float(r["cycles_5_4_5"]) for r in _COUNTS if float(r["cycles_5_4_5"]) != 0
+}
 
 
 def _per_range(df):

@@ -118,7 +118,7 @@ def _run(args, capsys):
 
 
 def test_count_command_astm_example(tmp_path, capsys):
-    # ASTM E1049-85 Fig. 6 history (REFERENCE.md item 7, from memory): 4.0 cycles, range 9 max
+    # ASTM E1049-85 Fig. 6 history (docs/references.md R7, from memory): 4.0 cycles, range 9 max
     p = _write(tmp_path, "h.csv", "load\n-2\n1\n-3\n5\n-1\n3\n-4\n4\n-2\n")
     code, out, _ = _run(["count", str(p), "--json"], capsys)
     assert code == 0
