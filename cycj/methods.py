@@ -16,6 +16,11 @@ _METHODS = {
         "ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
         "Fatigue Analysis: rainflow counting",
     ),
+    "range-mean-matrices": (
+        "ASTM E1049-85 (reapproved 2017) §5.4: range–mean and from–to matrices of the count",
+        "Matsuishi, M., Endo, T. (1968), Fatigue of metals subjected to varying stress, "
+        "Japan Society of Mechanical Engineers: the rainflow method",
+    ),
     "compressive-part-excluded": (
         "ASTM E647: the compressive part of a cycle (P < 0) is "
         "excluded from the driving-force range",

@@ -80,12 +80,16 @@ CAPTIONS = {
     "exceedance.png": "Cycles exceeding each range (cumulative spectrum)",
     "rainflow_matrix.png": "Rainflow matrix: cycles by range and mean",
 }
-REFERENCES = [
-    "ASTM E1049-85 (reapproved 2017), Standard Practices for Cycle Counting in "
-    "Fatigue Analysis: §5.4 rainflow counting, range–mean and from–to matrices",
-    "Matsuishi, M., Endo, T. (1968), Fatigue of metals subjected to varying stress, "
-    "Japan Society of Mechanical Engineers: the rainflow method",
-]
+
+
+def count_references() -> list[str]:
+    """References of a count: the rainflow method's record (cycj.methods)."""
+    from cycj.citations import Citations
+
+    cited = Citations()
+    cited.cite("rainflow")
+    cited.cite("range-mean-matrices")
+    return cited.references
 
 
 def write_count_outputs(
@@ -210,5 +214,5 @@ def write_count_report(od, summary: dict, figures) -> Path:
         inputs=inputs,
         figures=figures,
         warnings=warnings,
-        references=REFERENCES,
+        references=count_references(),
     )
