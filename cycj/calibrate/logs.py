@@ -61,6 +61,9 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     src = str(path)
     if not path.is_file():
         raise CycjInputError("log file not found", source=src)
+    from cycj.outputs import note_input
+
+    note_input(path, "log")
     try:
         df = pd.read_csv(path, skipinitialspace=True, comment="#")
     except (pd.errors.ParserError, pd.errors.EmptyDataError, UnicodeDecodeError) as exc:

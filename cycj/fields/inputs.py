@@ -62,7 +62,10 @@ def read_profile(raw, key: str, source, base: Path, unit_scale: bool = False):
     if path is not None:
         import numpy as np
 
+        from cycj.outputs import note_input
+
         p = base / path
+        note_input(p, "profile")
         try:
             arr = np.loadtxt(p, delimiter=",", comments="#", skiprows=1, ndmin=2)
         except (OSError, ValueError) as exc:

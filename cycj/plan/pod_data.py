@@ -23,6 +23,9 @@ def read_pod_data(path):
     path = Path(path)
     if not path.is_file():
         raise CycjInputError("file not found", source=str(path))
+    from cycj.outputs import note_input
+
+    note_input(path, "pod_data")
     try:
         lines = path.read_text(encoding="utf-8").splitlines()
     except UnicodeDecodeError:
