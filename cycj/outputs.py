@@ -214,8 +214,7 @@ class OutputDir:
         manifest = _read_manifest(tgt)
         if manifest is None:
             raise CycjInputError(
-                f"--force replaces only a folder cycj wrote (with {MANIFEST}); this one has "
-                "none",
+                f"--force replaces only a folder cycj wrote (with {MANIFEST}); this one has none",
                 source=src,
                 expected="an output folder of cycj, or a new folder",
             )
@@ -281,9 +280,7 @@ class OutputDir:
             self._check()
             self._remove_stale(parent)
             name = self.target.resolve().name
-            self.tmp = Path(
-                tempfile.mkdtemp(prefix=f".{name}{TMP_TAG}{os.getpid()}-", dir=parent)
-            )
+            self.tmp = Path(tempfile.mkdtemp(prefix=f".{name}{TMP_TAG}{os.getpid()}-", dir=parent))
             self._write_manifest(self.tmp, complete=False)
         except BaseException:
             self._release_lock()
