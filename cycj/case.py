@@ -18,7 +18,8 @@ from cycj.growth import GrowthLaw
 from cycj.material import Material
 from cycj.material_inputs import read_growth, read_material
 from cycj.tables import Table, read_toml
-from cycj.units import registry, to_internal
+from cycj.units import to_internal
+from cycj.units import unit_factor as _unit_factor
 
 # the names a case may choose come from the models' records (cycj.models)
 CLOSURE_MODELS = models.names("closure")
@@ -383,16 +384,9 @@ def _quantity_kind(unit: str | None) -> str | None:
     if unit.strip() in FAST_UNITS:
         kind = FAST_UNITS[unit.strip()][0]
         return kind if kind in ("force", "stress") else None
-    ureg = registry()
-    try:
-        q = ureg.Quantity(1.0, unit.replace("^", "**"))
-    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
-        return None
-    if q.check("[force]"):
-        return "force"
-    if q.check("[pressure]"):
-        return "stress"
-    return None
+    from cycj.units import unit_kind
+
+    return unit_kind(unit, ("force", "stress"))
 
 
 def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
@@ -428,7 +422,7 @@ def _loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     if unit is not None and kind_from_unit != kind:
         raise t.error("unit", f"a {quantity} history needs a {kind} unit", found=unit)
     unit_factor = (
-        1.0 if unit is None else to_internal(f"1 {unit}", kind, key=t.key("unit"), source=t.source)
+        1.0 if unit is None else _unit_factor(unit, kind, key=t.key("unit"), source=t.source)
     )
     scale = t.number("scale", default=1.0, positive=True)
     gate_raw = t.get("gate", 0.0)

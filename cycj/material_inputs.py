@@ -11,7 +11,7 @@ from cycj.geometry import Geometry
 from cycj.growth import GrowthLaw, from_delta_k
 from cycj.material import Material, ResistanceCurve, StressStrainCurve
 from cycj.tables import Table
-from cycj.units import rate_factor, to_internal
+from cycj.units import rate_factor, to_internal, unit_factor
 
 #: largest growth exponent accepted (ΔK exponents of metals and polymers stay well below)
 M_MAX = 20.0
@@ -136,7 +136,7 @@ def _finite_law(law: GrowthLaw, t: Table) -> GrowthLaw:
 def _driving_kind(unit: str, t: Table, key: str) -> str:
     for kind in ("energy_per_area", "stress_intensity"):
         try:
-            to_internal(f"1 {unit}", kind)
+            unit_factor(unit, kind)
             return kind
         except CycjInputError:
             continue

@@ -17,7 +17,7 @@ from cycj.errors import CycjInputError, ValidityRangeError
 from cycj.geometry import Geometry, make_geometry
 from cycj.material import Material, StressStrainCurve
 from cycj.tables import Table, read_toml
-from cycj.units import to_internal
+from cycj.units import unit_factor
 
 #: measuring points accepted per shape
 DISPLACEMENT_POINTS = {
@@ -114,7 +114,7 @@ def read_specimen(path) -> Specimen:
         ):
             u = units.string(key)
             if u is not None:
-                factors[key] = to_internal(f"1 {u}", kind, key=units.key(key), source=src)
+                factors[key] = unit_factor(u, kind, key=units.key(key), source=src)
         units.finish()
     a1 = t.quantity("final_crack_length", "length", positive=True)
     if a1 is not None and not a0 < a1 < geo.size_limits[1] * (1 + 1e-9):

@@ -471,19 +471,15 @@ def history_unit(unit: str | None, key: str = "unit") -> tuple[float, str, str |
     kind : str or None
         ``"force"``, ``"stress"`` or None.
     """
-    from cycj.units import registry, to_internal
+    from cycj.units import unit_factor, unit_kind
 
     if unit is None or not str(unit).strip():
         return 1.0, "", None
-    ureg = registry()
-    try:
-        q = ureg.Quantity(1.0, str(unit).replace("^", "**"))
-    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
-        q = None
-    if q is not None and q.check("[force]"):
-        return to_internal(f"1 {unit}", "force", key=key), "N", "force"
-    if q is not None and q.check("[pressure]"):
-        return to_internal(f"1 {unit}", "stress", key=key), "MPa", "stress"
+    kind = unit_kind(str(unit), ("force", "stress"))
+    if kind == "force":
+        return unit_factor(str(unit), "force", key=key), "N", "force"
+    if kind == "stress":
+        return unit_factor(str(unit), "stress", key=key), "MPa", "stress"
     raise CycjInputError(
         "not a unit of force or stress",
         key=key,
