@@ -121,6 +121,11 @@ class Table:
             raise self.error(name, "out of range", expected=f"{lo[1]} to {hi[1]}", found=raw)
 
     def choice(self, name, options, *, default=None, required=False):
+        if required and name not in self.raw:
+            self.known.add(name)
+            raise self.error(
+                name, "missing required key", expected="one of " + ", ".join(map(repr, options))
+            )
         raw = self.get(name, default=default, required=required)
         if raw is None:
             return None

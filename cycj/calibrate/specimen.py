@@ -103,7 +103,8 @@ def read_specimen(path) -> Specimen:
     except ValidityRangeError as exc:
         raise CycjInputError(str(exc), source=src, key="tensile_strength") from None
     points = DISPLACEMENT_POINTS[shape]
-    disp_at = t.choice("displacement_at", points, default="load-line")
+    # the compliance solution depends on where the gauge sits: no default is safe
+    disp_at = t.choice("displacement_at", points, required=True)
     units = t.table("log_units")
     factors = {"load": 1.0, "displacement": 1.0, "crack_length": 1.0}
     if units is not None:
