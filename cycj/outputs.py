@@ -144,6 +144,19 @@ def _foreign_files(folder: Path) -> list[str]:
     return out
 
 
+def adopt_file(folder, name: str) -> None:
+    """List file ``name`` (relative to ``folder``, written there by cycj after the folder was
+    completed) in the folder's manifest, so that ``--force`` may replace it later."""
+    folder = Path(folder)
+    man = _read_manifest(folder)
+    if man is None:
+        return
+    files = set(man.get("files") or [])
+    files.add(Path(name).as_posix())
+    man["files"] = sorted(files)
+    (folder / MANIFEST).write_text(json.dumps(man, indent=1) + "\n", encoding="utf-8")
+
+
 def _read_manifest(folder: Path) -> dict | None:
     try:
         data = json.loads((folder / MANIFEST).read_text(encoding="utf-8"))
@@ -203,7 +216,7 @@ class OutputDir:
                 raise CycjInputError(
                     "output folder contains an input file; choose another",
                     source=src,
-                    found=str(p),
+                    found=p.resolve().relative_to(tgt).as_posix(),
                 )
         if not tgt.is_dir() or not any(tgt.iterdir()):
             return

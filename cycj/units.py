@@ -305,9 +305,6 @@ def _pint_factor(spelled: str, kind: str, key, source, shown) -> float:
 def _parse(text: str, kind: str, key: str, source: str | None) -> float:
     """One number and one unit (``"25 mm"``); a bare number is in the internal unit."""
     human = INTERNAL[kind][1]
-    fast = _fast(text, kind)
-    if fast is not None:
-        return fast
     if len(text) > MAX_TEXT:
         raise CycjInputError(
             f"too long for a quantity (at most {MAX_TEXT} characters)",
@@ -316,6 +313,9 @@ def _parse(text: str, kind: str, key: str, source: str | None) -> float:
             expected=human,
             found=text,
         )
+    fast = _fast(text, kind)
+    if fast is not None:
+        return fast
     try:
         number, unit = split_quantity(text)
     except _UnitSyntax as exc:
