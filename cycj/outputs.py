@@ -379,10 +379,10 @@ def sha256_of(path) -> str:
 def provenance(inputs: dict | None = None, files=None, **extra) -> dict:
     """Version, platform, time and SHA-256 of each input file (``{name}_sha256``).
 
-    ``files`` are (role, path) pairs of every file the run read (default: every file noted
-    by :func:`note_input` since the command started); each is listed under ``files`` with its
-    SHA-256, and a role not among ``inputs`` also gets ``{role}_sha256`` (``_2``, ``_3`` … when
-    several files share it)."""
+    ``files`` are (role, path) pairs of every further file the run read (a case's table,
+    profiles …).  Every file, of ``inputs`` and of ``files``, is listed once under ``files``
+    with its role and SHA-256; a file of ``files`` not among ``inputs`` also gets
+    ``{role}_sha256`` (``_2``, ``_3`` … when several files share a role)."""
     import numpy as np
 
     from cycj._version import __version__
@@ -394,21 +394,21 @@ def provenance(inputs: dict | None = None, files=None, **extra) -> dict:
         "platform": platform.platform(),
         "created_utc": datetime.now(UTC).strftime("%Y-%m-%dT%H:%M:%SZ"),
     }
+    listed, seen = [], set()
     for name, p in (inputs or {}).items():
         if p is not None and Path(p).is_file():
-            out[f"{name}_sha256"] = sha256_of(p)
+            digest = sha256_of(p)
+            out[f"{name}_sha256"] = digest
             out[f"{name}_path"] = str(p)
-    listed = []
-    seen = {str(Path(p).resolve()) for p in (inputs or {}).values() if p is not None}
-    for role, p in noted_since(0) if files is None else files:
+            seen.add(str(Path(p).resolve()))
+            listed.append({"role": name, "path": str(p), "sha256": digest})
+    for role, p in files or ():
         p = Path(p)
-        if not p.is_file():
-            continue
-        digest = sha256_of(p)
-        listed.append({"role": role, "path": str(p), "sha256": digest})
-        if str(p.resolve()) in seen:
+        if not p.is_file() or str(p.resolve()) in seen:
             continue
         seen.add(str(p.resolve()))
+        digest = sha256_of(p)
+        listed.append({"role": role, "path": str(p), "sha256": digest})
         key, k = role, 1
         while f"{key}_sha256" in out:
             k += 1
