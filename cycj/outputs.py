@@ -274,10 +274,12 @@ class OutputDir:
         """Remove work folders of earlier runs to this target (the lock is held, so none is
         live): only names of cycj's pattern that hold cycj's manifest."""
         name = self.target.resolve().name
-        for tag in (TMP_TAG, OLD_TAG):
-            for p in parent.glob(f".{name}{tag}*"):
-                if p.is_dir() and not p.is_symlink() and _read_manifest(p) is not None:
-                    shutil.rmtree(p, ignore_errors=True)
+        prefixes = tuple(f".{name}{tag}" for tag in (TMP_TAG, OLD_TAG))
+        for p in parent.iterdir():
+            if not p.name.startswith(prefixes) or p.is_symlink() or not p.is_dir():
+                continue
+            if _read_manifest(p) is not None:
+                shutil.rmtree(p, ignore_errors=True)
 
     def _release_lock(self) -> None:
         if self._lock is not None:
