@@ -319,6 +319,8 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     grew = True
                 if a + da >= a_stop:  # this cycle reaches the end size: end there, on it
                     a = max(a, a_stop)
+                    if two_d:
+                        c = min(c, c_stop)
                     cyc += 1.0
                     end, val = stop_code, math.nan
                     break
