@@ -152,6 +152,7 @@ def normalize_unit(unit: str) -> str:
     nothing evaluated)."""
     out: list[str] = []
     pos, depth, need_operand = 0, 0, True
+    powered = False  # the last operand already has a power: m**2**2 is refused
     while pos < len(unit):
         if unit[pos:].isspace():
             break
@@ -171,10 +172,10 @@ def normalize_unit(unit: str) -> str:
                 out.append("sqrt")
                 continue
             out.append(name)
-            need_operand = False
+            need_operand = powered = False
         elif m.group("pow"):
-            if need_operand:
-                raise _UnitSyntax("a power needs a unit before it")
+            if need_operand or powered:
+                raise _UnitSyntax("a power needs a unit before it (one power per unit)")
             e = _EXPONENT.match(unit, pos)
             if e is None:
                 raise _UnitSyntax("a power needs a number: m**0.5, m**-2")
@@ -183,10 +184,12 @@ def normalize_unit(unit: str) -> str:
                 raise _UnitSyntax(f"unit powers are at most {MAX_EXPONENT:g} in magnitude")
             pos = e.end()
             out.append(f"**{value:g}" if value >= 0 else f"**({value:g})")
+            powered = True
         elif m.group("sup"):
-            if need_operand:
-                raise _UnitSyntax("a power needs a unit before it")
+            if need_operand or powered:
+                raise _UnitSyntax("a power needs a unit before it (one power per unit)")
             out.append("**2" if m.group("sup") == "²" else "**3")
+            powered = True
         elif m.group("op"):
             if need_operand:
                 raise _UnitSyntax("an operator needs a unit before it")
@@ -200,7 +203,7 @@ def normalize_unit(unit: str) -> str:
             if m2 is not None and m2.group("name") and m2.group("name") != "sqrt":
                 out.append(f"({m2.group('name')})")
                 pos = m2.end()
-                need_operand = False
+                need_operand = powered = False
             elif m2 is None or not m2.group("open"):
                 raise _UnitSyntax("√ needs a unit after it")
         elif m.group("open"):
@@ -214,6 +217,7 @@ def normalize_unit(unit: str) -> str:
                 raise _UnitSyntax("unbalanced parentheses")
             out.append(")")
             depth -= 1
+            powered = False
     if depth:
         raise _UnitSyntax("unbalanced parentheses")
     if need_operand and out:

@@ -28,6 +28,9 @@ def test_pint_fallback_and_errors():
     "text",
     [
         "10**10**10 mm",  # once hung: no expression is evaluated
+        "1 m**4**4**4**4",  # a tower of powers would hang pint: one power per unit
+        "1 m^2^2",
+        "1 m²²",
         "10**400 mm",
         "(",
         "1.5.3 mm",
