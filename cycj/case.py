@@ -65,6 +65,8 @@ class Case:
     raw: dict = field(default_factory=dict, repr=False)
     toughness_source: str = "J_c"
     fields: object | None = None  # cycj.fields.inputs.FieldSpec (stress fields, channels)
+    #: every file the case reads, as (role, path): the case, history, tables, profiles
+    files: tuple = ()
 
     @property
     def sha256(self) -> str | None:
@@ -155,8 +157,14 @@ def _plain(obj):
 def load_case(path) -> Case:
     """Read and validate a case file.  Raises :class:`CycjInputError` with one clear line."""
     path = Path(path)
-    raw = read_toml(path)
-    return case_from_dict(raw, source=str(path), base=path.parent, path=path)
+    from dataclasses import replace
+
+    from cycj.outputs import noted_mark, noted_since
+
+    mark = noted_mark()
+    raw = read_toml(path, role="case")
+    case = case_from_dict(raw, source=str(path), base=path.parent, path=path)
+    return replace(case, files=noted_since(mark))
 
 
 def case_from_dict(
@@ -325,6 +333,9 @@ def _geometry(t: Table, base: Path) -> Geometry:
         path = base / table
         if not path.is_file():
             raise t.error("table", "table file not found", found=str(path))
+        from cycj.outputs import note_input
+
+        note_input(path, "table")
         kw["table"] = read_table(path, source=str(path))
     a = t.quantity("crack_length", "length", required=True, positive=True)
     constraint = t.choice("constraint", ("plane-strain", "plane-stress"), default="plane-strain")

@@ -54,7 +54,9 @@ def cli():
 def main(argv=None):
     """Entry point: run the group and turn input errors into one line and exit status 2."""
     from cycj.errors import CycjInputError, ValidityRangeError
+    from cycj.outputs import forget_inputs
 
+    forget_inputs()  # a new command: the inputs it reads are noted afresh
     try:
         rv = cli.main(args=argv, prog_name="cycj", standalone_mode=False)
     except click.exceptions.Abort:

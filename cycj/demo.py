@@ -163,7 +163,7 @@ def run_demo(folder, *, force: bool = False, echo=print) -> dict:
     from cycj.case import load_case
     from cycj.life.write import answer_sentence as life_answer
     from cycj.life.write import run_and_write
-    from cycj.outputs import OutputDir
+    from cycj.outputs import OutputDir, adopt_file
     from cycj.plan.inspections import plan_inspections
     from cycj.plan.write import answer_sentence as plan_answer
     from cycj.plan.write import write_plan
@@ -185,6 +185,7 @@ def run_demo(folder, *, force: bool = False, echo=print) -> dict:
 
     case_path = inp / "lug.toml"
     case_path.write_text(case_text(fit.snippet), encoding="utf-8")
+    adopt_file(root, "inputs/lug.toml")  # cycj's own file: --force may replace it
     echo(f"case:   {case_path} (growth law from {paths['fit'] / 'growth_snippet.toml'})")
     case = load_case(case_path)
     life = run_and_write(case, paths["life"])

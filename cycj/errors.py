@@ -32,9 +32,20 @@ class CycjInputError(ValueError):
         if expected is not None:
             parts.append(f"expected {expected}")
         if found is not None:
-            parts.append(f"found {found!r}")
+            parts.append(f"found {short_repr(found)}")
         text = ": ".join(parts[:2]) + ("; " + "; ".join(parts[2:]) if parts[2:] else "")
         super().__init__(one_line(text))
+
+
+#: longest quotation of a bad value in an error [characters]
+MAX_QUOTE = 80
+
+
+def short_repr(value, n: int = MAX_QUOTE) -> str:
+    """``repr(value)``, cut to at most ``n`` characters (ending in "…") so that an error quoting
+    a huge value stays one short line."""
+    r = repr(value)
+    return r if len(r) <= n else r[: n - 1] + "…"
 
 
 def one_line(text: str) -> str:

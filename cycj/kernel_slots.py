@@ -56,7 +56,12 @@ CH_PM = 45
 CH_PB = CH_PM + MAX_CHANNELS
 #: 1.0 for a channel whose stress is secondary (in K and ρ, never in L_r), e.g. thermal
 CH_SECONDARY = CH_PB + MAX_CHANNELS
-N_MP = CH_SECONDARY + MAX_CHANNELS
+#: critical crack size under the history's peak load [mm] and the end code of the criterion
+#: that sets it: a cycle whose growth would carry the crack past it ends there, on that
+#: criterion (``inf`` and END_SIZE when unknown)
+A_CRIT = CH_SECONDARY + MAX_CHANNELS
+CRIT_CODE = A_CRIT + 1
+N_MP = CRIT_CODE + 1
 
 # crack-state slots (float64 array carried between compiled calls)
 (ST_A, ST_C, ST_CYCLES, ST_BLOCKS, ST_A_OL, ST_Z_OL, ST_K_OL) = range(7)

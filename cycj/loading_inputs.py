@@ -12,7 +12,8 @@ from pathlib import Path
 from cycj import models
 from cycj.geometry import Geometry
 from cycj.tables import Table
-from cycj.units import registry, to_internal
+from cycj.units import to_internal
+from cycj.units import unit_factor as _unit_factor
 
 CLOSURE_MODELS = models.names("closure")
 SEQUENCE_MODELS = models.names("retardation")
@@ -51,16 +52,9 @@ def _quantity_kind(unit: str | None) -> str | None:
     if unit.strip() in FAST_UNITS:
         kind = FAST_UNITS[unit.strip()][0]
         return kind if kind in ("force", "stress") else None
-    ureg = registry()
-    try:
-        q = ureg.Quantity(1.0, unit.replace("^", "**"))
-    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
-        return None
-    if q.check("[force]"):
-        return "force"
-    if q.check("[pressure]"):
-        return "stress"
-    return None
+    from cycj.units import unit_kind
+
+    return unit_kind(unit, ("force", "stress"))
 
 
 def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
@@ -96,7 +90,7 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     if unit is not None and kind_from_unit != kind:
         raise t.error("unit", f"a {quantity} history needs a {kind} unit", found=unit)
     unit_factor = (
-        1.0 if unit is None else to_internal(f"1 {unit}", kind, key=t.key("unit"), source=t.source)
+        1.0 if unit is None else _unit_factor(unit, kind, key=t.key("unit"), source=t.source)
     )
     scale = t.number("scale", default=1.0, positive=True)
     gate_raw = t.get("gate", 0.0)
@@ -135,6 +129,9 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         history = base / hist
         if not history.is_file():
             raise t.error("history", "history file not found", found=str(history))
+        from cycj.outputs import note_input
+
+        note_input(history, "history")
     closure = _closure(t)
     comp = t.choice("compressive_part", ("ignore", "include"), default="ignore")
     t.known.add("channels")  # read by cycj.fields.inputs

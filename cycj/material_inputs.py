@@ -11,7 +11,7 @@ from cycj.geometry import Geometry
 from cycj.growth import GrowthLaw, from_delta_k
 from cycj.material import Material, ResistanceCurve, StressStrainCurve
 from cycj.tables import Table
-from cycj.units import rate_factor, to_internal
+from cycj.units import rate_factor, to_internal, unit_factor
 
 #: largest growth exponent accepted (ΔK exponents of metals and polymers stay well below)
 M_MAX = 20.0
@@ -136,7 +136,7 @@ def _finite_law(law: GrowthLaw, t: Table) -> GrowthLaw:
 def _driving_kind(unit: str, t: Table, key: str) -> str:
     for kind in ("energy_per_area", "stress_intensity"):
         try:
-            to_internal(f"1 {unit}", kind)
+            unit_factor(unit, kind)
             return kind
         except CycjInputError:
             continue
@@ -148,8 +148,17 @@ def _driving_kind(unit: str, t: Table, key: str) -> str:
 def _delta_k_law(t: Table, e_prime: float, **kw) -> GrowthLaw:
     c = t.number("C", required=True, positive=True)
     m = t.number("m", required=True, lo=(1e-3, "0.001"), hi=(M_MAX, str(M_MAX)))
-    rate_unit = t.string("rate_unit", default="mm")
-    driving_unit = t.string("driving_unit", default="MPa*mm**0.5")
+    # a printed ΔK law means nothing without its units: both are required
+    for name in ("rate_unit", "driving_unit"):
+        if not t.has(name):
+            raise t.error(
+                name,
+                "missing: a law from ΔK needs the units it was printed in",
+                expected='e.g. { C = 1.648e-11, m = 3.0, rate_unit = "m", '
+                'driving_unit = "MPa*m**0.5" }',
+            )
+    rate_unit = t.string("rate_unit", required=True)
+    driving_unit = t.string("driving_unit", required=True)
     thr = t.quantity("threshold", "stress_intensity", nonnegative=True, default=0.0)
     t.finish()
     c_k = c * rate_factor(

@@ -14,14 +14,18 @@ from cycj.errors import CycjInputError
 from cycj.units import to_internal
 
 
-def read_toml(path) -> dict:
-    """Parse a TOML file; a missing file or bad syntax is one clear error."""
+def read_toml(path, role: str = "input") -> dict:
+    """Parse a TOML file (a UTF-8 byte-order mark is allowed); a missing file or bad syntax is
+    one clear error.  The file is noted as an input of the command (``role``)."""
+    from cycj.outputs import note_input
+
     path = Path(path)
     if not path.is_file():
         raise CycjInputError("file not found", source=str(path))
+    note_input(path, role)
     try:
-        with path.open("rb") as fh:
-            return tomllib.load(fh)
+        text = path.read_bytes().decode("utf-8")
+        return tomllib.loads(text.removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
         raise CycjInputError(f"not valid TOML ({exc})", source=str(path)) from None
     except UnicodeDecodeError:
@@ -117,6 +121,11 @@ class Table:
             raise self.error(name, "out of range", expected=f"{lo[1]} to {hi[1]}", found=raw)
 
     def choice(self, name, options, *, default=None, required=False):
+        if required and name not in self.raw:
+            self.known.add(name)
+            raise self.error(
+                name, "missing required key", expected="one of " + ", ".join(map(repr, options))
+            )
         raw = self.get(name, default=default, required=required)
         if raw is None:
             return None

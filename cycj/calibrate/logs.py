@@ -61,8 +61,20 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     src = str(path)
     if not path.is_file():
         raise CycjInputError("log file not found", source=src)
+    from cycj.outputs import note_input
+
+    note_input(path, "log")
+    from cycj.spectrum.reading import sniff_delimiter
+
     try:
-        df = pd.read_csv(path, skipinitialspace=True, comment="#")
+        sep = sniff_delimiter(path, src)  # , ; tab | or whitespace, as histories
+        df = pd.read_csv(
+            path,
+            sep=sep if sep else r"\s+",
+            skipinitialspace=True,
+            comment="#",
+            encoding="utf-8-sig",
+        )
     except (pd.errors.ParserError, pd.errors.EmptyDataError, UnicodeDecodeError) as exc:
         raise CycjInputError(f"cannot read the CSV ({type(exc).__name__})", source=src) from None
     df.columns = [str(c).strip().lower() for c in df.columns]

@@ -17,7 +17,7 @@ from cycj.errors import CycjInputError, ValidityRangeError
 from cycj.geometry import Geometry, make_geometry
 from cycj.material import Material, StressStrainCurve
 from cycj.tables import Table, read_toml
-from cycj.units import to_internal
+from cycj.units import unit_factor
 
 #: measuring points accepted per shape
 DISPLACEMENT_POINTS = {
@@ -68,7 +68,7 @@ class Specimen:
 def read_specimen(path) -> Specimen:
     """Read and check a specimen file; errors are one line naming the file and key."""
     src = str(path)
-    t = Table(read_toml(path), "", src)
+    t = Table(read_toml(path, role="specimen"), "", src)
     shape = t.choice("shape", SPECIMEN_SHAPES, required=True)
     width = t.quantity("width", "length", required=True, positive=True)
     thick = t.quantity("thickness", "length", required=True, positive=True)
@@ -103,7 +103,8 @@ def read_specimen(path) -> Specimen:
     except ValidityRangeError as exc:
         raise CycjInputError(str(exc), source=src, key="tensile_strength") from None
     points = DISPLACEMENT_POINTS[shape]
-    disp_at = t.choice("displacement_at", points, default="load-line")
+    # the compliance solution depends on where the gauge sits: no default is safe
+    disp_at = t.choice("displacement_at", points, required=True)
     units = t.table("log_units")
     factors = {"load": 1.0, "displacement": 1.0, "crack_length": 1.0}
     if units is not None:
@@ -114,7 +115,7 @@ def read_specimen(path) -> Specimen:
         ):
             u = units.string(key)
             if u is not None:
-                factors[key] = to_internal(f"1 {u}", kind, key=units.key(key), source=src)
+                factors[key] = unit_factor(u, kind, key=units.key(key), source=src)
         units.finish()
     a1 = t.quantity("final_crack_length", "length", positive=True)
     if a1 is not None and not a0 < a1 < geo.size_limits[1] * (1 + 1e-9):

@@ -15,6 +15,11 @@ def check(case_file, as_json):
     from cycj.case import load_case
 
     case = load_case(case_file)
+    inspection = None
+    if case.inspection is not None:  # validated here too, not first by `cycj plan`
+        from cycj.plan.inputs import read_inspection
+
+        inspection = read_inspection(case)
     data = case.resolved()
     if as_json:
         click.echo(json.dumps(data, indent=2, default=str))
@@ -27,6 +32,11 @@ def check(case_file, as_json):
         click.echo(f"[{section}]")
         for k, v in data[section].items():
             click.echo(f"  {k} = {_fmt(v)}")
+    if inspection is not None:
+        click.echo("[inspection]")
+        click.echo(f"  design_life = {_fmt(float(inspection.design_life))} cycles")
+        click.echo(f"  detectable_size = {_fmt(float(inspection.detectable_size))} mm")
+        click.echo(f"  intervals = {', '.join(_fmt(float(x)) for x in inspection.intervals)}")
     click.echo("ok: the case is valid")
 
 

@@ -44,7 +44,7 @@ from cycj.errors import CycjInputError
     type=click.Path(file_okay=False),
     help="Folder for cycles.csv, the matrices and the plots.",
 )
-@click.option("--force", is_flag=True, help="Replace a non-empty --out folder.")
+@click.option("--force", is_flag=True, help="Replace an --out folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
 def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots, as_json):

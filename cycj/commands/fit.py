@@ -30,7 +30,7 @@ import click
     type=click.Choice(["auto", "polynomial", "secant", "direct"]),
     help="Fit reported as the recommended C, m (all are computed).",
 )
-@click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print fit.json to stdout.")
 def fit(logs, specimens, out_dir, method, force, no_plots, as_json):

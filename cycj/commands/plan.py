@@ -20,7 +20,7 @@ import click
     default=None,
     help="Dask scheduler address (tcp://HOST:PORT): run sample chunks on a cluster.",
 )
-@click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--json", "as_json", is_flag=True, help="Print plan.json to stdout.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 def plan(case_file, out_dir, scheduler, force, as_json, no_plots):

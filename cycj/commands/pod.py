@@ -29,7 +29,7 @@ import click
 )
 @click.option("--floor", type=float, default=None, help="â recording floor (left-censored).")
 @click.option("--saturation", type=float, default=None, help="â saturation (right-censored).")
-@click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the plot and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the fit as JSON.")
 def pod(data_file, out_dir, link, decision, floor, saturation, force, no_plots, as_json):

@@ -42,7 +42,7 @@ class _Progress:
     default=None,
     help="Override the case's run.method.",
 )
-@click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
+@click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option(

@@ -62,7 +62,10 @@ def read_profile(raw, key: str, source, base: Path, unit_scale: bool = False):
     if path is not None:
         import numpy as np
 
+        from cycj.outputs import note_input
+
         p = base / path
+        note_input(p, "profile")
         try:
             arr = np.loadtxt(p, delimiter=",", comments="#", skiprows=1, ndmin=2)
         except (OSError, ValueError) as exc:
@@ -99,7 +102,7 @@ def read_fields(
 ) -> FieldSpec | None:
     """Parse ``stress_profile``/``residual_stress`` of [geometry] and [[loading.channels]]."""
     from cycj.fields.profiles import StressProfile
-    from cycj.units import to_internal
+    from cycj.units import unit_factor
 
     prof_raw = geo_raw.get("stress_profile")
     res_raw = geo_raw.get("residual_stress")
@@ -161,7 +164,7 @@ def read_fields(
             factor = (
                 1.0
                 if unit is None
-                else to_internal(f"1 {unit}", "stress", key=t.key("unit"), source=source)
+                else unit_factor(unit, "stress", key=t.key("unit"), source=source)
             )
             scale = t.number("scale", default=1.0)
             secondary = t.get("secondary", False)

@@ -79,6 +79,8 @@ def block_phase(case, loads, mp, a0, a_crit, max_cycles):
     grid = _grid(a0, a_crit, loads.n)
     table = np.zeros((grid.size, 5))
     K.block_growth_table(loads.lmax, loads.lmin, grid, geo.code, geo.params, loads.ct, mp, table)
+    if not np.all(np.isfinite(table[:, 0])):  # no closed form here: the stepper goes all the way
+        return a0, 0.0, []
     b = blocks_to_grow(grid, table[:, 0])
     finite = np.isfinite(b)
     b_end = b[finite][-1] if finite.any() else 0.0

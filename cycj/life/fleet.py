@@ -45,10 +45,17 @@ def run_fleet(case_files, out_dir=None, *, method=None, force=False, scheduler=N
     """
     import pandas as pd
 
+    from cycj.case import load_case
+    from cycj.errors import CycjInputError, ValidityRangeError
     from cycj.outputs import OutputDir
 
+    for f in case_files:  # note every file the cases read: the output folder may hold none
+        try:
+            load_case(f)
+        except (CycjInputError, ValidityRangeError):
+            pass  # reported in the case's row
     root = Path(out_dir or "fleet-life")
-    with OutputDir(root, force=force) as od:
+    with OutputDir(root, force=force, inputs=case_files) as od:
         jobs = [(str(f), str(od.path(Path(f).stem)), method, False) for f in case_files]
         if scheduler:
             try:

@@ -85,10 +85,10 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
         samples = 2
     else:
         from cycj.spectrum import cycles_in_sequence, read_history
-        from cycj.units import to_internal
+        from cycj.units import unit_factor as _unit_factor
 
         kind = "force" if ld.quantity == "force" else "stress"
-        unit_factor = 1.0 if ld.unit is None else to_internal(f"1 {ld.unit}", kind)
+        unit_factor = 1.0 if ld.unit is None else _unit_factor(ld.unit, kind)
         values = read_history(ld.history, column=ld.column, unit_factor=unit_factor, scale=ld.scale)
         samples = int(values.size)
         peaks, valleys = cycles_in_sequence(values, gate=ld.gate, order=order)
@@ -263,14 +263,14 @@ def _channel_values(case, channels):
     if ld.constant is not None:
         return np.array([[ld.constant[0]], [ld.constant[1]]]), 2
     from cycj.spectrum import read_history
-    from cycj.units import to_internal
+    from cycj.units import unit_factor
 
     cols = []
     for ch in channels:
         if case.fields.channels:
             factor, scale = ch.unit_factor, ch.scale
         else:
-            factor = 1.0 if ld.unit is None else to_internal(f"1 {ld.unit}", "stress")
+            factor = 1.0 if ld.unit is None else unit_factor(ld.unit, "stress")
             scale = ld.scale
         cols.append(read_history(ld.history, column=ch.column, unit_factor=factor, scale=scale))
     n = min(c.size for c in cols)

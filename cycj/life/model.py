@@ -14,6 +14,7 @@ from cycj import kernel_slots as M
 from cycj import models
 from cycj.case import Case
 from cycj.citations import Citations
+from cycj.end_criteria import END_SIZE
 from cycj.life.loads import BlockLoads
 
 
@@ -84,6 +85,8 @@ def model_array(
     mp[M.CHECK_COLLAPSE] = 1.0 if "collapse" in crit else 0.0
     mp[M.A_LIMIT] = size_limit(case)[0]
     mp[M.A_TEAR] = math.inf
+    mp[M.A_CRIT] = math.inf
+    mp[M.CRIT_CODE] = END_SIZE
     opts = ld.sequence_options
     mp[M.SEQ_EXPONENT] = float(opts.get("shaping_exponent", 1.0))
     mp[M.SEQ_SHUT_OFF] = float(opts.get("shut_off_ratio", 3.0))

@@ -24,7 +24,30 @@ def _widen(ax, values, axis="x", log=False):
         c = float(v[0])
         half = 0.05 * abs(c) if c else 1.0
         lim = (c / 2, c * 2) if log and c > 0 else (c - half, c + half)
+        if not log and c == 0.0 and axis == "x":  # cycles of an immediate end: from 0
+            lim = (0.0, 1.0)
         (ax.set_xlim if axis == "x" else ax.set_ylim)(*lim)
+
+
+def _log_axis(ax, values, what: str):
+    """A log y-axis over the positive finite ``values``; without any (a run with no growth),
+    a linear axis from 0 with a note instead of an error."""
+    v = np.asarray(values, float)
+    v = v[np.isfinite(v) & (v > 0)]
+    if v.size == 0:
+        ax.set_ylim(0.0, 1.0)
+        ax.text(
+            0.5,
+            0.5,
+            f"no {what} > 0 in this run",
+            transform=ax.transAxes,
+            ha="center",
+            va="center",
+            color="0.4",
+        )
+        return
+    ax.set_yscale("log")
+    _widen(ax, v, "y", log=True)
 
 
 def crack_growth_figure(result):
@@ -62,14 +85,14 @@ def driving_force_figure(result):
     plt = _plt()
     h = result.history
     fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
-    dot = "o" if len(h) < 3 else None  # a run that ends at once has a single point
+    # a run that ends at once, or does not grow, has a single crack size
+    dot = "o" if h["a_mm"].nunique() < 3 else None
     ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
-    ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", label="largest cycle ΔJ_eff")
+    ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", marker=dot, label="largest cycle ΔJ_eff")
     _widen(ax1, h["a_mm"])
     ax1.set_xlabel("crack size a [mm]")
     ax1.set_ylabel("ΔJ [kJ/m²]")
-    ax1.set_yscale("log")
-    _widen(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]), "y", log=True)
+    _log_axis(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]), "ΔJ")
     ax1.grid(alpha=0.3, which="both")
     ax1.legend(fontsize=8)
     rate = h["dadN_mm_per_cycle"].to_numpy()
@@ -78,8 +101,7 @@ def driving_force_figure(result):
     _widen(ax2, h["a_mm"])
     ax2.set_xlabel("crack size a [mm]")
     ax2.set_ylabel("da/dN [mm/cycle]")
-    ax2.set_yscale("log")
-    _widen(ax2, rate[ok], "y", log=True)
+    _log_axis(ax2, rate[ok], "growth rate")
     ax2.grid(alpha=0.3, which="both")
     fig.tight_layout()
     return fig
@@ -113,6 +135,8 @@ def criterion_figure(result):
         ax.plot(h["a_mm"], h["Jmax_kJm2"], label="J_max at the block's peak load")
         if mat.J_c:
             ax.axhline(mat.J_c, color="C3", ls="--", label=f"J_c = {mat.J_c:g} kJ/m²")
+        _widen(ax, h["a_mm"])
+        _widen(ax, h["Jmax_kJm2"], "y")
         ax.set_xlabel("crack size a [mm]")
         ax.set_ylabel("J_max [kJ/m²]")
     ax.grid(alpha=0.3)

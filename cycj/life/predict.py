@@ -23,6 +23,8 @@ from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
 from cycj.life.model import model_array, size_limit
 
+END_CODES = {name: code for code, name in END_NAMES.items()}
+
 #: rows of history aimed at between the initial and the critical crack size
 HISTORY_ROWS = 400
 #: history.csv columns (c_mm only for two-dimensional cracks)
@@ -202,6 +204,9 @@ def predict_life(
     a0 = geo.crack_length if a_start_mm is None else float(a_start_mm)
     geo.check_crack(a0, "initial crack")
     a_crit, crit_reason = critical_crack_length(case, loads=loads, mp=mp)
+    if crit_reason not in ("size-limit", "leak"):  # those sizes are slots of their own
+        mp[M.A_CRIT] = a_crit
+        mp[M.CRIT_CODE] = END_CODES[crit_reason]
     warnings = _input_warnings(case, loads, mp, a0, a_crit)
     used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001))
     max_cycles = float(case.run.max_cycles)
@@ -219,6 +224,8 @@ def predict_life(
         rows = [(*r, state[M.ST_C]) for r in rows]
     end, val, step_rows, clipped = _stepper(case, loads, mp, state, max_cycles, rec_da, progress)
     a_end, cycles, blocks = state[M.ST_A], state[M.ST_CYCLES], state[M.ST_BLOCKS]
+    if math.isnan(val):  # the last cycle reached the end size: the criterion's value there
+        val = _criterion_value(case, loads, mp, end, a_end)
     if clipped:
         warnings.append(
             f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
@@ -346,6 +353,23 @@ def _peak_row(case, loads, mp, a):
     return djmax, djeq, jmx, lrmx, g / loads.n
 
 
+def _criterion_value(case, loads, mp, end, a):
+    """Value of end criterion ``end`` under the history's peak load at crack size ``a``:
+    J_max (toughness), L_r (collapse), K_r (FAD), else the crack size."""
+    geo = case.geometry
+    dj, jmax, lr, jel, _, rho = K.peak_state(
+        loads.lmax, loads.i_peak, a, geo.code, geo.params, loads.ct, mp
+    )
+    name = END_NAMES[end]
+    if name == "toughness":
+        return float(jmax)
+    if name == "collapse":
+        return float(lr)
+    if name == "fad":
+        return float(math.sqrt(jel / mp[M.J_C]) + rho)
+    return float(a)
+
+
 def _end_values(case, loads, mp, reason, val, a_end, cycles):
     geo = case.geometry
     dj, jmax, lr, jel, _, _ = K.peak_state(
@@ -374,6 +398,12 @@ def _end_values(case, loads, mp, reason, val, a_end, cycles):
                 C1=case.material.resistance_curve.C1, C2=case.material.resistance_curve.C2
             ),
         )
+    elif reason == "size-limit" and mp[M.TWO_D] and not math.isfinite(mp[M.A_LIMIT]):
+        c = float(val)  # a surface crack: its half-length or aspect ratio left the range
+        if c >= mp[M.C_LIMIT]:
+            out.update(c_mm=c, limit_mm=float(mp[M.C_LIMIT]), limit="half-length c ≤ W/4")
+        else:
+            out.update(c_mm=c, a_over_c=float(a_end) / c, limit=f"a/c ≤ {mp[M.ASPECT_MAX]:g}")
     elif reason == "size-limit":
         out.update(limit_mm=float(mp[M.A_LIMIT]), limit=size_limit(case)[1])
     elif reason == "max-cycles":

@@ -25,6 +25,7 @@ from cycj.end_criteria import (
     END_MAX_CYCLES,
     END_NO_GROWTH,
     END_SIZE,
+    END_TEARING,
     RUNNING,
     end_check,
 )
@@ -43,12 +44,16 @@ from cycj.jintegral import (
     small_crack_delta_j_scalar,
 )
 from cycj.kernel_slots import (
+    A_CRIT,
+    A_LIMIT,
+    A_TEAR,
     ALPHA_NEWMAN,
     ASPECT_MAX,
     C_LAW,
     C_LIMIT,
     CH_MODE,
     CLOSURE,
+    CRIT_CODE,
     DJ_TH,
     E_MOD,
     E_PRIME,
@@ -242,6 +247,11 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
         Returns
         -------
         end code, end value, rows used
+
+        A cycle whose growth would carry the crack to or past the first of the tearing size,
+        the critical size (``A_CRIT``), the size limit or the leak size ends the run there, on
+        that criterion, with the crack at that size (end value NaN: the caller evaluates the
+        criterion there); the crack never leaves the body's K solution.
         """
         n = lmax.shape[0]
         a = st[ST_A]
@@ -254,6 +264,15 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
         max_dj, max_jmax, max_lr, n_clipped = acc[4], acc[5], acc[6], acc[7]
         end = RUNNING
         val = 0.0
+        # the first size the crack may not pass, and the criterion that ends the run there
+        a_stop, stop_code = mp[A_LIMIT], END_SIZE
+        if mp[A_CRIT] < a_stop:
+            a_stop, stop_code = mp[A_CRIT], int(mp[CRIT_CODE])
+        if mp[A_TEAR] <= a_stop:
+            a_stop, stop_code = mp[A_TEAR], END_TEARING
+        if two_d and mp[LEAK_SIZE] < a_stop:
+            a_stop, stop_code = mp[LEAK_SIZE], END_LEAK
+        c_stop = mp[C_LIMIT]
         for _b in range(n_blocks):
             grew = False
             for i in range(n):
@@ -298,6 +317,19 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     c += cycle_rate(dj_c, jmax, mp) * factor
                 if da > 0.0:
                     grew = True
+                if a + da >= a_stop:  # this cycle reaches the end size: end there, on it
+                    a = max(a, a_stop)
+                    if two_d:
+                        c = min(c, c_stop)
+                    cyc += 1.0
+                    end, val = stop_code, math.nan
+                    break
+                if two_d and c >= c_stop:
+                    c = c_stop
+                    a += da
+                    cyc += 1.0
+                    end, val = END_SIZE, c
+                    break
                 a += da
                 cyc += 1.0
                 sum_djm += djm

@@ -44,10 +44,11 @@ def run_and_write(case, out: Path, *, method=None, force=False, plots=True, prog
     inputs = {"case": case.path}
     if case.loading.history is not None:
         inputs["history"] = case.loading.history
-    od = OutputDir(out, force=force, inputs=[p for p in inputs.values() if p])
+    files = case.files or tuple((k, p) for k, p in inputs.items() if p)
+    od = OutputDir(out, force=force, inputs=[p for _, p in files])
     result = predict_life(case, method=method, progress=progress)
     summary = dict(result.summary)
-    record_provenance(summary, inputs, method=summary["method"], seed=None)
+    record_provenance(summary, inputs, files=files, method=summary["method"], seed=None)
     with od:
         od.write_csv("history.csv", result.history)
         figures = []

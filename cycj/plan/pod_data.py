@@ -23,8 +23,14 @@ def read_pod_data(path):
     path = Path(path)
     if not path.is_file():
         raise CycjInputError("file not found", source=str(path))
+    from cycj.outputs import note_input
+
+    note_input(path, "pod_data")
+    from cycj.spectrum.reading import _split, sniff_delimiter
+
     try:
-        lines = path.read_text(encoding="utf-8").splitlines()
+        lines = path.read_text(encoding="utf-8-sig").splitlines()
+        sep = sniff_delimiter(path)  # , ; tab | or whitespace, as histories
     except UnicodeDecodeError:
         raise CycjInputError("not a UTF-8 text file", source=str(path)) from None
     meta, rows, header, hline = {}, [], None, 0
@@ -39,7 +45,7 @@ def read_pod_data(path):
                 if k in META_KEYS:
                     meta[k] = v.strip("\"'")
             continue
-        cells = next(csv.reader([s]))
+        cells = next(csv.reader([s])) if sep == "," else _split(s, sep)
         if header is None:
             header, hline = [c.strip() for c in cells], ln
             continue

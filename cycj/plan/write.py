@@ -42,10 +42,15 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
 
     summary = dict(result.summary)
     inputs = {"case": case.path, "history": case.loading.history}
+    files = case.files or tuple((k, p) for k, p in inputs.items() if p)
     record_provenance(
-        summary, inputs, method="deterministic interval and Monte Carlo", seed=summary.get("seed")
+        summary,
+        inputs,
+        files=files,
+        method="deterministic interval and Monte Carlo",
+        seed=summary.get("seed"),
     )
-    with OutputDir(out, force=force, inputs=[case.path] if case.path else []) as od:
+    with OutputDir(out, force=force, inputs=[p for _, p in files]) as od:
         od.write_csv("what_if.csv", result.what_if)
         sched = pd.DataFrame(summary["deterministic"]["schedule"])
         od.write_csv("schedule.csv", sched)

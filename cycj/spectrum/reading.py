@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import csv
 import math
+import re
 from pathlib import Path
 
 import numpy as np
@@ -86,6 +87,9 @@ def read_history_with_time(
             raise CycjInputError(f"{name} must be a finite non-zero number", source=src, found=f)
     if not path.is_file():
         raise CycjInputError("history file not found", source=src)
+    from cycj.outputs import note_input
+
+    note_input(path, "history")
     suffix = path.suffix.lower()
     if suffix == ".npy":
         values, times = _read_npy(path, column, time_column)
@@ -202,7 +206,7 @@ def _is_number(tok: str) -> bool:
 def _scan_head(path: Path):
     """First content line number (1-based), its text, and up to 50 further content lines."""
     first_no, first, more = None, None, []
-    with path.open("r", encoding="utf-8", errors="strict") as fh:
+    with path.open("r", encoding="utf-8-sig", errors="strict") as fh:
         for no, line in enumerate(fh, start=1):
             s = line.strip()
             if not s or s.startswith("#"):
@@ -228,6 +232,48 @@ def _sniff(lines: list[str]) -> str | None:
         return None
 
 
+_DECIMAL_COMMA = re.compile(r"^[+-]?\d+,\d+(?:[eE][+-]?\d+)?$")
+
+
+def refuse_decimal_commas(lines: list[str], sep: str | None, src: str) -> None:
+    """Raise when the table's first content lines write numbers with a decimal comma (read as
+    two fields, or as text): cycj reads a decimal point only."""
+    if sep != ",":
+        for line in lines:
+            for tok in _split(line, sep):
+                if _DECIMAL_COMMA.match(tok):
+                    raise CycjInputError(
+                        "a number with a decimal comma: write numbers with a decimal point",
+                        source=src,
+                        found=tok,
+                    )
+        return
+    header = [t for t in _split(lines[0], sep) if t]
+    data = lines[1:]
+    if header and not all(_is_number(t) for t in header) and data:
+        if all(len(_split(ln, sep)) > len(header) for ln in data):
+            raise CycjInputError(
+                "every row has more fields than the header (decimal commas?): write numbers "
+                "with a decimal point",
+                source=src,
+                found=data[0].strip(),
+            )
+
+
+def sniff_delimiter(path, src: str | None = None) -> str | None:
+    """Delimiter of a text table from its first content lines: ``,`` ``;`` tab ``|``, or None
+    for whitespace; refuses decimal commas (:func:`refuse_decimal_commas`).  A UTF-8 byte-order
+    mark is skipped."""
+    path = Path(path)
+    src = src or str(path)
+    _, first, more = _scan_head(path)
+    if first is None:
+        return ","
+    sep = _sniff([first, *more])
+    refuse_decimal_commas([first, *more], sep, src)
+    return sep
+
+
 def _read_text(path: Path, column, time_column):
     import pandas as pd
 
@@ -240,6 +286,7 @@ def _read_text(path: Path, column, time_column):
             "the history file has no data (only comments or blank lines)", source=src, line=1
         )
     sep = _sniff([first, *more])
+    refuse_decimal_commas([first, *more], sep, src)
     tokens = _split(first, sep)
     header = not all(_is_number(t) for t in tokens if t)
     names = tokens if header else [str(i) for i in range(len(tokens))]
@@ -263,6 +310,7 @@ def _read_text(path: Path, column, time_column):
             engine="c",
             skip_blank_lines=True,
             quotechar='"',
+            encoding="utf-8-sig",
         )
     except (ValueError, pd.errors.ParserError) as exc:
         _locate_text_error(path, sep, skip, use, names, src, exc)
@@ -285,7 +333,7 @@ class _TextLines:
 
     def __call__(self, row: int) -> tuple[int, str]:
         r = -1
-        with self.path.open("r", encoding="utf-8") as fh:
+        with self.path.open("r", encoding="utf-8-sig") as fh:
             for no, line in enumerate(fh, start=1):
                 if no <= self.skip:
                     continue
@@ -300,7 +348,7 @@ class _TextLines:
 
 def _locate_text_error(path, sep, skip, use, names, src, exc):
     """Find the first line whose wanted fields are not numbers; raise for it."""
-    with path.open("r", encoding="utf-8") as fh:
+    with path.open("r", encoding="utf-8-sig") as fh:
         for no, line in enumerate(fh, start=1):
             if no <= skip:
                 continue
@@ -468,19 +516,15 @@ def history_unit(unit: str | None, key: str = "unit") -> tuple[float, str, str |
     kind : str or None
         ``"force"``, ``"stress"`` or None.
     """
-    from cycj.units import registry, to_internal
+    from cycj.units import unit_factor, unit_kind
 
     if unit is None or not str(unit).strip():
         return 1.0, "", None
-    ureg = registry()
-    try:
-        q = ureg.Quantity(1.0, str(unit).replace("^", "**"))
-    except Exception:  # noqa: BLE001 - any pint parsing failure is reported the same way
-        q = None
-    if q is not None and q.check("[force]"):
-        return to_internal(f"1 {unit}", "force", key=key), "N", "force"
-    if q is not None and q.check("[pressure]"):
-        return to_internal(f"1 {unit}", "stress", key=key), "MPa", "stress"
+    kind = unit_kind(str(unit), ("force", "stress"))
+    if kind == "force":
+        return unit_factor(str(unit), "force", key=key), "N", "force"
+    if kind == "stress":
+        return unit_factor(str(unit), "stress", key=key), "MPa", "stress"
     raise CycjInputError(
         "not a unit of force or stress",
         key=key,

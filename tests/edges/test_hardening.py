@@ -113,10 +113,17 @@ def test_non_empty_out_refused_without_force(inputs, tmp_path, capsys, cmd):
     code, _, err = run_cli([*COMMANDS[cmd](inputs, out), "--no-plots"], capsys)
     assert code == 2 and "not empty" in err and "--force" in err
     assert sorted(p.name for p in out.iterdir()) == ["keep.txt"]
+    # --force replaces only a folder cycj wrote (with its manifest): the user's file stays
+    code, _, err = run_cli([*COMMANDS[cmd](inputs, out), "--no-plots", "--force"], capsys)
+    assert code == 2 and "only a folder cycj wrote" in err
+    assert sorted(p.name for p in out.iterdir()) == ["keep.txt"]
+    (out / "keep.txt").unlink()
+    code, _, err = run_cli([*COMMANDS[cmd](inputs, out), "--no-plots"], capsys)
+    assert code == 0, err
     code, _, err = run_cli([*COMMANDS[cmd](inputs, out), "--no-plots", "--force"], capsys)
     assert code == 0, err
-    assert not (out / "keep.txt").exists()
-    assert not [p for p in tmp_path.iterdir() if ".tmp-" in p.name or ".old-" in p.name]
+    assert (out / ".cycj-output.json").is_file()
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]  # no work folder, no lock
 
 
 @pytest.mark.parametrize("cmd", sorted(COMMANDS))
@@ -160,8 +167,8 @@ def test_interrupt_while_writing_leaves_nothing(inputs, tmp_path, capsys, monkey
     from cycj import outputs
 
     out = tmp_path / "out"
-    out.mkdir()
-    (out / "old.txt").write_text("old")
+    with outputs.OutputDir(out) as od:  # an earlier output folder of cycj
+        od.write_text("old.txt", "old")
 
     def boom(self, name, data):
         raise KeyboardInterrupt
@@ -170,7 +177,7 @@ def test_interrupt_while_writing_leaves_nothing(inputs, tmp_path, capsys, monkey
     code, _, err = run_cli([*COMMANDS[cmd](inputs, out), "--force", "--no-plots"], capsys)
     assert code == 130 and "stopped" in err
     assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]
-    assert sorted(p.name for p in out.iterdir()) == ["old.txt"]
+    assert sorted(p.name for p in out.iterdir()) == [".cycj-output.json", "old.txt"]
 
 
 def test_error_while_writing_leaves_nothing(inputs, tmp_path, capsys, monkeypatch):

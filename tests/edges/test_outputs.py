@@ -22,7 +22,7 @@ def test_output_dir_removed_on_error(tmp_path):
         od.write_text("half.txt", "partial")
         raise RuntimeError("stop")
     assert not out.exists()
-    assert not [p for p in tmp_path.iterdir()]
+    assert not [p for p in tmp_path.iterdir()]  # no work folder, no lock left
 
 
 def test_non_empty_refused_unless_force(tmp_path):
@@ -31,9 +31,16 @@ def test_non_empty_refused_unless_force(tmp_path):
     (out / "old.txt").write_text("keep me")
     with pytest.raises(CycjInputError, match="not empty"):
         OutputDir(out)
+    # --force replaces only a folder cycj wrote: this one has no manifest
+    with pytest.raises(CycjInputError, match="only a folder cycj wrote"):
+        OutputDir(out, force=True)
+    assert (out / "old.txt").read_text() == "keep me"
+    (out / "old.txt").unlink()
+    with OutputDir(out) as od:
+        od.write_text("first.txt", "first")
     with OutputDir(out, force=True) as od:
         od.write_text("new.txt", "new")
-    assert sorted(p.name for p in out.iterdir()) == ["new.txt"]
+    assert sorted(p.name for p in out.iterdir()) == [".cycj-output.json", "new.txt"]
 
 
 def test_report_has_caution_and_only_embedded_images(tmp_path):

@@ -30,7 +30,8 @@ elastic_modulus = "200 GPa"
 poisson_ratio = 0.3
 yield_strength = "355 MPa"
 toughness = { J_c = "12 kJ/m^2" }
-growth = { law = "paris", from_delta_K = { C = 1.648e-8, m = 3.0, driving_unit = "MPa*m**0.5" } }
+growth.law = "paris"
+growth.from_delta_K = { C = 1.648e-8, m = 3.0, rate_unit = "mm", driving_unit = "MPa*m**0.5" }
 [geometry]
 shape = "center-crack-infinite-plate"
 crack_length = "1 mm"

@@ -146,6 +146,7 @@ def test_count_command_outputs_and_refusal(tmp_path, capsys):
     names = sorted(p.name for p in out_dir.iterdir())
     assert names == sorted(
         [
+            ".cycj-output.json",
             "cycles.csv",
             "range_mean_matrix.csv",
             "from_to_matrix.csv",
