@@ -159,7 +159,7 @@ def load_case(path) -> Case:
     path = Path(path)
     from dataclasses import replace
 
-    from cycj.outputs import noted_mark, noted_since
+    from cycj.inputs_read import noted_mark, noted_since
 
     mark = noted_mark()
     raw = read_toml(path, role="case")
@@ -333,7 +333,7 @@ def _geometry(t: Table, base: Path) -> Geometry:
         path = base / table
         if not path.is_file():
             raise t.error("table", "table file not found", found=str(path))
-        from cycj.outputs import note_input
+        from cycj.inputs_read import note_input
 
         note_input(path, "table")
         kw["table"] = read_table(path, source=str(path))

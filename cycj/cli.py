@@ -54,7 +54,7 @@ def cli():
 def main(argv=None):
     """Entry point: run the group and turn input errors into one line and exit status 2."""
     from cycj.errors import CycjInputError, ValidityRangeError
-    from cycj.outputs import forget_inputs
+    from cycj.inputs_read import forget_inputs
 
     forget_inputs()  # a new command: the inputs it reads are noted afresh
     try:

@@ -129,7 +129,7 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         history = base / hist
         if not history.is_file():
             raise t.error("history", "history file not found", found=str(history))
-        from cycj.outputs import note_input
+        from cycj.inputs_read import note_input
 
         note_input(history, "history")
     closure = _closure(t)

@@ -19,6 +19,7 @@ from datetime import UTC, datetime
 from pathlib import Path
 
 from cycj.errors import CycjInputError
+from cycj.inputs_read import inputs_read
 
 
 def _jsonable(obj):
@@ -57,41 +58,6 @@ TMP_TAG = ".cycj-tmp-"
 OLD_TAG = ".cycj-old-"
 #: lock file beside the output folder while a run writes it: ``.NAME.cycj-lock``
 LOCK_TAG = ".cycj-lock"
-
-# every file read (or about to be read) by this process's command: (role, path)
-_NOTED: list[tuple[str, Path]] = []
-
-
-def note_input(path, role: str = "input") -> None:
-    """Remember that the command reads ``path`` (an output folder may never hold it)."""
-    if path is not None:
-        _NOTED.append((role, Path(path)))
-
-
-def noted_mark() -> int:
-    """Position in the list of inputs read (for :func:`noted_since`)."""
-    return len(_NOTED)
-
-
-def noted_since(mark: int) -> tuple[tuple[str, Path], ...]:
-    """The (role, path) pairs noted since ``mark``, each path once."""
-    seen, out = set(), []
-    for role, p in _NOTED[mark:]:
-        key = str(p.resolve())
-        if key not in seen:
-            seen.add(key)
-            out.append((role, p))
-    return tuple(out)
-
-
-def inputs_read() -> list[Path]:
-    """Every file noted by :func:`note_input` since the command started."""
-    return [p for _, p in noted_since(0)]
-
-
-def forget_inputs() -> None:
-    """Start a new command: forget the inputs noted so far."""
-    _NOTED.clear()
 
 
 def _pid_alive(pid: int) -> bool:

@@ -17,7 +17,7 @@ from cycj.units import to_internal
 def read_toml(path, role: str = "input") -> dict:
     """Parse a TOML file (a UTF-8 byte-order mark is allowed); a missing file or bad syntax is
     one clear error.  The file is noted as an input of the command (``role``)."""
-    from cycj.outputs import note_input
+    from cycj.inputs_read import note_input
 
     path = Path(path)
     if not path.is_file():

@@ -61,7 +61,7 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     src = str(path)
     if not path.is_file():
         raise CycjInputError("log file not found", source=src)
-    from cycj.outputs import note_input
+    from cycj.inputs_read import note_input
 
     note_input(path, "log")
     from cycj.spectrum.reading import sniff_delimiter

@@ -62,7 +62,7 @@ def read_profile(raw, key: str, source, base: Path, unit_scale: bool = False):
     if path is not None:
         import numpy as np
 
-        from cycj.outputs import note_input
+        from cycj.inputs_read import note_input
 
         p = base / path
         note_input(p, "profile")

@@ -23,7 +23,7 @@ def read_pod_data(path):
     path = Path(path)
     if not path.is_file():
         raise CycjInputError("file not found", source=str(path))
-    from cycj.outputs import note_input
+    from cycj.inputs_read import note_input
 
     note_input(path, "pod_data")
     from cycj.spectrum.reading import _split, sniff_delimiter

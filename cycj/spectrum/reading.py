@@ -87,7 +87,7 @@ def read_history_with_time(
             raise CycjInputError(f"{name} must be a finite non-zero number", source=src, found=f)
     if not path.is_file():
         raise CycjInputError("history file not found", source=src)
-    from cycj.outputs import note_input
+    from cycj.inputs_read import note_input
 
     note_input(path, "history")
     suffix = path.suffix.lower()
