@@ -156,7 +156,7 @@ def k_gradient(a, delta_j):
     return float(0.5 * np.polyfit(a, np.log(dj), 1)[0])
 
 
-def direct_fit(series, C0, m0, confidence=0.95):
+def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
     """Fit C and m to measured a(N) by integrating da/dN = C·ΔJ(a)^m (scipy least_squares).
 
     Parameters
@@ -164,6 +164,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
     series : list of dicts with ``cycle, a_mm`` (readings) and ``a_tab, dj_tab`` (ΔJ_eff as a
         function of crack length for that test, increasing in a)
     C0, m0 : starting values
+    free_start : fit each test's start a_0 as a parameter (default: fixed at its first
+        reading, so the fit cannot trade the start of a test against C)
 
     Returns
     -------
@@ -174,7 +176,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
     Notes
     -----
     For each test N(a) = N_0 + ∫_{a_0}^{a} da'/(C·ΔJ(a')^m) on a fine grid (trapezoidal rule),
-    inverted by interpolation at the measured cycles; parameters ln C, m and one a_0 per test.
+    inverted by interpolation at the measured cycles; parameters ln C, m (and one a_0 per test
+    when ``free_start``; otherwise a_0 is the test's first reading).
     Intervals from the Jacobian at the solution, cov = s²·(JᵀJ)⁻¹.
     """
     from scipy import stats
@@ -200,7 +203,7 @@ def direct_fit(series, C0, m0, confidence=0.95):
         for i, s in enumerate(series):
             cyc = s["cycle"] if cycles is None else cycles[i]
             ag, dj = grids[i]
-            a0 = p[2 + i]
+            a0 = p[2 + i] if free_start else s["a_mm"][0]
             inv = 1.0 / (np.exp(lnc) * dj**m)
             nn = np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(ag))])
             n0 = np.interp(a0, ag, nn)
@@ -210,9 +213,10 @@ def direct_fit(series, C0, m0, confidence=0.95):
     def resid(p):
         return np.concatenate([pa - s["a_mm"] for pa, s in zip(predict(p), series, strict=True)])
 
-    p0 = np.concatenate([[math.log(C0), m0], [s["a_mm"][0] for s in series]])
-    lo = np.concatenate([[-80, 0.05], [g[0][0] for g in grids]])
-    hi = np.concatenate([[20, 20], [g[0][-1] for g in grids]])
+    starts = [s["a_mm"][0] for s in series] if free_start else []
+    p0 = np.concatenate([[math.log(C0), m0], starts])
+    lo = np.concatenate([[-80, 0.05], [g[0][0] for g in grids] if free_start else []])
+    hi = np.concatenate([[20, 20], [g[0][-1] for g in grids] if free_start else []])
     p0 = np.clip(p0, lo + 1e-9, hi - 1e-9)
     sol = least_squares(resid, p0, bounds=(lo, hi), x_scale="jac")
     n = sol.fun.size
@@ -236,7 +240,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
         "m_interval": [m - t * sd[1], m + t * sd[1]],
         "sigma_a_mm": math.sqrt(s2),
         "n": int(n),
-        "a0_mm": sol.x[2:].tolist(),
+        "a0_mm": sol.x[2:].tolist() if free_start else [float(s["a_mm"][0]) for s in series],
+        "start": "fitted per test" if free_start else "fixed at each test's first reading",
         "curves": curves,
         "success": bool(sol.success),
         "message": str(sol.message),

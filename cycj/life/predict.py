@@ -22,6 +22,7 @@ from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
 from cycj.life.model import model_array, size_limit
+from cycj.life.validity import valid_range_warning
 
 #: rows of history aimed at between the initial and the critical crack size
 HISTORY_ROWS = 400
@@ -231,6 +232,9 @@ def predict_life(
         hist = hist.drop(columns="c_mm")
     hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
     hist = hist.reset_index(drop=True)
+    outside = valid_range_warning(case, loads, mp, hist)
+    if outside:
+        warnings.append(outside)
     reason = END_NAMES[end]
     summary = {
         "title": case.title,
