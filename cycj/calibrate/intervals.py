@@ -13,6 +13,8 @@ import math
 
 import numpy as np
 
+from cycj.errors import ValidityRangeError
+
 __all__ = ["scatter_and_intervals", "test_groups"]
 
 
@@ -56,15 +58,26 @@ def scatter_and_intervals(fits, chosen, labels, confidence, resamples, seed, dJ_
     reg = reg or fits.get("polynomial") or fits.get("secant")
     if reg is None:
         best = dict(fits[chosen])
-        return best, None, [], {"n_specimens": None, "note": "no rates: no per-specimen fits"}
+        return best, None, [], _no_between(0, "no rates: no per-specimen fits")
     groups = test_groups(reg["points"], labels)
     x = [np.log(g["dJ"]) for g in groups]
     y = [np.log(g["dadN"]) for g in groups]
     lo, hi = reg["dJ_range_kJm2"]
     at = np.atleast_1d(np.asarray(dJ_at if dJ_at is not None else math.sqrt(lo * hi), float))
-    iv = resampled_intervals(
-        x, y, x_at=np.log(at), confidence=confidence, resamples=resamples, seed=seed
-    )
+    try:
+        if not groups:
+            raise ValidityRangeError("no test has three rates")
+        iv = resampled_intervals(
+            x, y, x_at=np.log(at), confidence=confidence, resamples=resamples, seed=seed
+        )
+    except ValidityRangeError as exc:
+        warnings.append(
+            f"no resampling intervals ({exc}): the intervals are those of ordinary least "
+            "squares, which treat every rate as independent (too narrow)"
+        )
+        best = dict(fits[chosen])
+        best["interval_method"] = "ordinary least squares (rates taken as independent)"
+        return best, None, [], _no_between(len(groups), f"no per-specimen fits: {exc}")
     if chosen == "direct":
         best = dict(fits["direct"])
         m = best["m"]
@@ -88,3 +101,14 @@ def scatter_and_intervals(fits, chosen, labels, confidence, resamples, seed, dJ_
         )
     per_spec, between = between_specimen(groups, m, confidence)
     return best, iv, per_spec, between
+
+
+def _no_between(n, note):
+    """The ``between_specimen`` block when no per-specimen fits could be made."""
+    return {
+        "sigma_ln_C": None,
+        "sigma_ln_C_interval": None,
+        "n_specimens": n,
+        "m_fixed": None,
+        "note": note,
+    }

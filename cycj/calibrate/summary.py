@@ -140,8 +140,9 @@ def growth_snippet(summary) -> str:
             f'# growth_C = {{ distribution = "lognormal", sigma = {between["sigma_ln_C"]:.3g} }}',
         ]
     else:
+        why = "one specimen" if g == 1 else "see between_specimen in fit.json"
         lines.append(
-            "# scatter between specimens: unknown (one specimen); the within-test rate "
+            f"# scatter between specimens: unknown ({why}); the within-test rate "
             "scatter in fit.json is not a planning scatter"
         )
     if summary["basis"] == "effective":
