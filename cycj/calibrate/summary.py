@@ -135,8 +135,11 @@ def growth_snippet(summary) -> str:
         f"(kJ/m^2)^m; data ΔJ {lo:.4g}–{hi:.4g} kJ/m^2 (valid_dJ), R {r0:.2f}–{r1:.2f}",
     ]
     if between.get("sigma_ln_C") is not None:
+        hi_s = (between.get("sigma_ln_C_interval") or [None, None])[1]
+        rough = f"; rough: its interval reaches {hi_s:.3g}" if g < 5 and hi_s else ""
         lines += [
-            f"# scatter between specimens ({g} specimens, m fixed): for [inspection.scatter]",
+            f"# scatter between specimens ({g} specimens, m fixed{rough}): "
+            "for [inspection.scatter]",
             f'# growth_C = {{ distribution = "lognormal", sigma = {between["sigma_ln_C"]:.3g} }}',
         ]
     else:
