@@ -214,3 +214,29 @@ def test_fit_json_contract_keys(spec_path, tmp_path):
     assert all(r["interval"][0] < r["dadN_mm_per_cycle"] < r["interval"][1] for r in s["rate_at"])
     assert (out / "per_specimen.csv").is_file()
     assert math.isfinite(s["C"])
+
+
+def test_long_format_raw_loops(tmp_path):
+    # raw loops of two tests in one file (specimen, cycle, load, displacement)
+    import pandas as pd
+
+    from cycj.calibrate.simulate import simulate_test
+
+    p = tmp_path / "ct.toml"
+    p.write_text(SPEC.format(label="ct"))
+    spec = read_specimen(p)
+    frames = []
+    for i, (pmax, seed) in enumerate(((14000, 1), (16000, 2))):
+        sim = simulate_test(
+            spec, TRUE_C, TRUE_M, p_max=pmax, record_every=400, crack_end=24, samples=60, seed=seed
+        )
+        frames.append(
+            sim.raw.assign(specimen=f"R{i}")[["specimen", "cycle", "load", "displacement"]]
+        )
+    log = tmp_path / "raw.csv"
+    pd.concat(frames).to_csv(log, index=False)
+    res = fit_logs(log, p, resamples=200)
+    s = res.summary
+    assert s["basis"] == "effective" and s["n_tests"] == 2
+    assert [r["test"] for r in s["per_specimen"]] == ["raw.csv:R0", "raw.csv:R1"]
+    assert s["m"] == pytest.approx(TRUE_M, abs=0.1)
