@@ -113,7 +113,9 @@ def coverage_study(
         method = iv["method"]
         lo, hi = iv["m_interval"]
         hit["m"] += lo <= m <= hi
-        true_rate = math.log(C) + m * math.log(res["dJ_mid"])
+        # one specimen: its interval is that of its own constants (its own C is the truth)
+        c_true = C if n_specimens > 1 else float(prog.C_specimens[0])
+        true_rate = math.log(c_true) + m * math.log(res["dJ_mid"])
         rlo, rhi = iv["ln_rate_interval"][0][0], iv["ln_rate_interval"][1][0]
         hit["rate_mid"] += rlo <= true_rate <= rhi
         if b["sigma_ln_C_interval"] is not None:
