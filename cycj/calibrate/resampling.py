@@ -172,7 +172,9 @@ def resampled_intervals(x, y, *, x_at, confidence=0.95, resamples=1000, seed=0):
         blocks = [block_length(xi.size) for xi in x]
         note = (
             f"rates of each specimen resampled in moving blocks of {min(blocks)}–{max(blocks)} "
-            f"consecutive rates ({resamples} resamples), which keeps their serial correlation"
+            f"consecutive rates ({resamples} resamples), which keeps their serial correlation "
+            "(conservative when the rates' errors come from independent reading errors, whose "
+            "effect on neighbouring rates cancels across blocks)"
         )
         if g == 1:
             note += (
