@@ -107,8 +107,10 @@ def fit_logs(
 
     from cycj.calibrate import fits as ft
     from cycj.calibrate import reduction as rd
+    from cycj.calibrate.intervals import scatter_and_intervals
     from cycj.calibrate.logs import RawLog
     from cycj.calibrate.replicates import read_tests
+    from cycj.calibrate.summary import summary as make_summary
 
     if method not in METHODS:
         raise CycjInputError(
@@ -205,13 +207,9 @@ def fit_logs(
         warnings.append(f"direct fit on a(N) failed: {exc}")
         curves = []
     chosen, reason = _choose(method, fits)
-    from cycj.calibrate.intervals import scatter_and_intervals
-
     best, iv, per_spec, between = scatter_and_intervals(
         fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings
     )
-    from cycj.calibrate.summary import summary as make_summary
-
     summary = make_summary(
         {
             "fits": fits,

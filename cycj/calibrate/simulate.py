@@ -332,6 +332,7 @@ def simulate_programme(
     :func:`true_delta_j`, without closure); a specimen with C_i follows it with the cycles
     scaled by C/C_i (da/dN ∝ C), so a programme of many tests takes milliseconds.
 
+    ``crack_end`` [mm] defaults to half way from the initial crack to the upper validity limit.
     ``paths`` (from :func:`programme_paths` with the same arguments) saves integrating the
     noise-free paths again when many programmes share them.
 
@@ -385,7 +386,9 @@ def _path(specimen, C, m, p_max, r_ratio, crack_end):
     """Noise-free (cycles, a) of a constant-amplitude test without closure (fine grid)."""
     geo = specimen.geometry
     a0 = specimen.initial_crack
-    a_end = crack_end if crack_end is not None else 0.95 * geo.size_limits[1]
+    # default: half way from the initial crack to the upper validity limit (a test's usual
+    # stretch of stable growth)
+    a_end = crack_end if crack_end is not None else a0 + 0.5 * (geo.size_limits[1] - a0)
     a = np.linspace(a0, a_end, 2000)
     pmax = np.full_like(a, p_max)
     dj = true_delta_j(specimen, a, pmax, r_ratio * pmax, r_ratio * pmax)

@@ -56,6 +56,11 @@ def summary(ctx) -> dict:
                 "ordinary least squares: treats every rate as independent (too narrow for "
                 "rates that share a specimen); see C_interval, m_interval at the top level"
             )
+    if "direct" in plain:
+        plain["direct"]["interval_note"] = (
+            "Jacobian of the a(N) least squares: readings taken as independent and C as the "
+            "mean of the tests' own ln C_i without their scatter (narrow)"
+        )
     basis = ctx["basis"]
     closure = (
         "opening load measured by compliance offset; ΔJ_eff above it"

@@ -107,7 +107,7 @@ def fit(
         f"[{s['C_interval'][0]:.3g}, {s['C_interval'][1]:.3g}]"
     )
     click.echo(
-        f"m = {s['m']:.4g}  [{s['m_interval'][0]:.3g}, {s['m_interval'][1]:.3g}]  "
+        f"m = {s['m']:.4g}  [{s['m_interval'][0]:.4g}, {s['m_interval'][1]:.4g}]  "
         f"({s['recommended_fit']} fit, basis {s['basis']})"
     )
     click.echo(f"intervals: {s['interval_method']}")
