@@ -1,9 +1,17 @@
-"""Benchmark: reduce 10⁴ recorded loops of 500 samples each (target < 30 s on 2 shared cores).
+"""Benchmarks of ``cycj fit`` (targets < 30 s each on 2 shared cores).
 
-Synthesises the loops with the virtual test frame (not timed), then times the compiled loop
-reduction alone and the whole per-log reduction (compliance → a, opening load, loop area, ΔJ,
-rates).  The first call includes numba compilation (or loading from the cache); it is timed
-separately.
+1. Reduce 10⁴ recorded loops of 500 samples each: synthesises the loops with the virtual test
+   frame (not timed), then times the compiled loop reduction alone and the whole per-log
+   reduction (compliance → a, opening load, loop area, ΔJ, rates).  The first call includes
+   numba compilation (or loading from the cache); it is timed separately.
+2. A replicate programme of 100 specimens × 200 readings in one long-format file, fitted with
+   1,000 resamples (``fit_logs``: reduction, rates, regressions, cluster bootstrap,
+   per-specimen fits, direct a(N) fit).
+3. The coverage study on the virtual test frame: 200 programmes of 8 specimens (known C, m,
+   noise on a, σ_ln C = 0.15 between specimens, fixed seed): the share of nominal 95 %
+   intervals of m, da/dN at mid-range and σ_ln C that hold the truth (the tests run 100);
+   then 200 single-specimen programmes (moving-block bootstrap; the truth of da/dN is the
+   specimen's own C).
 
     python bench/bench_fit.py [n_loops] [samples]
 """
@@ -103,6 +111,61 @@ def main(n_loops=10_000, samples=500):
     )
 
 
+def programme(n_specimens=100, readings=200, resamples=1000):
+    """Time fit_logs on one long-format log of a simulated replicate programme."""
+    from cycj.calibrate import fit_logs
+    from cycj.calibrate.simulate import simulate_programme
+    from cycj.calibrate.specimen import read_specimen
+
+    with tempfile.TemporaryDirectory() as tmp:
+        p = Path(tmp) / "spec.toml"
+        p.write_text(SPECIMEN.replace("cyclic_curve", "# cyclic_curve"))
+        spec = read_specimen(p)
+        prog = simulate_programme(
+            spec, 6e-5, 1.5, n_specimens=n_specimens, readings=readings, crack_end=30, seed=4
+        )
+        log = Path(tmp) / "programme.csv"
+        prog.crack.to_csv(log, index=False)
+        t0 = time.perf_counter()
+        res = fit_logs(log, p, resamples=resamples)
+        t_fit = time.perf_counter() - t0
+    s = res.summary
+    b = s["between_specimen"]
+    print(
+        f"programme: {n_specimens} specimens x {readings} readings, {resamples} resamples: "
+        f"fit_logs {t_fit:.1f} s (target < 30 s)"
+    )
+    print(
+        f"  m = {s['m']:.4f} [{s['m_interval'][0]:.4f}, {s['m_interval'][1]:.4f}] (true 1.5), "
+        f"sigma_ln_C = {b['sigma_ln_C']:.3f} [{b['sigma_ln_C_interval'][0]:.3f}, "
+        f"{b['sigma_ln_C_interval'][1]:.3f}] (true 0.15), {s['interval_method']}"
+    )
+
+
+def coverage(programmes=200, n_specimens=8):
+    """The full coverage study (the tests run a smaller count)."""
+    from cycj.calibrate.coverage import coverage_study
+    from cycj.calibrate.specimen import read_specimen
+
+    with tempfile.TemporaryDirectory() as tmp:
+        p = Path(tmp) / "spec.toml"
+        p.write_text(SPECIMEN.replace("cyclic_curve", "# cyclic_curve"))
+        spec = read_specimen(p)
+    t0 = time.perf_counter()
+    cov = coverage_study(spec, programmes=programmes, n_specimens=n_specimens, crack_end=30)
+    print(
+        f"coverage over {cov['programmes']} programmes of {cov['n_specimens']} specimens "
+        f"({cov['method']}, nominal 95 %): m {100 * cov['m']:.1f} %, da/dN at mid-range "
+        f"{100 * cov['rate_mid']:.1f} %, sigma_ln_C "
+        + (f"{100 * cov['sigma_ln_C']:.1f} %; " if n_specimens > 1 else "n/a; ")
+        + f"median |life error| per specimen {100 * cov['life_error']:.2f} % "
+        f"({time.perf_counter() - t0:.0f} s)"
+    )
+
+
 if __name__ == "__main__":
     args = [int(a) for a in sys.argv[1:3]]
     main(*args)
+    programme()
+    coverage()
+    coverage(n_specimens=1)  # one specimen: moving-block bootstrap, its own constants

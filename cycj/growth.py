@@ -236,6 +236,8 @@ class GrowthLaw:
     law: str = "paris"
     toughness_exponent: float = 0.0
     converted_from: dict | None = None
+    #: ΔJ range [kJ/m²] of the data behind the constants (``valid_dJ``), or None
+    valid_dJ: tuple | None = None
 
     def rate(self, delta_j):
         """da/dN [mm/cycle] for ΔJ [kJ/m²] (vectorised; no acceleration term)."""

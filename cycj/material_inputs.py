@@ -67,6 +67,31 @@ def read_material(t: Table, geometry: Geometry) -> tuple[Material, str]:
 
 
 def read_growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
+    from dataclasses import replace
+
+    valid = _valid_dj(t)
+    return replace(_read_growth(t, material, geometry), valid_dJ=valid)
+
+
+def _valid_dj(t: Table):
+    """``valid_dJ = ["1.46 kJ/m^2", "3.89 kJ/m^2"]``: the ΔJ range of the data behind the
+    constants (written by ``cycj fit``), as (low, high) [kJ/m²], or None."""
+    raw = t.get("valid_dJ")
+    if raw is None:
+        return None
+    if not isinstance(raw, list) or len(raw) != 2:
+        raise t.error(
+            "valid_dJ", "must be a list of two ΔJ values", expected='["1 kJ/m^2", "4 kJ/m^2"]'
+        )
+    lo, hi = (
+        to_internal(v, "energy_per_area", key=t.key("valid_dJ"), source=t.source) for v in raw
+    )
+    if not 0 <= lo < hi:
+        raise t.error("valid_dJ", "out of range", expected="0 ≤ low < high", found=raw)
+    return (lo, hi)
+
+
+def _read_growth(t: Table, material: Material, geometry: Geometry) -> GrowthLaw:
     law = t.choice("law", models.names("growth_law"), default="paris")
     basis = t.choice("basis", ("applied", "effective"), default="applied")
     q = t.number("toughness_exponent", default=0.0, nonnegative=True)

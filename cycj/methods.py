@@ -73,6 +73,21 @@ _METHODS = {
         "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
         "reference stress J (shapes without an η factor)",
     ),
+    "cluster-bootstrap": (
+        "Davison, A. C., Hinkley, D. V., Bootstrap Methods and their Application, Cambridge "
+        "University Press (1997) §3.8: resampling whole specimens (cluster bootstrap) for "
+        "intervals of C, m and da/dN (section from memory)",
+    ),
+    "moving-block-bootstrap": (
+        "Künsch, H. R., Ann. Statist. 17 (1989) 1217–1241: the moving-block bootstrap of a "
+        "serially correlated series",
+        "Davison, A. C., Hinkley, D. V., Bootstrap Methods and their Application (1997) §8.2: "
+        "block resampling of a dependent series (section from memory)",
+    ),
+    "between-specimen-scatter": (
+        "Laird, N. M., Ware, J. H., Biometrics 38 (1982) 963–974: random-effects model, one "
+        "intercept ln C per specimen with m fixed; the scatter of ln C between specimens",
+    ),
     # job 3: planning
     "life-scaling": (
         "Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528–534: life scales as 1/C",

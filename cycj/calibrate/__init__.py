@@ -1,7 +1,8 @@
 """Job 2, calibration of da/dN = C·ΔJ^m from test logs (``cycj fit``).
 
-Rooms: fit (orchestrator), logs, specimen, loops, compliance, reduction, rates, fits, simulate
-(virtual test frame), plots and write (output files).  The public names are re-exported here."""
+Rooms: fit (orchestrator), logs, replicates, specimen, loops, compliance, reduction, rates,
+fits, intervals, resampling, between, summary, simulate (virtual test frame), coverage, plots
+and write (output files).  The public names are re-exported here."""
 
 import importlib
 

@@ -1,9 +1,12 @@
 """Calibration of da/dN = C·ΔJ^m from fatigue crack growth test logs (``cycj fit``).
 
-Orchestrator: logs and specimen files → reduced loops (:mod:`.reduction`) → da/dN
-(:mod:`.rates`) → fits (:mod:`.fits`) → :class:`FitResult` with ``summary`` (the content of
-``fit.json``), ``reduced`` and ``rates`` (DataFrames), ``snippet`` (a ``growth = {...}`` line for
-a case's ``[material]`` table), skip reasons and warnings.
+Orchestrator: logs and specimen files (one test a file, or many tests in a long-format file:
+:mod:`.replicates`) → reduced loops (:mod:`.reduction`) → da/dN on every reading
+(:mod:`.rates`) → fits (:mod:`.fits`), intervals by resampling (:mod:`.resampling`) and the
+scatter between specimens (:mod:`.between`) → :class:`FitResult` with ``summary`` (the
+content of ``fit.json``, :mod:`.summary`), ``reduced`` and ``rates`` (DataFrames),
+``snippet`` (a ``growth = {...}`` line for a case's ``[material]`` table), skip reasons and
+warnings.
 
 Estimates for engineering judgement: they do not replace the applicable test standard or a
 qualified engineer's review.
@@ -11,26 +14,21 @@ qualified engineer's review.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
 
+from cycj.calibrate.summary import CAUTION, growth_snippet
 from cycj.errors import CycjInputError
 
-__all__ = ["FitResult", "fit_logs", "METHODS"]
+__all__ = ["FitResult", "fit_logs", "METHODS", "CAUTION", "growth_snippet"]
 
 #: fit methods: the recommended fit is chosen among these (``auto`` explains its choice)
 METHODS = ("auto", "polynomial", "secant", "direct")
 #: rates below this belong to the near-threshold region and stay out of the Paris fit when a
 #: threshold was determined [mm/cycle] (ASTM E647 near-threshold region, 10⁻⁹ m/cycle)
 NEAR_THRESHOLD_RATE = 1e-6
-CAUTION = (
-    "Estimates for engineering judgement: they depend on the quality of the test logs "
-    "and do not replace the applicable test standard (ASTM E647, E1820) or a qualified "
-    "engineer's review."
-)
 
 
 @dataclass
@@ -56,38 +54,45 @@ class FitResult:
         return self.summary["m"]
 
 
-def _specimens(log_paths, specimen_path):
-    from cycj.calibrate.specimen import read_specimen
-
-    paths = [specimen_path] if isinstance(specimen_path, (str, Path)) else list(specimen_path)
-    if not paths:
-        raise CycjInputError("no specimen file given", key="--specimen")
-    if len(paths) not in (1, len(log_paths)):
-        raise CycjInputError(
-            "give one specimen file for all logs or one per log",
-            key="--specimen",
-            expected=f"1 or {len(log_paths)}",
-            found=len(paths),
-        )
-    specs = [read_specimen(p) for p in paths]
-    return specs * len(log_paths) if len(specs) == 1 else specs
+def _as_list(paths):
+    return [paths] if isinstance(paths, (str, Path)) else list(paths)
 
 
 def fit_logs(
-    log_paths, specimen_path, method="auto", *, spacing="e647", confidence=0.95, outlier_limit=3.5
+    log_paths,
+    specimen_path,
+    method="auto",
+    *,
+    spacing="all",
+    confidence=0.95,
+    outlier_limit=None,
+    resamples=1000,
+    seed=0,
+    dJ_at=None,
+    free_start=False,
 ):
     """Fit da/dN = C·ΔJ_eff^m to fatigue crack growth test logs.
 
     Parameters
     ----------
     log_paths : path or list of paths, CSV logs (raw loops ``cycle, load, displacement`` or
-        crack lengths ``cycle, crack_length, load_max, load_min``)
-    specimen_path : path, or list of paths (one per log), specimen TOML files
+        crack lengths ``cycle, crack_length, load_max, load_min``; with a ``specimen`` column
+        one file holds many tests)
+    specimen_path : path or list of paths, specimen TOML files: one for all tests, one per
+        test (matched by label, else in order) or one per log file
     method : ``"auto"`` | ``"polynomial"`` | ``"secant"`` | ``"direct"``: the fit reported as
         the recommended C, m (all are computed)
-    spacing : ``"e647"`` (thin readings to the E647 minimum crack extension) or ``"all"``
+    spacing : ``"all"`` (every reading, the default) or ``"e647"`` (thin readings to the E647
+        minimum crack extension)
     confidence : level of the intervals and the prediction band
-    outlier_limit : rate points farther than this many robust σ from the line are skipped
+    outlier_limit : None (the default: no rejection) or a number: rate points farther than
+        this many robust σ from the line, and loops whose crack length is far off its
+        neighbours, are dropped (each listed in ``skipped`` with its reason)
+    resamples, seed : bootstrap resamples behind the intervals and their random seed
+    dJ_at : ΔJ values [kJ/m²] where da/dN and its interval are reported (default: the
+        geometric middle of the data range)
+    free_start : direct a(N) fit with each test's start fitted (default: fixed at its first
+        reading)
 
     Returns
     -------
@@ -102,30 +107,30 @@ def fit_logs(
 
     from cycj.calibrate import fits as ft
     from cycj.calibrate import reduction as rd
-    from cycj.calibrate.logs import RawLog, read_log
+    from cycj.calibrate.intervals import scatter_and_intervals
+    from cycj.calibrate.logs import RawLog
+    from cycj.calibrate.replicates import read_tests
+    from cycj.calibrate.summary import summary as make_summary
 
     if method not in METHODS:
         raise CycjInputError(
             "unknown fit method", key="--method", expected=", ".join(METHODS), found=method
         )
-    if isinstance(log_paths, (str, Path)):
-        log_paths = [log_paths]
-    log_paths = list(log_paths)
+    if spacing not in ("all", "e647"):
+        raise CycjInputError(
+            "unknown spacing", key="--spacing", expected="all, e647", found=spacing
+        )
+    log_paths = _as_list(log_paths)
     if not log_paths:
         raise CycjInputError("no log file given", key="LOG")
-    specs = _specimens(log_paths, specimen_path)
+    tests = read_tests(log_paths, _as_list(specimen_path))
+    specs = [spec for _, spec in tests]
     skipped, warnings, frames, rate_frames, notes, series, typical = [], [], [], [], {}, [], None
-    kinds, spacing_info, gradients = set(), {}, {}
-    for path, spec in zip(log_paths, specs, strict=True):
-        log = read_log(
-            path,
-            load_factor=spec.load_factor,
-            displacement_factor=spec.displacement_factor,
-            crack_factor=spec.crack_factor,
-        )
+    kinds, spacing_info, gradients, labels = set(), {}, {}, {}
+    for log, spec in tests:
         if isinstance(log, RawLog):
             kinds.add("raw")
-            rows, sk, nt, typ = rd.reduce_raw_log(log, spec)
+            rows, sk, nt, typ = rd.reduce_raw_log(log, spec, outliers=outlier_limit is not None)
             typical = typical or typ
         else:
             kinds.add("crack")
@@ -135,6 +140,7 @@ def fit_logs(
             warnings.append(f"{log.name}: fewer than five usable readings; log left out")
             continue
         notes[log.name] = nt
+        labels[log.name] = spec.label
         rows = _ligament(rows, spec, warnings, log.name)
         rates, info = rd.rates_for_rows(rows, spec, spacing=spacing)
         spacing_info[log.name] = info
@@ -190,31 +196,44 @@ def fit_logs(
     else:
         c0, m0 = 1e-4, 1.5
     try:
-        direct = ft.direct_fit(series, c0, m0, confidence)
+        direct = ft.direct_fit(series, c0, m0, confidence, free_start=free_start)
         curves = direct.pop("curves")
+        direct["dJ_range_kJm2"] = [
+            float(reduced["dJ_eff_kJm2"].min()),
+            float(reduced["dJ_eff_kJm2"].max()),
+        ]
         fits["direct"] = direct
     except (ValueError, np.linalg.LinAlgError) as exc:
         warnings.append(f"direct fit on a(N) failed: {exc}")
         curves = []
     chosen, reason = _choose(method, fits)
-    best = fits[chosen]
-    summary = _summary(
-        best,
-        chosen,
-        reason,
-        fits,
-        basis,
-        reduced,
-        rates_df,
-        threshold,
-        notes,
-        spacing_info,
-        gradients,
-        skipped,
-        warnings,
-        confidence,
-        log_paths,
-        specs,
+    best, iv, per_spec, between = scatter_and_intervals(
+        fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings
+    )
+    summary = make_summary(
+        {
+            "fits": fits,
+            "chosen": chosen,
+            "best": best,
+            "reason": reason,
+            "reduced": reduced,
+            "rates_df": rates_df,
+            "intervals": iv,
+            "between": between,
+            "per_specimen": per_spec,
+            "basis": basis,
+            "threshold": threshold,
+            "gradients": gradients,
+            "spacing_info": spacing_info,
+            "outliers": "off (every reading used)"
+            if outlier_limit is None
+            else f"rates beyond {outlier_limit} robust σ and loops off their neighbours dropped",
+            "notes": notes,
+            "skipped": skipped,
+            "confidence": confidence,
+            "log_paths": log_paths,
+            "specs": specs,
+        }
     )
     snippet = growth_snippet(summary)
     for name, g in gradients.items():
@@ -296,8 +315,19 @@ def _regression(sub, meth, outlier_limit, confidence, skipped):
         use = r >= NEAR_THRESHOLD_RATE
         if use.sum() < 5:
             use[:] = True
-    out = ft.outlier_mask(dj[use], r[use], outlier_limit)
-    idx = np.flatnonzero(use)[out]
+        for i in np.flatnonzero(~use):
+            skipped.append(
+                {
+                    "log": sub["log"].iloc[i],
+                    "cycle": float(sub["cycle"].iloc[i]),
+                    "reason": f"near-threshold {meth} rate below {NEAR_THRESHOLD_RATE:g} "
+                    "mm/cycle: in the threshold fit, not in the Paris fit",
+                }
+            )
+    idx = np.zeros(0, int)
+    if outlier_limit is not None:
+        out = ft.outlier_mask(dj[use], r[use], outlier_limit)
+        idx = np.flatnonzero(use)[out]
     for i in idx:
         skipped.append(
             {
@@ -314,6 +344,7 @@ def _regression(sub, meth, outlier_limit, confidence, skipped):
     fit["R_of_points"] = sub["R"].to_numpy(float)[use]
     fit["dJ_range_kJm2"] = [float(dj[use].min()), float(dj[use].max())]
     fit["_threshold"] = thr
+    fit["points"] = sub[use]
     return fit
 
 
@@ -328,9 +359,10 @@ def _choose(method, fits):
         return method, f"requested with --method {method}"
     if "polynomial" in fits and fits["polynomial"]["n"] >= 10:
         return "polynomial", (
-            "log–log regression on seven-point incremental polynomial rates (ASTM E647 X1): "
-            "the standard's reduction, it gives the scatter of da/dN about the line directly "
-            "(sigma_ln) for probabilistic planning; the direct a(N) fit is a cross-check"
+            "log–log regression on seven-point incremental polynomial rates from every "
+            "reading (ASTM E647 X1), one exponent m for all specimens and one intercept per "
+            "specimen (each specimen counts once in C); intervals by resampling, the scatter "
+            "for planning from the specimens' own C; the direct a(N) fit is a cross-check"
         )
     if "direct" in fits and fits["direct"]["success"]:
         return "direct", (
@@ -340,134 +372,3 @@ def _choose(method, fits):
     if "secant" in fits:
         return "secant", "only the secant rates could be fitted"
     raise CycjInputError("no fit could be made from these logs")
-
-
-def _summary(
-    best,
-    chosen,
-    reason,
-    fits,
-    basis,
-    reduced,
-    rates_df,
-    threshold,
-    notes,
-    spacing_info,
-    gradients,
-    skipped,
-    warnings,
-    confidence,
-    log_paths,
-    specs,
-):
-    from cycj.calibrate.fits import r_ratio_collapse
-
-    reg = fits.get(chosen) if chosen != "direct" else fits.get("polynomial", fits.get("secant"))
-    sigma_ln = reg["sigma_ln"] if reg else None
-    lnc, m = best["lnC"], best["m"]
-    dj = reduced["dJ_eff_kJm2"].to_numpy(float)
-    pivot = reg["pivot_dJ_kJm2"] if reg else float(np.exp(np.mean(np.log(dj[dj > 0]))))
-    r = reduced["R"].to_numpy(float)
-    collapse = (
-        r_ratio_collapse(reg["residuals"], reg["R_of_points"])
-        if reg
-        else {"collapses": None, "note": "no regression"}
-    )
-    plain = {
-        k: {
-            kk: vv
-            for kk, vv in v.items()
-            if kk not in ("residuals", "R_of_points", "x_mean", "sxx", "t")
-        }
-        for k, v in fits.items()
-    }
-    closure = (
-        "opening load measured by compliance offset; ΔJ_eff above it"
-        if basis == "effective"
-        else "none: applied range, P_min < 0 counted as 0"
-    )
-    return {
-        "C": best["C"],
-        "m": m,
-        "C_interval": best["C_interval"],
-        "m_interval": best["m_interval"],
-        "confidence": confidence,
-        "units": {"C": "mm/cycle per (kJ/m^2)^m", "dJ": "kJ/m^2", "dadN": "mm/cycle"},
-        "recommended_fit": chosen,
-        "recommended_reason": reason,
-        "pivot_dJ_kJm2": pivot,
-        "rate_at_pivot_mm_per_cycle": math.exp(lnc + m * math.log(pivot)),
-        "rate_at_pivot_interval": reg["rate_at_pivot_interval"] if reg else None,
-        "cov_lnC_m": best["cov_lnC_m"],
-        "sigma_ln": sigma_ln,
-        "sigma_ln_note": "residual standard deviation of ln(da/dN) about the regression line",
-        "dJ_range_kJm2": [float(np.nanmin(dj)), float(np.nanmax(dj))],
-        "R_range": [float(np.nanmin(r)), float(np.nanmax(r))],
-        "basis": basis,
-        "closure": closure,
-        "threshold_kJm2": threshold["threshold_kJm2"] if threshold else None,
-        "threshold": threshold
-        or {
-            "note": "no load-shedding data between 1e-7 and 1e-6 "
-            "mm/cycle (ASTM E647 needs ≥ 5 points)"
-        },
-        "k_gradient_per_mm": gradients,
-        "spacing": spacing_info,
-        "r_ratio_collapse": collapse,
-        "fits": plain,
-        "methods_used": notes,
-        "n_readings": int(len(reduced)),
-        "n_rates": int(len(rates_df)),
-        "skipped": skipped,
-        "logs": [str(p) for p in log_paths],
-        "specimens": sorted({s.source for s in specs}),
-        "caution": CAUTION,
-        "references": _fit_references(basis, specs),
-    }
-
-
-def growth_snippet(summary) -> str:
-    """A ``growth = {...}`` line (with comment lines) for a case's ``[material]`` table."""
-    thr = summary.get("threshold_kJm2")
-    parts = ['law = "paris"', f"C = {summary['C']:.5g}", f"m = {summary['m']:.5g}"]
-    if thr:
-        parts.append(f'threshold = "{thr:.4g} kJ/m^2"')
-    parts.append(f'basis = "{summary["basis"]}"')
-    lo, hi = summary["dJ_range_kJm2"]
-    r0, r1 = summary["R_range"]
-    lines = [
-        f"# fitted by cycj fit ({summary['recommended_fit']} fit); C in mm/cycle per "
-        f"(kJ/m^2)^m; data ΔJ {lo:.3g}–{hi:.3g} kJ/m^2, R {r0:.2f}–{r1:.2f}",
-        f"# scatter: sigma_ln = {summary['sigma_ln']:.3g}"
-        if summary["sigma_ln"]
-        else "# scatter: see fit.json",
-    ]
-    if summary["basis"] == "effective":
-        lines.append(
-            '# basis "effective": fitted on ΔJ above the measured opening load; pair it '
-            'with a closure model in [loading] (closure = "none" treats the whole '
-            "applied range as effective, which is conservative)"
-        )
-    else:
-        lines.append(
-            '# basis "applied": use with closure = "none" (closure is already in the data)'
-        )
-    return "\n".join(lines) + "\ngrowth = { " + ", ".join(parts) + " }\n"
-
-
-def _fit_references(basis, specs) -> list[str]:
-    """References of the reduction methods used (from their records): E647 rates always; for
-    raw loops the compliance crack length and the loop-area ΔJ (η factor, or the reference
-    stress for shapes without one); the Paris-type law in ΔJ."""
-    from cycj.calibrate.reduction import ETA_SHAPES
-    from cycj.citations import Citations
-
-    cited = Citations()
-    cited.cite("e647-reduction")
-    if basis == "effective":  # raw loops
-        cited.cite("compliance-crack-length")
-        cited.cite("loop-area-delta-j")
-        if any(s.shape not in ETA_SHAPES for s in specs):
-            cited.cite("reference-stress-specimen")
-    cited.choose("growth_law", "paris")
-    return cited.references

@@ -156,7 +156,7 @@ def k_gradient(a, delta_j):
     return float(0.5 * np.polyfit(a, np.log(dj), 1)[0])
 
 
-def direct_fit(series, C0, m0, confidence=0.95):
+def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
     """Fit C and m to measured a(N) by integrating da/dN = C·ΔJ(a)^m (scipy least_squares).
 
     Parameters
@@ -164,6 +164,8 @@ def direct_fit(series, C0, m0, confidence=0.95):
     series : list of dicts with ``cycle, a_mm`` (readings) and ``a_tab, dj_tab`` (ΔJ_eff as a
         function of crack length for that test, increasing in a)
     C0, m0 : starting values
+    free_start : fit each test's start a_0 as a parameter (default: fixed at its first
+        reading, so the fit cannot trade the start of a test against C)
 
     Returns
     -------
@@ -174,7 +176,9 @@ def direct_fit(series, C0, m0, confidence=0.95):
     Notes
     -----
     For each test N(a) = N_0 + ∫_{a_0}^{a} da'/(C·ΔJ(a')^m) on a fine grid (trapezoidal rule),
-    inverted by interpolation at the measured cycles; parameters ln C, m and one a_0 per test.
+    inverted by interpolation at the measured cycles; parameters m, one ln C_i per test (C is
+    exp of their mean, each test once, as in the rate fits) and one a_0 per test when
+    ``free_start`` (otherwise a_0 is the test's first reading).
     Intervals from the Jacobian at the solution, cov = s²·(JᵀJ)⁻¹.
     """
     from scipy import stats
@@ -194,14 +198,16 @@ def direct_fit(series, C0, m0, confidence=0.95):
             dj[tail] = s["dj_tab"][-1] * np.exp(k * (ag[tail] - s["a_tab"][-1]))
         grids.append((ag, np.maximum(dj, 1e-12)))
 
+    g = len(series)
+
     def predict(p, cycles=None):
-        lnc, m = p[0], p[1]
+        m = p[0]
         out = []
         for i, s in enumerate(series):
             cyc = s["cycle"] if cycles is None else cycles[i]
             ag, dj = grids[i]
-            a0 = p[2 + i]
-            inv = 1.0 / (np.exp(lnc) * dj**m)
+            a0 = p[1 + g + i] if free_start else s["a_mm"][0]
+            inv = 1.0 / (np.exp(p[1 + i]) * dj**m)
             nn = np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(ag))])
             n0 = np.interp(a0, ag, nn)
             out.append(np.interp(cyc - s["cycle"][0] + n0, nn, ag))
@@ -210,38 +216,65 @@ def direct_fit(series, C0, m0, confidence=0.95):
     def resid(p):
         return np.concatenate([pa - s["a_mm"] for pa, s in zip(predict(p), series, strict=True)])
 
-    p0 = np.concatenate([[math.log(C0), m0], [s["a_mm"][0] for s in series]])
-    lo = np.concatenate([[-80, 0.05], [g[0][0] for g in grids]])
-    hi = np.concatenate([[20, 20], [g[0][-1] for g in grids]])
+    starts = [s["a_mm"][0] for s in series] if free_start else []
+    p0 = np.concatenate([[m0], np.full(g, math.log(C0)), starts])
+    lo = np.concatenate([[0.05], np.full(g, -80.0), [q[0][0] for q in grids] if free_start else []])
+    hi = np.concatenate([[20.0], np.full(g, 20.0), [q[0][-1] for q in grids] if free_start else []])
     p0 = np.clip(p0, lo + 1e-9, hi - 1e-9)
-    sol = least_squares(resid, p0, bounds=(lo, hi), x_scale="jac")
+    sol = least_squares(
+        resid, p0, bounds=(lo, hi), x_scale="jac", jac_sparsity=_sparsity(series, free_start)
+    )
     n = sol.fun.size
     dof = max(n - sol.x.size, 1)
     s2 = float(np.sum(sol.fun**2) / dof)
     try:
-        cov = np.linalg.inv(sol.jac.T @ sol.jac) * s2
+        jac = sol.jac.toarray() if hasattr(sol.jac, "toarray") else np.asarray(sol.jac)
+        cov = np.linalg.inv(jac.T @ jac) * s2
     except np.linalg.LinAlgError:
         cov = np.full((sol.x.size, sol.x.size), np.nan)
     t = float(stats.t.ppf(0.5 + confidence / 2, dof))
-    lnc, m = float(sol.x[0]), float(sol.x[1])
-    sd = np.sqrt(np.abs(np.diag(cov)[:2]))
+    # (mean ln C_i, m) as a linear map of the parameters
+    tr = np.zeros((2, sol.x.size))
+    tr[0, 1 : 1 + g] = 1.0 / g
+    tr[1, 0] = 1.0
+    cov2 = tr @ cov @ tr.T
+    lnc, m = float(np.mean(sol.x[1 : 1 + g])), float(sol.x[0])
+    sd = np.sqrt(np.abs(np.diag(cov2)))
     cyc = [np.linspace(s["cycle"][0], s["cycle"][-1], 200) for s in series]
     curves = [{"cycle": c, "a_mm": a} for c, a in zip(cyc, predict(sol.x, cyc), strict=True)]
     return {
         "C": math.exp(lnc),
         "m": m,
         "lnC": lnc,
-        "cov_lnC_m": cov[:2, :2].tolist(),
+        "cov_lnC_m": cov2.tolist(),
+        "lnC_per_test": sol.x[1 : 1 + g].tolist(),
         "C_interval": [math.exp(lnc - t * sd[0]), math.exp(lnc + t * sd[0])],
-        "m_interval": [m - t * sd[1], m + t * sd[1]],
+        "m_interval": [float(m - t * sd[1]), float(m + t * sd[1])],
         "sigma_a_mm": math.sqrt(s2),
         "n": int(n),
-        "a0_mm": sol.x[2:].tolist(),
+        "a0_mm": sol.x[1 + g :].tolist() if free_start else [float(s["a_mm"][0]) for s in series],
+        "start": "fitted per test" if free_start else "fixed at each test's first reading",
         "curves": curves,
         "success": bool(sol.success),
         "message": str(sol.message),
         "confidence": confidence,
     }
+
+
+def _sparsity(series, free_start):
+    """Which parameters each residual of :func:`direct_fit` depends on (m, its own ln C_i and
+    a_0)."""
+    g = len(series)
+    rows = [s["cycle"].size for s in series]
+    out = np.zeros((sum(rows), 1 + g * (2 if free_start else 1)), int)
+    out[:, 0] = 1
+    r = 0
+    for i, n in enumerate(rows):
+        out[r : r + n, 1 + i] = 1
+        if free_start:
+            out[r : r + n, 1 + g + i] = 1
+        r += n
+    return out
 
 
 def r_ratio_collapse(residuals, r_values, step=0.05):

@@ -55,6 +55,13 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     non-numeric value is one :class:`CycjInputError` naming the file (and line).  Loops whose
     cycle count does not increase are skipped with a reason (listed in ``.skipped``).
     """
+    path = Path(path)
+    df = read_frame(path)
+    return frame_log(df, str(path), path.name, load_factor, displacement_factor, crack_factor)
+
+
+def read_frame(path):
+    """The CSV of a log as a DataFrame (one :class:`CycjInputError` naming the file)."""
     import pandas as pd
 
     path = Path(path)
@@ -77,6 +84,15 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
         )
     except (pd.errors.ParserError, pd.errors.EmptyDataError, UnicodeDecodeError) as exc:
         raise CycjInputError(f"cannot read the CSV ({type(exc).__name__})", source=src) from None
+    return df
+
+
+def frame_log(df, src, name, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0):
+    """Check the columns of a log read into a DataFrame ``df`` and convert it to N and mm
+    (``src`` names the file in errors, ``name`` the log).  Used by :func:`read_log` and for
+    the tests of a long-format file (:mod:`cycj.calibrate.replicates`)."""
+    import pandas as pd
+
     df.columns = [str(c).strip().lower() for c in df.columns]
     cols = set(df.columns)
     if set(RAW_COLUMNS) <= cols:
@@ -98,7 +114,7 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
             raise CycjInputError(
                 f"column '{c}' holds a value that is not a finite number",
                 source=src,
-                line=int(bad[0]) + 2,
+                line=int(df.index[bad[0]]) + 2,
                 found=str(df[c].iloc[bad[0]]),
             )
         big = np.flatnonzero(np.abs(vals) > MAX_LOAD)
@@ -106,26 +122,26 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
             raise CycjInputError(
                 f"column '{c}' holds an implausible value",
                 source=src,
-                line=int(big[0]) + 2,
+                line=int(df.index[big[0]]) + 2,
                 expected=f"magnitude below {MAX_LOAD:g}",
                 found=str(df[c].iloc[big[0]]),
             )
         data[c] = vals
-    _check_cycles(data["cycle"], src)
-    name = path.name
+    _check_cycles(data["cycle"], src, df.index.to_numpy())
     if kind == "crack":
         return _crack_log(name, data, crack_factor, load_factor)
     return _raw_log(name, data, load_factor, displacement_factor)
 
 
-def _check_cycles(cyc, src):
-    """Cycle counts are ≥ 0 and, once they change, span at least one cycle."""
+def _check_cycles(cyc, src, rows=None):
+    """Cycle counts are ≥ 0 and, once they change, span at least one cycle (``rows``: the
+    frame's row labels, for the line numbers of a part of a file)."""
     neg = np.flatnonzero(cyc < 0)
     if neg.size:
         raise CycjInputError(
             "negative cycle count",
             source=src,
-            line=int(neg[0]) + 2,
+            line=int(neg[0] if rows is None else rows[neg[0]]) + 2,
             expected="a count ≥ 0",
             found=float(cyc[neg[0]]),
         )

@@ -178,8 +178,12 @@ def _delta_j(specimen, a, p_max, p_min_eff, p_op, comp_pt, area_above):
     )
 
 
-def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
+def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20, outliers=False):
     """Reduce a :class:`~cycj.calibrate.logs.RawLog` to one row per recorded cycle.
+
+    ``outliers``: drop loops whose crack length is more than 6 robust σ off the running
+    median of its neighbours (off by default: every reading is used, ASTM E647 practice);
+    every dropped loop is listed with its reason.
 
     Returns (rows: dict of arrays for accepted loops, skipped: list of dicts, notes: dict,
     typical: dict with one loop's samples and its compliance line for plotting).
@@ -204,7 +208,7 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20):
     bad = ok & ~np.isfinite(a)
     _skip(skipped, log.name, cyc, bad, "crack length outside the compliance expression's range")
     ok &= ~bad
-    out = _outliers(a, ok, cyc)
+    out = _outliers(a, ok, cyc) if outliers else np.zeros(a.size, bool)
     _skip(skipped, log.name, cyc, out, "outlier: crack length off the trend of its neighbours")
     ok &= ~out
     a, how_corr = _correct(specimen, a, ok)
@@ -323,8 +327,9 @@ def reduce_crack_log(log, specimen):
     return rows, skipped, notes
 
 
-def rates_for_rows(rows, specimen, *, spacing="e647"):
-    """da/dN by secant and incremental polynomial on readings thinned to the E647 spacing.
+def rates_for_rows(rows, specimen, *, spacing="all"):
+    """da/dN by secant and incremental polynomial on every reading (``spacing="all"``, the
+    default) or on readings thinned to the E647 minimum spacing (``"e647"``).
 
     Returns (dict method → dict of arrays ``cycle, a_mm, dadN_mm_per_cycle, dJ_eff_kJm2,
     dK_eff_MPa_sqrt_m, R, row``), spacing info).  ΔJ at a rate point is the mean of the rows
@@ -339,7 +344,10 @@ def rates_for_rows(rows, specimen, *, spacing="e647"):
         "median_spacing_mm": float(np.median(np.diff(a))) if a.size > 1 else None,
         "e647_minimum_mm": [float(minsp.min()), float(minsp.max())],
     }
-    if keep.size < 9:
+    info["spacing"] = (
+        "every reading (no thinning)" if spacing != "e647" else "thinned to the E647 minimum"
+    )
+    if spacing == "e647" and keep.size < 9:
         keep = np.arange(n.size)
         info["note"] = (
             "too few readings at the E647 spacing; rates from all readings (scatter will be larger)"

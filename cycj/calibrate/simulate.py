@@ -287,3 +287,110 @@ def _eta_for_sim(specimen, a):
     if specimen.shape in ("compact-tension", "three-point-bend"):
         return eta_plastic(specimen.shape, a, specimen.width, "load-line")
     return np.full(np.shape(a), 2.0)
+
+
+#: maximum loads [N] the tests of a simulated programme cycle through (C(T), W = 50 mm)
+PROGRAMME_LOADS = (10000.0, 12000.0, 14000.0, 16000.0)
+
+
+@dataclass
+class SimulatedProgramme:
+    """Crack-length logs of a replicate programme: ``crack`` (one long-format DataFrame with
+    ``specimen, cycle, crack_length, load_max, load_min``), ``C_specimens`` (each specimen's
+    true C), ``C``, ``m`` (the population median C and the exponent) and ``sigma_ln_C``."""
+
+    crack: object
+    C_specimens: np.ndarray
+    C: float
+    m: float
+    sigma_ln_C: float
+
+
+def simulate_programme(
+    specimen,
+    C,
+    m,
+    *,
+    n_specimens=8,
+    sigma_ln_C=0.15,
+    p_max=PROGRAMME_LOADS,
+    r_ratio=0.1,
+    readings=200,
+    crack_end=None,
+    crack_noise=0.01,
+    spacing="crack",
+    seed=0,
+    paths=None,
+):
+    """A replicate programme on the virtual test frame: ``n_specimens`` tests of one specimen
+    geometry whose C scatters lognormally between specimens (median ``C``, σ_ln ``sigma_ln_C``),
+    common ``m``, at constant load amplitude (loads cycled through ``p_max``), each logged as
+    ``readings`` crack lengths with Gaussian noise ``crack_noise`` [mm] on a, read at equal
+    crack extension (``spacing="crack"``, the E647 way) or equal cycles (``"cycles"``).
+
+    The noise-free a(N) of each load level is integrated once (the frame's ΔJ,
+    :func:`true_delta_j`, without closure); a specimen with C_i follows it with the cycles
+    scaled by C/C_i (da/dN ∝ C), so a programme of many tests takes milliseconds.
+
+    ``crack_end`` [mm] defaults to half way from the initial crack to the upper validity limit.
+    ``paths`` (from :func:`programme_paths` with the same arguments) saves integrating the
+    noise-free paths again when many programmes share them.
+
+    Returns
+    -------
+    SimulatedProgramme
+    """
+    import pandas as pd
+
+    if n_specimens < 1 or readings < 8:
+        raise ValidityRangeError("need at least one specimen and eight readings a test")
+    rng = np.random.default_rng(seed)
+    loads = np.atleast_1d(np.asarray(p_max, float))
+    paths = paths or programme_paths(specimen, C, m, loads, r_ratio, crack_end)
+    c_i = C * np.exp(sigma_ln_C * rng.standard_normal(n_specimens))
+    frames = []
+    for i in range(n_specimens):
+        p = float(loads[i % loads.size])
+        n_grid, a_grid = paths[p]
+        life = n_grid[-1] * C / c_i[i]
+        if spacing == "crack":  # readings at equal crack extension (as E647 asks)
+            a_read = np.linspace(a_grid[0], a_grid[-1], readings)
+            cyc = np.round(np.interp(a_read, a_grid, n_grid) * C / c_i[i])
+        else:
+            cyc = np.round(np.linspace(0.0, life, readings))
+        step = np.arange(readings)
+        cyc = np.maximum.accumulate(cyc - step) + step  # strictly increasing counts
+        a = np.interp(cyc * c_i[i] / C, n_grid, a_grid)
+        frames.append(
+            pd.DataFrame(
+                {
+                    "specimen": f"S{i + 1:03d}",
+                    "cycle": cyc.astype(np.int64),
+                    "crack_length": a + crack_noise * rng.standard_normal(readings),
+                    "load_max": p,
+                    "load_min": r_ratio * p,
+                }
+            )
+        )
+    return SimulatedProgramme(pd.concat(frames, ignore_index=True), c_i, C, m, sigma_ln_C)
+
+
+def programme_paths(specimen, C, m, p_max, r_ratio=0.1, crack_end=None):
+    """Noise-free (cycles, a) of each load level of :func:`simulate_programme` (a dict)."""
+    return {
+        float(p): _path(specimen, C, m, float(p), r_ratio, crack_end) for p in np.atleast_1d(p_max)
+    }
+
+
+def _path(specimen, C, m, p_max, r_ratio, crack_end):
+    """Noise-free (cycles, a) of a constant-amplitude test without closure (fine grid)."""
+    geo = specimen.geometry
+    a0 = specimen.initial_crack
+    # default: half way from the initial crack to the upper validity limit (a test's usual
+    # stretch of stable growth)
+    a_end = crack_end if crack_end is not None else a0 + 0.5 * (geo.size_limits[1] - a0)
+    a = np.linspace(a0, a_end, 2000)
+    pmax = np.full_like(a, p_max)
+    dj = true_delta_j(specimen, a, pmax, r_ratio * pmax, r_ratio * pmax)
+    inv = 1.0 / (C * dj**m)
+    return np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(a))]), a

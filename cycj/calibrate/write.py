@@ -1,5 +1,6 @@
 """Writing a calibration's outputs: fit.json, growth_snippet.toml, reduced.csv, rates.csv,
-skipped.csv, plots and report.html (through :mod:`cycj.outputs` and :mod:`cycj.report`)."""
+skipped.csv, per_specimen.csv, plots and report.html (through :mod:`cycj.outputs` and
+:mod:`cycj.report`)."""
 
 from __future__ import annotations
 
@@ -23,6 +24,7 @@ def write_outputs(result, out_dir, *, logs=(), specimens=(), force=False, plots=
         od.write_csv(
             "skipped.csv", pd.DataFrame(result.skipped, columns=["log", "cycle", "reason"])
         )
+        od.write_csv("per_specimen.csv", _per_specimen_frame(s))
         if plots:
             _plots_and_report(od, result, s, logs, specimens)
         od.write_json("fit.json", s)
@@ -88,13 +90,37 @@ def _plots_and_report(od, result, s, logs, specimens):
             ("specimen files", ", ".join(map(str, specimens))),
             ("recommended fit", f"{s['recommended_fit']}: {s['recommended_reason']}"),
             ("closure", s["closure"]),
-            ("sigma_ln", s["sigma_ln"]),
+            ("intervals", f"{s['interval_method']}: {s['interval_note']}"),
+            ("within-test rate scatter sigma_ln (not for planning)", s["sigma_ln"]),
+            (
+                "between-specimen scatter sigma_ln_C (for planning)",
+                s["between_specimen"].get("sigma_ln_C")
+                if s["between_specimen"].get("sigma_ln_C") is not None
+                else s["between_specimen"].get("note"),
+            ),
             ("threshold [kJ/m²]", s["threshold_kJm2"]),
             ("R ratios collapse in ΔJ_eff", s["r_ratio_collapse"].get("collapses")),
             ("growth snippet", result.snippet.splitlines()[-1]),
         ],
         figures=figs,
-        tables=[("Fits", fits), ("Skipped readings", skipped.head(200))],
+        tables=[
+            ("Fits", fits),
+            ("Per specimen (m fixed)", _per_specimen_frame(s)),
+            ("Skipped readings", skipped.head(200)),
+        ],
         warnings=[*result.warnings, CAUTION],
         references=s["references"],
     )
+
+
+def _per_specimen_frame(s):
+    """fit.json's per_specimen rows as a table (ranges as two columns each)."""
+    import pandas as pd
+
+    rows = []
+    for r in s.get("per_specimen", []):
+        row = {k: v for k, v in r.items() if not isinstance(v, list)}
+        for k in ("a_range_mm", "dJ_range_kJm2"):
+            row[f"{k}_low"], row[f"{k}_high"] = r[k]
+        rows.append(row)
+    return pd.DataFrame(rows)

@@ -22,6 +22,7 @@ from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
 from cycj.life.model import model_array, size_limit
+from cycj.life.validity import valid_range_warning
 
 END_CODES = {name: code for code, name in END_NAMES.items()}
 
@@ -238,6 +239,9 @@ def predict_life(
         hist = hist.drop(columns="c_mm")
     hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
     hist = hist.reset_index(drop=True)
+    outside = valid_range_warning(case, loads, mp, hist)
+    if outside:
+        warnings.append(outside)
     reason = END_NAMES[end]
     summary = {
         "title": case.title,
@@ -336,13 +340,19 @@ def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
         leak_half_length_mm=c_end,
         through_crack_end_half_length_mm=s2["a_end_mm"],
         phases=["surface crack to leak", "through crack"],
-        warnings=warnings + through.warnings,
+        warnings=_once(warnings, through.warnings, "valid_dJ"),
         inputs=s1["inputs"],
         references=_union(s1["references"], _step_references(), through.references),
     )
     if "hours_to_end" in s1:
         s2["hours_to_end"] = s1["hours_to_end"] + through.summary.get("hours_to_end", 0.0)
     return LifeResult(s2, hist, case, leaked.loads, s2["warnings"], s2["references"], leaked.model)
+
+
+def _once(first, second, marker):
+    """Warnings of both phases, those with ``marker`` only once."""
+    seen = any(marker in w for w in first)
+    return first + [w for w in second if not (seen and marker in w)]
 
 
 def _peak_row(case, loads, mp, a):
