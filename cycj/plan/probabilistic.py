@@ -236,6 +236,58 @@ def probabilistic_plan(table, inp, scheduler=None, workers=None, periods=None) -
     }
 
 
+def pof_without_inspection(table, inp, scheduler=None, workers=None) -> dict:
+    """Probability of failure over the design life without inspection, by the method
+    :func:`choose_method` picks, with samples added until its confidence half-width is at most
+    ``pof_tolerance`` × ``target_pof`` (or ``max_samples`` is reached), and FORM beside it.
+
+    Returns
+    -------
+    dict with ``pof``, ``std_error``, ``pof_ci``, ``samples``, ``failures``, ``converged``,
+    ``method``, ``form`` and ``life_evaluations`` (samples plus the FORM evaluations).
+    """
+    from scipy.special import ndtri
+
+    from cycj.plan.reliability import form
+    from cycj.plan.search import Search
+
+    method = choose_method(inp)
+    start = max((f.cycles for f in inp.findings), default=0.0)
+    fr = form(table, inp.scatter, inp.design_life - start) if not inp.findings else None
+    shift = fr["design_point"] if method == "importance-sampling" and fr else None
+    budget = max(inp.max_samples, inp.samples)
+    spec = make_spec(table, inp, shift, budget)
+    z = float(ndtri(0.5 + inp.confidence / 2))
+    life = inp.design_life
+    with Runner(scheduler, workers) as runner:
+        srch = Search(
+            runner,
+            spec,
+            [np.empty(0)],
+            [life],
+            slice(0, 1),
+            lambda t: np.empty(0),
+            shift is not None,
+        )
+        srch.first(math.ceil(inp.samples / spec.chunk_size))
+        srch.set_points([life])
+        conv = srch.converge(inp.target_pof, inp.pof_tolerance, z, 2.0)
+    r = conv["result"]
+    p, se = float(r["pof"][0]), float(r["std_error"][0])
+    evals = int(r["samples"]) + (fr["evaluations"] if fr and fr.get("available") else 0)
+    return {
+        "pof": p,
+        "std_error": se,
+        "pof_ci": [max(p - z * se, 0.0), p + z * se],
+        "samples": int(r["samples"]),
+        "failures": int(r["failures"][0]),
+        "converged": conv["converged"],
+        "method": "importance-sampling" if shift is not None else "monte-carlo",
+        "form": fr,
+        "life_evaluations": evals,
+    }
+
+
 def envelope(
     table, inp, n_samples: int = 2000, n_points: int = 80, quantiles=(0.05, 0.5, 0.95)
 ) -> dict:
