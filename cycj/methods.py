@@ -89,6 +89,10 @@ _METHODS = {
         "3rd ed. (2016), §5.7: importance sampling, here a normal density shifted to the "
         "design point",
     ),
+    "cross-entropy": (
+        "Rubinstein, R. Y., Kroese, D. P., The Cross-Entropy Method, Springer (2004), ch. 3: "
+        "multi-level centre of the importance-sampling density",
+    ),
     "form": (
         "Hasofer, A. M., Lind, N. C., J. Eng. Mech. Div. ASCE 100 (1974) 111–121: "
         "reliability index",

@@ -149,6 +149,8 @@ def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
         "recommendation": _with_times(rec, hpc, inp),
         "method": prob["method"],
         "form": form,
+        "importance_centre": prob["importance_centre"],
+        "cross_entropy": prob["cross_entropy"],
         "samples_used": prob["samples_used"],
         "max_samples": inp.max_samples,
         "pof_per_period": _per_period_rows(prob, per_unit, per_cycles, hpc, inp),
@@ -212,7 +214,7 @@ def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
 __all__ = ["PlanResult", "plan_inspections"]
 
 
-def _plan_references(inp, method="monte-carlo", with_form=False) -> list[str]:
+def _plan_references(inp, method="monte-carlo", with_form=False, with_ce=False) -> list[str]:
     """References of the planning models and methods used: the POD model, life scaling with C,
     the Monte Carlo with common random numbers and the monotone fit, importance sampling and
     FORM when used (from their records)."""
@@ -226,6 +228,8 @@ def _plan_references(inp, method="monte-carlo", with_form=False) -> list[str]:
     cited.cite("isotonic-regression")
     if method == "importance-sampling":
         cited.cite("importance-sampling")
+    if with_ce:
+        cited.cite("cross-entropy")
     if with_form:
         cited.cite("form")
     return cited.references

@@ -100,10 +100,12 @@ def draw_chunk(spec: McSpec, index: int, seed) -> dict:
     rng = np.random.default_rng(seed)
     n = spec.chunk_n(index)
     w_is = np.ones(n)
+    u_normal = None
     if spec.shift is None:
         d = spec.scatter.sample(rng, n)
     else:
         d, w_is = spec.scatter.sample_shifted(rng, n, spec.shift)
+        u_normal = d.pop("u_normal")
     u_det = rng.random((n, spec.n_max))
     u_rep = rng.random((n, spec.n_max))
     tab = spec.table
@@ -122,18 +124,14 @@ def draw_chunk(spec: McSpec, index: int, seed) -> dict:
         "u_det": u_det,
         "la_thr": spec.pod.log_threshold(u_det),
         "w_is": w_is,
+        "u_normal": u_normal,
         **d,
     }
 
 
-def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed) -> dict:
-    """Simulate one chunk under each schedule and return weighted sums.
-
-    ``schedules`` (n_sched, n_max) holds absolute inspection times [cycles] (padded),
-    ``n_insp`` the count of each.  Returns sums ``sw, sw2`` (Σw, Σw²) and per schedule
-    ``swf, sw2f`` (Σw·I, Σw²·I), ``swd`` (Σw·detections), ``hist`` (Σw·I per time bin of the
-    horizon) and ``bins`` (Σw·I per inspection interval).
-    """
+def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed):
+    """Simulate one chunk under each schedule: the draws, the sample weights, failure times
+    and bins and detections (n_sched, n), and the horizon [cycles]."""
     from cycj.plan.findings import apply_findings
 
     dr = draw_chunk(spec, index, seed)
@@ -167,6 +165,20 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
         fb,
         nd,
     )
+    return dr, weights, ft, fb, nd, horizon
+
+
+def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed) -> dict:
+    """Simulate one chunk under each schedule and return weighted sums.
+
+    ``schedules`` (n_sched, n_max) holds absolute inspection times [cycles] (padded),
+    ``n_insp`` the count of each.  Returns sums ``n`` (samples), ``sw, sw2`` (Σw, Σw²) and per
+    schedule ``nf`` (failing samples), ``swf, sw2f`` (Σw·I, Σw²·I), ``swd`` (Σw·detections),
+    ``hist`` (Σw·I per time bin of the horizon), ``hist_period`` (per reporting period) and
+    ``bins`` (Σw·I per inspection interval).
+    """
+    dr, weights, ft, fb, nd, horizon = simulate_samples(spec, schedules, n_insp, index, seed)
+    n_sched = schedules.shape[0]
     fail = ft <= horizon
     w2 = weights**2
     edges = np.linspace(0.0, horizon, spec.n_bins + 1)

@@ -13,6 +13,7 @@ References
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 import numpy as np
 
@@ -132,6 +133,12 @@ def probabilistic_plan(table, inp, scheduler=None, workers=None, periods=None) -
     nw = len(inp.intervals)
     g0 = 1 + nw + len(fixed)
     base = [np.empty(0)] + [sched(i) for i in inp.intervals] + fixed + [sched(i) for i in grid]
+    ce = None
+    if importance and (inp.intervals or inp.target_pof < fr["pof"]):
+        from cycj.plan.cross_entropy import ce_centre
+
+        ce = ce_centre(spec, grid, sched, inp.target_pof)
+        spec = replace(spec, shift=tuple(ce["shift"]))
     with Runner(scheduler, workers) as runner:
         srch = Search(runner, spec, base, grid, slice(g0, None), sched, importance)
         srch.first(math.ceil(inp.samples / spec.chunk_size))
@@ -232,6 +239,8 @@ def probabilistic_plan(table, inp, scheduler=None, workers=None, periods=None) -
         "chunk_size": spec.chunk_size,
         "method": method,
         "form": fr,
+        "importance_centre": None if spec.shift is None else list(spec.shift),
+        "cross_entropy": ce,
         "fine_points": FINE_POINTS,
     }
 
@@ -296,7 +305,7 @@ def envelope(
     spec = make_spec(table, inp)
     dr = draw_chunk(spec, 0, spec.chunk_seed(0))
     m = min(n_samples, dr["la0"].size)
-    dr = {k: v[:m] for k, v in dr.items()}
+    dr = {k: v[:m] for k, v in dr.items() if v is not None}
     weights = np.ones(m)
     la_start = dr["la0"]
     if spec.findings:

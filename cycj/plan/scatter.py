@@ -164,7 +164,8 @@ class Scatter:
     def sample_shifted(self, rng: np.random.Generator, n: int, shift) -> tuple[dict, np.ndarray]:
         """Importance sampling: ``n`` draws x = z + shift in standard normal space (z ~ N(0, I);
         the shift of an input that does not scatter is ignored) and their likelihood ratios
-        w = φ(x)/φ(x − shift) = exp(−z·shift − |shift|²/2).
+        w = φ(x)/φ(x − shift) = exp(−z·shift − |shift|²/2); the dict also holds the points x
+        (``u_normal``).
 
         References
         ----------
@@ -174,4 +175,5 @@ class Scatter:
         s = np.where(self.scattering, np.asarray(shift, float), 0.0)
         z = rng.standard_normal((4, n))
         w = np.exp(-(s @ z) - 0.5 * float(s @ s))
-        return self.from_normal(z + s[:, None]), w
+        x = z + s[:, None]
+        return self.from_normal(x) | {"u_normal": x}, w
