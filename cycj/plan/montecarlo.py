@@ -94,9 +94,24 @@ def uniform_schedule(interval: float, design_life: float, start: float = 0.0) ->
     return start + interval * np.arange(1, n + 1)
 
 
-def draw_chunk(spec: McSpec, index: int, seed) -> dict:
+def _substream(seed, k: int):
+    """Generator of the k-th sub-stream of a chunk's seed (detections 1, replacements 2)."""
+    ss = seed if isinstance(seed, np.random.SeedSequence) else np.random.SeedSequence(seed)
+    return np.random.default_rng(
+        np.random.SeedSequence(ss.entropy, spawn_key=tuple(ss.spawn_key) + (k,))
+    )
+
+
+def _per_inspection(rng, m: int, n: int) -> np.ndarray:
+    """(n, m) uniforms drawn inspection by inspection (rows of an (m, n) draw), so the first
+    m' < m inspections get the same numbers whatever m a run needs."""
+    return np.ascontiguousarray(rng.random((m, n)).T)
+
+
+def draw_chunk(spec: McSpec, index: int, seed, n_insp: int | None = None) -> dict:
     """The samples of one chunk: ln a0, C-factor, load row/weight, φ at failure, replacement
-    sizes and detection uniforms (arrays of length n, or (n, n_max))."""
+    sizes and detection uniforms (arrays of length n, or (n, n_insp), n_insp ≤ n_max: the
+    inspections the run needs; the uniforms of inspection j do not depend on n_insp)."""
     rng = np.random.default_rng(seed)
     n = spec.chunk_n(index)
     w_is = np.ones(n)
@@ -106,11 +121,16 @@ def draw_chunk(spec: McSpec, index: int, seed) -> dict:
     else:
         d, w_is = spec.scatter.sample_shifted(rng, n, spec.shift)
         u_normal = d.pop("u_normal")
-    u_det = rng.random((n, spec.n_max))
-    u_rep = rng.random((n, spec.n_max))
+    m = max(spec.n_max if n_insp is None else min(int(n_insp), spec.n_max), 1)
+    u_det = _per_inspection(_substream(seed, 1), m, n)
     tab = spec.table
     la0 = np.maximum(np.log(d["a0_mm"]), tab.la0)
-    la_repl = np.maximum(np.log(spec.scatter.initial_crack.ppf(u_rep)), tab.la0)
+    ini = spec.scatter.initial_crack
+    if spec.repair == "renew" and ini.scatters:
+        u_rep = _per_inspection(_substream(seed, 2), m, n)
+        la_repl = np.maximum(np.log(ini.ppf(u_rep)), tab.la0)
+    else:  # not used (remove) or one size
+        la_repl = np.full((n, m), max(math.log(ini.median), tab.la0))
     k, w = tab.load_position(d["load_factor"])
     lac = tab.critical_log_size(k, w, d["toughness_factor"])
     return {
@@ -134,7 +154,7 @@ def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, in
     and bins and detections (n_sched, n), and the horizon [cycles]."""
     from cycj.plan.findings import apply_findings
 
-    dr = draw_chunk(spec, index, seed)
+    dr = draw_chunk(spec, index, seed, int(np.max(n_insp, initial=0)))
     tab = spec.table
     weights = dr["w_is"]
     la_start = dr["la0"]
