@@ -9,7 +9,9 @@ Modules: :mod:`~cycj.plan.pod` (POD curves), :mod:`~cycj.plan.pod_fit` (POD from
 :mod:`~cycj.plan.scatter` (distributions), :mod:`~cycj.plan.curves` (growth-curve tables),
 :mod:`~cycj.plan.simulation_kernels` and :mod:`~cycj.plan.montecarlo` (simulation),
 :mod:`~cycj.plan.findings` (Bayes update), :mod:`~cycj.plan.deterministic`,
-:mod:`~cycj.plan.probabilistic`, :mod:`~cycj.plan.inputs` (``[inspection]`` keys),
+:mod:`~cycj.plan.probabilistic`, :mod:`~cycj.plan.search` (converged interval search),
+:mod:`~cycj.plan.reliability` (FORM), :mod:`~cycj.plan.cross_entropy` (importance-sampling
+centre), :mod:`~cycj.plan.inputs` (``[inspection]`` keys),
 :mod:`~cycj.plan.engine` (link to :mod:`cycj.life`).
 
 Estimates for engineering judgement; they do not replace the applicable design code,
