@@ -263,7 +263,8 @@ def pof_without_inspection(table, inp, scheduler=None, workers=None) -> dict:
     method = choose_method(inp)
     start = max((f.cycles for f in inp.findings), default=0.0)
     fr = form(table, inp.scatter, inp.design_life - start) if not inp.findings else None
-    shift = fr["design_point"] if method == "importance-sampling" and fr else None
+    usable = bool(fr and fr.get("available"))
+    shift = fr["design_point"] if method == "importance-sampling" and usable else None
     budget = max(inp.max_samples, inp.samples)
     spec = make_spec(table, inp, shift, budget)
     z = float(ndtri(0.5 + inp.confidence / 2))
