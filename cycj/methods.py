@@ -96,6 +96,28 @@ _METHODS = {
         "Rubinstein, R. Y., Kroese, D. P., Simulation and the Monte Carlo Method, "
         "3rd ed. (2016): common random numbers, importance weights",
     ),
+    "common-random-numbers": (
+        "Rubinstein, R. Y., Kroese, D. P., Simulation and the Monte Carlo Method, "
+        "3rd ed. (2016), §5.2: common random numbers across the candidate intervals",
+    ),
+    "isotonic-regression": (
+        "Barlow, R. E., Bartholomew, D. J., Bremner, J. M., Brunk, H. D., Statistical "
+        "Inference under Order Restrictions, Wiley (1972): pool-adjacent-violators fit",
+    ),
+    "importance-sampling": (
+        "Rubinstein, R. Y., Kroese, D. P., Simulation and the Monte Carlo Method, "
+        "3rd ed. (2016), §5.7: importance sampling, here a normal density shifted to the "
+        "design point",
+    ),
+    "cross-entropy": (
+        "Rubinstein, R. Y., Kroese, D. P., The Cross-Entropy Method, Springer (2004), ch. 3: "
+        "multi-level centre of the importance-sampling density",
+    ),
+    "form": (
+        "Hasofer, A. M., Lind, N. C., J. Eng. Mech. Div. ASCE 100 (1974) 111–121: "
+        "reliability index",
+        "Rackwitz, R., Fiessler, B., Comput. Struct. 9 (1978) 489–494: design-point iteration",
+    ),
 }
 
 for _code, (_name, _citation) in enumerate(_METHODS.items()):

@@ -20,10 +20,16 @@ import click
     default=None,
     help="Dask scheduler address (tcp://HOST:PORT): run sample chunks on a cluster.",
 )
+@click.option(
+    "--workers",
+    type=click.IntRange(1, 1024),
+    default=None,
+    help="Threads for the sample chunks (default: all cores; the answer does not change).",
+)
 @click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--json", "as_json", is_flag=True, help="Print plan.json to stdout.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
-def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
+def plan(case_file, out_dir, scheduler, workers, force, as_json, no_plots):
     """Plan inspections for CASE_FILE (its [inspection] table): the interval from detectable
     to critical size, and the probability of failure for each inspection interval.
 
@@ -37,7 +43,7 @@ def plan(case_file, out_dir, scheduler, force, as_json, no_plots):
     case = load_case(case_file)
     out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-plan")
     OutputDir(out, force=force, inputs=[case.path])  # refuse early, before the long run
-    result = plan_inspections(case, scheduler=scheduler)
+    result = plan_inspections(case, scheduler=scheduler, workers=workers)
     summary = write_plan(result, case, out, force=force, plots=not no_plots)
     if as_json:
         click.echo(dumps(summary))

@@ -16,6 +16,13 @@ Keys (all quantities may carry units; bare numbers are mm, cycles, kJ/m²)::
     max_inspections = 100        # smallest interval searched = design life / this
     chunk_size = 10000           # samples per Monte Carlo chunk (fixed: results do not
                                  # depend on the number of workers)
+    max_samples = 1000000        # budget: samples are added up to this until the
+    pof_tolerance = 0.2          # half-width of the PoF's confidence interval at the
+    confidence = 0.95            # recommended interval ≤ pof_tolerance × target_pof
+    method = "auto"              # "monte-carlo", "importance-sampling" (auto: the latter for
+                                 # target_pof < 1e-3 without findings)
+    hours_per_year = 8766        # operating hours in a year (default: continuous)
+    pod_lower_bound = false      # also plot the POD through a90/95 (needs a90_95)
     findings = [ { cycles = 2.0e5, result = "not-found" },
                  { cycles = 3.5e5, result = "found", size = "2.5 mm", sizing_sd = "0.3 mm",
                    pod = { ... } } ]   # pod per finding optional (default: the plan's pod)
@@ -54,6 +61,12 @@ class PlanInputs:
     chunk_size: int = 10_000
     scatter: sc.Scatter = sc.Scatter()
     findings: tuple = ()
+    max_samples: int = 1_000_000
+    pof_tolerance: float = 0.2
+    confidence: float = 0.95
+    method: str = "auto"
+    hours_per_year: float = 8766.0
+    pod_lower_bound: bool = False
 
 
 #: widest POD curve accepted (spread in ln a; a90/a50 = e^(1.28·5) ≈ 600 already)
@@ -234,8 +247,32 @@ def read_inspection(case) -> PlanInputs:
     chunk = t.number("chunk_size", default=10_000, integer=True)
     if not 100 <= chunk <= 1_000_000:
         raise t.error("chunk_size", "out of range", expected="100 to 1e6", found=chunk)
+    budget = t.number("max_samples", default=max(1_000_000, samples), integer=True)
+    if not samples <= budget <= 100_000_000:
+        raise t.error(
+            "max_samples", "out of range", expected=f"{samples} (samples) to 1e8", found=budget
+        )
+    tol = t.number("pof_tolerance", default=0.2)
+    if not 0.01 <= tol <= 1:
+        raise t.error("pof_tolerance", "out of range", expected="0.01 to 1", found=tol)
+    conf = t.number("confidence", default=0.95)
+    if not 0.5 <= conf < 1:
+        raise t.error("confidence", "out of range", expected="0.5 ≤ confidence < 1", found=conf)
+    method = t.choice("method", ("auto", "monte-carlo", "importance-sampling"), default="auto")
+    hpy = t.number("hours_per_year", default=8766.0)
+    if not 0 < hpy <= 8784:
+        raise t.error("hours_per_year", "out of range", expected="0 < h ≤ 8784", found=hpy)
+    lower = t.get("pod_lower_bound", False)
+    if not isinstance(lower, bool):
+        raise t.error("pod_lower_bound", "must be true or false", found=lower)
+    if lower and pod.a90_95 is None:
+        raise t.error(
+            "pod_lower_bound", "needs a POD with a90_95 (from a fit)", expected="pod.a90_95"
+        )
     scat = _scatter(t.table("scatter"), case)
     findings = _findings(t, pod, life)
+    if method == "importance-sampling" and findings:
+        raise t.error("method", "importance sampling does not combine with findings")
     t.finish()
     return PlanInputs(
         pod,
@@ -253,6 +290,12 @@ def read_inspection(case) -> PlanInputs:
         chunk,
         scat,
         findings,
+        budget,
+        tol,
+        conf,
+        method,
+        hpy,
+        lower,
     )
 
 

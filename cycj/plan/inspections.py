@@ -9,7 +9,9 @@ Modules: :mod:`~cycj.plan.pod` (POD curves), :mod:`~cycj.plan.pod_fit` (POD from
 :mod:`~cycj.plan.scatter` (distributions), :mod:`~cycj.plan.curves` (growth-curve tables),
 :mod:`~cycj.plan.simulation_kernels` and :mod:`~cycj.plan.montecarlo` (simulation),
 :mod:`~cycj.plan.findings` (Bayes update), :mod:`~cycj.plan.deterministic`,
-:mod:`~cycj.plan.probabilistic`, :mod:`~cycj.plan.inputs` (``[inspection]`` keys),
+:mod:`~cycj.plan.probabilistic`, :mod:`~cycj.plan.search` (converged interval search),
+:mod:`~cycj.plan.reliability` (FORM), :mod:`~cycj.plan.cross_entropy` (importance-sampling
+centre), :mod:`~cycj.plan.inputs` (``[inspection]`` keys),
 :mod:`~cycj.plan.engine` (link to :mod:`cycj.life`).
 
 Estimates for engineering judgement; they do not replace the applicable design code,
@@ -34,7 +36,11 @@ class PlanResult:
     inputs: object = None
 
 
-def plan_inspections(case, scheduler=None) -> PlanResult:
+#: hours in a year of continuous operation (365.25 days, common practice)
+HOURS_PER_YEAR = 8766.0
+
+
+def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
     """Deterministic and probabilistic inspection plan for a case with ``[inspection]``.
 
     Parameters
@@ -43,6 +49,8 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
     scheduler : str or distributed.Client, optional
         Dask scheduler address (``tcp://host:port``) or client; chunks of samples then run
         on the cluster (same seed → same result as in-process).
+    workers : int, optional
+        Threads for in-process chunks (default all cores; same result for any number).
 
     Returns
     -------
@@ -100,7 +108,24 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
             key="inspection.scatter.initial_crack",
             found=f"{a_min:.4g} mm",
         ) from None
-    prob = probabilistic_plan(table, inp, scheduler)
+    per_cycles, per_unit = _period(inp, cpb, hpc)
+    prob = probabilistic_plan(table, inp, scheduler, workers, per_cycles)
+    rec = prob["recommendation"]
+    if rec["budget_reached"]:
+        warnings.append(
+            f"sample budget reached ({prob['samples_used']} samples, max_samples = "
+            f"{inp.max_samples}): the probability of failure at the recommended interval is "
+            f"± {rec['half_width']:.2g}, above the aim of ± {rec['half_width_limit']:.2g} "
+            f"({inp.pof_tolerance:g} × target); raise max_samples"
+        )
+    if rec["failures"] < 10 and prob["inspection_needed"]:
+        warnings.append(
+            f"only {rec['failures']} failing samples at the recommended interval: the "
+            f"target {inp.target_pof:g} is not resolved by these samples"
+        )
+    form = prob["form"]
+    if form and form.get("available") and not form.get("converged"):
+        warnings.append("the FORM design point did not converge: its estimate is unreliable")
     if prob["recommended_interval_cycles"] is None:
         warnings.append(
             f"no interval down to design life / {inp.max_inspections} meets "
@@ -121,9 +146,23 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
         "no_inspection": prob["no_inspection"],
         "what_if": prob["what_if"],
         "recommended_interval_cycles": prob["recommended_interval_cycles"],
+        "recommended_interval_hours": _times(prob["recommended_interval_cycles"], hpc),
+        "recommended_interval_years": _times(prob["recommended_interval_cycles"], hpc, inp),
+        "recommendation": _with_times(rec, hpc, inp),
+        "method": prob["method"],
+        "form": form,
+        "importance_centre": prob["importance_centre"],
+        "cross_entropy": prob["cross_entropy"],
+        "samples_used": prob["samples_used"],
+        "max_samples": inp.max_samples,
+        "pof_per_period": _per_period_rows(prob, per_unit, per_cycles, hpc, inp),
+        "period": per_unit,
+        "hours_per_year": inp.hours_per_year,
         "inspection_needed": prob["inspection_needed"],
         "target_pof": inp.target_pof,
         "design_life_cycles": inp.design_life,
+        "design_life_hours": _times(inp.design_life, hpc),
+        "design_life_years": _times(inp.design_life, hpc, inp),
         "schedule": prob["schedule"],
         "search": prob["search"],
         "cumulative_pof": prob["cumulative"],
@@ -132,6 +171,7 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
         "samples": inp.samples,
         "seed": inp.seed,
         "chunk_size": prob["chunk_size"],
+        "chunks": prob["chunks"],
         "effective_samples": prob["effective_samples"],
         "findings": [
             {
@@ -154,17 +194,18 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
         "cycles_per_block": cpb,
         "hours_per_cycle": hpc,
         "warnings": warnings,
-        "references": _plan_references(inp) + engine.references(case),
+        "references": _plan_references(inp, prob["method"], bool(form and form.get("available")))
+        + engine.references(case),
     }
-    what_if = pd.DataFrame(
-        [
-            {
-                k: w[k]
-                for k in ("interval_cycles", "pof", "std_error", "detections_mean", "inspections")
-            }
-            for w in prob["what_if"]
-        ]
-    )
+    for w in summary["what_if"]:
+        w["interval_hours"] = _times(w["interval_cycles"], hpc)
+        w["interval_years"] = _times(w["interval_cycles"], hpc, inp)
+    if hpc:
+        det["life_years"] = _times(det.get("life_cycles"), hpc, inp)
+        det["interval_years"] = _times(det.get("interval_cycles"), hpc, inp)
+    keys = ("interval_cycles", "pof", "std_error", "detections_mean", "inspections")
+    keys += ("interval_hours", "interval_years") if hpc else ()
+    what_if = pd.DataFrame([{k: w[k] for k in keys} for w in summary["what_if"]])
     curves = {
         "deterministic": {"a_mm": list(map(float, a_det_c)), "cycles": list(map(float, n_det_c))},
         "envelope": env,
@@ -175,13 +216,81 @@ def plan_inspections(case, scheduler=None) -> PlanResult:
 __all__ = ["PlanResult", "plan_inspections"]
 
 
-def _plan_references(inp) -> list[str]:
-    """References of the planning models used: the POD model, life scaling with C and the
-    Monte Carlo (from their records)."""
+def _plan_references(inp, method="monte-carlo", with_form=False, with_ce=False) -> list[str]:
+    """References of the planning models and methods used: the POD model, life scaling with C,
+    the Monte Carlo with common random numbers and the monotone fit, importance sampling and
+    FORM when used (from their records)."""
     from cycj.citations import Citations
 
     cited = Citations()
     cited.choose("pod", inp.pod.model)
     cited.cite("life-scaling")
     cited.cite("monte-carlo")
+    cited.cite("common-random-numbers")
+    cited.cite("isotonic-regression")
+    if method == "importance-sampling":
+        cited.cite("importance-sampling")
+    if with_ce:
+        cited.cite("cross-entropy")
+    if with_form:
+        cited.cite("form")
     return cited.references
+
+
+#: reporting periods [hours]: the largest giving at least MIN_PERIODS over the design life
+PERIODS = (("year", None), ("month", None), ("week", 168.0), ("day", 24.0), ("hour", 1.0))
+MIN_PERIODS = 10
+
+
+def _period(inp, cpb, hpc):
+    """Cycles per reporting period and its name: a year (``hours_per_year``), or a month
+    (a twelfth of it), week, day or hour when the design life is shorter than ten years;
+    a block of the history when the hours per cycle are unknown."""
+    if hpc:
+        life_h = inp.design_life * hpc
+        for name, hours in PERIODS:
+            h = hours or (inp.hours_per_year if name == "year" else inp.hours_per_year / 12)
+            if life_h / h >= MIN_PERIODS or name == "hour":
+                return h / hpc, name
+    if cpb:
+        return float(cpb), "block"
+    return None, None
+
+
+def _times(cycles, hpc, inp=None):
+    """Cycles → hours (or years with ``inp``: its hours_per_year); None when unknown."""
+    if cycles is None or not hpc:
+        return None
+    hours = float(cycles) * hpc
+    return hours if inp is None else hours / inp.hours_per_year
+
+
+def _with_times(rec: dict, hpc, inp) -> dict:
+    out = dict(rec)
+    out["interval_hours"] = _times(rec["interval_cycles"], hpc)
+    out["interval_years"] = _times(rec["interval_cycles"], hpc, inp)
+    return out
+
+
+def _per_period_rows(prob, unit, per_cycles, hpc, inp):
+    """Rows per period: its end (cycles, hours, years), the probability of failure in it and
+    cumulative, without inspection and at the recommended interval."""
+    pp = prob["per_period"]
+    if not pp:
+        return []
+    rows, cum = [], {}
+    for i, end in enumerate(pp["end_cycles"]):
+        row = {
+            "period": i + 1,
+            "unit": unit,
+            "end_cycles": end,
+            "end_hours": _times(end, hpc),
+            "end_years": _times(end, hpc, inp),
+        }
+        for name in ("no_inspection", "recommended"):
+            if name in pp:
+                cum[name] = cum.get(name, 0.0) + pp[name][i]
+                row[f"pof_in_period_{name}"] = pp[name][i]
+                row[f"cumulative_pof_{name}"] = cum[name]
+        rows.append(row)
+    return rows

@@ -1,9 +1,16 @@
 """Monte Carlo probability of failure under inspections, in fixed-size seeded chunks.
 
-Each chunk draws its samples from its own child of ``numpy.random.SeedSequence(seed)``
-(``spawn(n_chunks)``), so the answer does not depend on how chunks are spread over workers;
-chunk results are sums, added in chunk order.  With a Dask scheduler the chunks run on the
-cluster, otherwise in this process; the same seed gives the same numbers both ways.
+Chunk ``k`` draws its samples from ``numpy.random.SeedSequence(seed, spawn_key=(k,))`` (the
+k-th child of the seed), so a chunk's samples depend on neither the number of chunks nor the
+number of workers, and adding chunks adds samples without changing the earlier ones; chunk
+results are sums, added in chunk order.  The chunks run on threads of this process (the
+compiled kernel and numpy's bulk draws release the GIL; ``CYCJ_WORKERS`` sets the number,
+default all cores) or on a Dask cluster; the same seed gives the same numbers every way.
+
+With ``shift`` set (importance sampling), the scattered inputs are drawn in standard normal
+space around ``shift`` instead of at the origin and each sample carries the likelihood ratio
+w = φ(u)/φ(u − shift) = exp(−z·shift − |shift|²/2) (z the unshifted draw); the probability of
+failure is then the plain mean Σw·I/n with variance (Σw²·I/n − p²)/(n − 1).
 
 Per sample and schedule: the crack grows along its life coordinate (see
 :mod:`cycj.plan.simulation_kernels`); at each inspection it is found with
@@ -17,12 +24,15 @@ References
 ----------
 .. [1] MIL-HDBK-1823A (2009) (POD); Berens, A. P., ASM Handbook Vol. 17 (1989) 689–701.
 .. [2] Rubinstein, R. Y., Kroese, D. P., *Simulation and the Monte Carlo Method*, 3rd ed.,
-   Wiley (2016): common random numbers (§5.2) and importance weights (§5.7).
+   Wiley (2016): common random numbers (§5.2) and importance sampling (§5.7).
+.. [3] numpy.random.SeedSequence: independent child streams by spawn key (NumPy
+   documentation, "Parallel random number generation").
 """
 
 from __future__ import annotations
 
 import math
+import os
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -52,6 +62,11 @@ class McSpec:
     chunk_size: int = CHUNK_SIZE
     findings: tuple = field(default=())
     n_bins: int = 60
+    #: importance-sampling centre in standard normal space, one value per scattered input
+    #: in :data:`cycj.plan.scatter.VARIABLES` order (None: plain Monte Carlo)
+    shift: tuple | None = None
+    #: edges [cycles from the start] of the periods (years or blocks) of ``hist_period``
+    period_edges: tuple = ()
 
     @property
     def n_chunks(self) -> int:
@@ -60,8 +75,12 @@ class McSpec:
     def chunk_n(self, index: int) -> int:
         return min(self.chunk_size, self.samples - index * self.chunk_size)
 
+    def chunk_seed(self, index: int):
+        """The seed of chunk ``index`` (independent of the number of chunks and workers)."""
+        return np.random.SeedSequence(self.seed, spawn_key=(index,))
+
     def seeds(self):
-        return np.random.SeedSequence(self.seed).spawn(self.n_chunks)
+        return [self.chunk_seed(i) for i in range(self.n_chunks)]
 
     @property
     def start(self) -> float:
@@ -75,17 +94,43 @@ def uniform_schedule(interval: float, design_life: float, start: float = 0.0) ->
     return start + interval * np.arange(1, n + 1)
 
 
-def draw_chunk(spec: McSpec, index: int, seed) -> dict:
+def _substream(seed, k: int):
+    """Generator of the k-th sub-stream of a chunk's seed (detections 1, replacements 2)."""
+    ss = seed if isinstance(seed, np.random.SeedSequence) else np.random.SeedSequence(seed)
+    return np.random.default_rng(
+        np.random.SeedSequence(ss.entropy, spawn_key=tuple(ss.spawn_key) + (k,))
+    )
+
+
+def _per_inspection(rng, m: int, n: int) -> np.ndarray:
+    """(n, m) uniforms drawn inspection by inspection (rows of an (m, n) draw), so the first
+    m' < m inspections get the same numbers whatever m a run needs."""
+    return np.ascontiguousarray(rng.random((m, n)).T)
+
+
+def draw_chunk(spec: McSpec, index: int, seed, n_insp: int | None = None) -> dict:
     """The samples of one chunk: ln a0, C-factor, load row/weight, φ at failure, replacement
-    sizes and detection uniforms (arrays of length n, or (n, n_max))."""
+    sizes and detection uniforms (arrays of length n, or (n, n_insp), n_insp ≤ n_max: the
+    inspections the run needs; the uniforms of inspection j do not depend on n_insp)."""
     rng = np.random.default_rng(seed)
     n = spec.chunk_n(index)
-    d = spec.scatter.sample(rng, n)
-    u_det = rng.random((n, spec.n_max))
-    u_rep = rng.random((n, spec.n_max))
+    w_is = np.ones(n)
+    u_normal = None
+    if spec.shift is None:
+        d = spec.scatter.sample(rng, n)
+    else:
+        d, w_is = spec.scatter.sample_shifted(rng, n, spec.shift)
+        u_normal = d.pop("u_normal")
+    m = max(spec.n_max if n_insp is None else min(int(n_insp), spec.n_max), 1)
+    u_det = _per_inspection(_substream(seed, 1), m, n)
     tab = spec.table
     la0 = np.maximum(np.log(d["a0_mm"]), tab.la0)
-    la_repl = np.maximum(np.log(spec.scatter.initial_crack.ppf(u_rep)), tab.la0)
+    ini = spec.scatter.initial_crack
+    if spec.repair == "renew" and ini.scatters:
+        u_rep = _per_inspection(_substream(seed, 2), m, n)
+        la_repl = np.maximum(np.log(ini.ppf(u_rep)), tab.la0)
+    else:  # not used (remove) or one size
+        la_repl = np.full((n, m), max(math.log(ini.median), tab.la0))
     k, w = tab.load_position(d["load_factor"])
     lac = tab.critical_log_size(k, w, d["toughness_factor"])
     return {
@@ -97,27 +142,26 @@ def draw_chunk(spec: McSpec, index: int, seed) -> dict:
         "phic": tab.phi(lac, k, w),
         "la_repl": la_repl,
         "u_det": u_det,
+        "la_thr": spec.pod.log_threshold(u_det),
+        "w_is": w_is,
+        "u_normal": u_normal,
         **d,
     }
 
 
-def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed) -> dict:
-    """Simulate one chunk under each schedule and return weighted sums.
-
-    ``schedules`` (n_sched, n_max) holds absolute inspection times [cycles] (padded),
-    ``n_insp`` the count of each.  Returns sums ``sw, sw2`` (Σw, Σw²) and per schedule
-    ``swf, sw2f`` (Σw·I, Σw²·I), ``swd`` (Σw·detections), ``hist`` (Σw·I per time bin of the
-    horizon) and ``bins`` (Σw·I per inspection interval).
-    """
+def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed):
+    """Simulate one chunk under each schedule: the draws, the sample weights, failure times
+    and bins and detections (n_sched, n), and the horizon [cycles]."""
     from cycj.plan.findings import apply_findings
 
-    dr = draw_chunk(spec, index, seed)
+    dr = draw_chunk(spec, index, seed, int(np.max(n_insp, initial=0)))
     tab = spec.table
-    weights = np.ones(dr["la0"].size)
+    weights = dr["w_is"]
     la_start = dr["la0"]
     t_start = spec.start
     if spec.findings:
-        weights, la_start = apply_findings(dr, tab, spec.findings)
+        wf, la_start = apply_findings(dr, tab, spec.findings)
+        weights = weights * wf
     horizon = spec.design_life - t_start
     n_sched = schedules.shape[0]
     ft, fb, nd = kernels.empty_outputs(n_sched, la_start.size)
@@ -129,15 +173,11 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
         dr["w"],
         dr["phic"],
         dr["la_repl"],
-        dr["u_det"],
+        dr["la_thr"],
         rel,
         np.asarray(n_insp, np.int64),
         horizon,
         0 if spec.repair == "renew" else 1,
-        spec.pod.model_code,
-        spec.pod.mu,
-        spec.pod.sigma,
-        spec.pod.ceiling,
         tab.la0,
         tab.dla,
         tab.logphi,
@@ -145,17 +185,40 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
         fb,
         nd,
     )
+    return dr, weights, ft, fb, nd, horizon
+
+
+def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed) -> dict:
+    """Simulate one chunk under each schedule and return weighted sums.
+
+    ``schedules`` (n_sched, n_max) holds absolute inspection times [cycles] (padded),
+    ``n_insp`` the count of each.  Returns sums ``n`` (samples), ``sw, sw2`` (Σw, Σw²) and per
+    schedule ``nf`` (failing samples), ``swf, sw2f`` (Σw·I, Σw²·I), ``swd`` (Σw·detections),
+    ``hist`` (Σw·I per time bin of the horizon), ``hist_period`` (per reporting period) and
+    ``bins`` (Σw·I per inspection interval).
+    """
+    dr, weights, ft, fb, nd, horizon = simulate_samples(spec, schedules, n_insp, index, seed)
+    n_sched = schedules.shape[0]
     fail = ft <= horizon
     w2 = weights**2
     edges = np.linspace(0.0, horizon, spec.n_bins + 1)
     hist = np.zeros((n_sched, spec.n_bins))
     bins = np.zeros((n_sched, spec.n_max + 1))
+    pedges = np.concatenate([[0.0], np.asarray(spec.period_edges, float)])
+    n_per = max(pedges.size - 1, 1)
+    hper = np.zeros((n_sched, n_per))
     for s in range(n_sched):
         f = fail[s]
         idx = np.clip(np.searchsorted(edges, ft[s, f], side="right") - 1, 0, spec.n_bins - 1)
         hist[s] = np.bincount(idx, weights[f], minlength=spec.n_bins)
         bins[s] = np.bincount(fb[s, f], weights[f], minlength=spec.n_max + 1)[: spec.n_max + 1]
+        if pedges.size > 1:
+            ip = np.clip(np.searchsorted(pedges, ft[s, f], side="right") - 1, 0, n_per - 1)
+            hper[s] = np.bincount(ip, weights[f], minlength=n_per)
     return {
+        "n": float(weights.size),
+        "nf": fail.sum(axis=1).astype(float),
+        "hist_period": hper,
         "sw": weights.sum(),
         "sw2": w2.sum(),
         "swf": (fail * weights).sum(axis=1),
@@ -174,13 +237,28 @@ def _add(total: dict | None, part: dict) -> dict:
     return total
 
 
-class Runner:
-    """Maps chunk jobs in this process or on a Dask distributed cluster (``scheduler`` is an
-    address such as ``tcp://host:8786`` or a ``distributed.Client``)."""
+def default_workers() -> int:
+    """Threads for in-process chunks: ``CYCJ_WORKERS`` if set, else the usable cores."""
+    raw = os.environ.get("CYCJ_WORKERS", "").strip()
+    if raw.isdigit() and int(raw) > 0:
+        return int(raw)
+    try:
+        return max(len(os.sched_getaffinity(0)), 1)
+    except AttributeError:  # pragma: no cover - not on Linux
+        return max(os.cpu_count() or 1, 1)
 
-    def __init__(self, scheduler=None):
+
+class Runner:
+    """Maps chunk jobs over threads of this process (``workers``, default
+    :func:`default_workers`) or on a Dask distributed cluster (``scheduler`` is an address such
+    as ``tcp://host:8786`` or a ``distributed.Client``).  Results are added in chunk order, so
+    they do not depend on the number of workers."""
+
+    def __init__(self, scheduler=None, workers: int | None = None):
         self.client = None
         self._own = False
+        self.workers = default_workers() if workers is None else max(int(workers), 1)
+        self._pool = None
         if scheduler is None:
             return
         try:
@@ -205,6 +283,9 @@ class Runner:
             self._own = True
 
     def close(self):
+        if self._pool is not None:
+            self._pool.shutdown()
+            self._pool = None
         if self._own and self.client is not None:
             self.client.close()
 
@@ -214,20 +295,30 @@ class Runner:
     def __exit__(self, *exc):
         self.close()
 
-    def run(self, spec: McSpec, schedules, n_insp) -> dict:
-        """Sum of :func:`run_chunk` over all chunks, added in chunk order."""
-        seeds = spec.seeds()
-        idx = range(spec.n_chunks)
+    def run(self, spec: McSpec, schedules, n_insp, chunks=None) -> dict:
+        """Sum of :func:`run_chunk` over ``chunks`` (default all), added in chunk order."""
+        idx = list(range(spec.n_chunks) if chunks is None else chunks)
         if self.client is None:
-            parts = (run_chunk(spec, schedules, n_insp, i, seeds[i]) for i in idx)
+            if self.workers > 1 and len(idx) > 1:
+                if self._pool is None:
+                    from concurrent.futures import ThreadPoolExecutor
+
+                    self._pool = ThreadPoolExecutor(self.workers)
+                parts = self._pool.map(
+                    lambda i: run_chunk(spec, schedules, n_insp, i, spec.chunk_seed(i)), idx
+                )
+            else:
+                parts = (run_chunk(spec, schedules, n_insp, i, spec.chunk_seed(i)) for i in idx)
             total = None
-            for p in parts:
+            for p in parts:  # in chunk order
                 total = _add(total, p)
             return total
         c = self.client
         [fspec] = c.scatter([spec], broadcast=True, hash=False)
         [fsch] = c.scatter([(schedules, n_insp)], broadcast=True, hash=False)
-        futs = [c.submit(_remote_chunk, fspec, fsch, i, seeds[i], pure=False) for i in idx]
+        futs = [
+            c.submit(_remote_chunk, fspec, fsch, i, spec.chunk_seed(i), pure=False) for i in idx
+        ]
         total = None
         for f in futs:  # in chunk order
             total = _add(total, f.result())
@@ -251,16 +342,42 @@ def pack_schedules(schedules, n_max: int):
     return arr, n
 
 
-def summarise(total: dict) -> dict:
-    """Probability of failure, its standard error and the mean detections per schedule."""
-    sw = total["sw"]
-    p = total["swf"] / sw
-    var = (total["sw2f"] * (1 - 2 * p) + p**2 * total["sw2"]) / sw**2
+def summarise(total: dict, importance: bool = False) -> dict:
+    """Probability of failure, its standard error and the mean detections per schedule.
+
+    Weighted samples (findings) give the ratio estimate Σw·I/Σw; importance-sampling weights
+    (``importance``) the plain mean Σw·I/n, whose variance does not suffer from the spread of
+    Σw.
+    """
+    n = total["n"]
+    if importance:
+        p = total["swf"] / n
+        var = np.maximum(total["sw2f"] / n - p**2, 0.0) / max(n - 1.0, 1.0)
+        norm = n
+    else:
+        sw = total["sw"]
+        p = total["swf"] / sw
+        var = (total["sw2f"] * (1 - 2 * p) + p**2 * total["sw2"]) / sw**2
+        norm = sw
     return {
         "pof": p,
         "std_error": np.sqrt(np.maximum(var, 0.0)),
-        "detections_mean": total["swd"] / sw,
-        "cumulative": np.cumsum(total["hist"], axis=1) / sw,
-        "per_interval": total["bins"] / sw,
-        "effective_samples": sw**2 / total["sw2"],
+        "detections_mean": total["swd"] / norm,
+        "cumulative": np.cumsum(total["hist"], axis=1) / norm,
+        "per_interval": total["bins"] / norm,
+        "per_period": total["hist_period"] / norm,
+        "failures": total["nf"],
+        "samples": n,
+        "effective_samples": total["sw"] ** 2 / total["sw2"],
     }
+
+
+def take(total: dict, rows) -> dict:
+    """The sums of the schedules ``rows`` (a slice or index array) of a :func:`run_chunk`
+    total; the per-sample sums are kept."""
+    return {k: (v[rows] if np.ndim(v) >= 1 else v) for k, v in total.items()}
+
+
+def merge(a: dict | None, b: dict) -> dict:
+    """Sums of two disjoint sets of chunks over the same schedules."""
+    return _add(a, b) if a is not None else _add(None, b)

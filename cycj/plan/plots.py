@@ -21,7 +21,9 @@ def pof_vs_interval(summary: dict):
     x = np.array([r["interval_cycles"] for r in srch])
     p = np.array([r["pof"] for r in srch])
     se = np.array([r["std_error"] for r in srch])
-    ax.errorbar(x, p, yerr=se, fmt="o-", ms=3, lw=1, label="searched intervals")
+    ax.errorbar(
+        x, p, yerr=se, fmt="o-", ms=3, lw=1, label="searched intervals (monotone fit ± s.e.)"
+    )
     wi = summary["what_if"]
     if wi:
         ax.errorbar(
@@ -37,6 +39,19 @@ def pof_vs_interval(summary: dict):
     rec = summary["recommended_interval_cycles"]
     if rec is not None and summary.get("inspection_needed", True):
         ax.axvline(rec, color="C2", ls="-.", label=f"recommended {rec:.3g}")
+        r = summary.get("recommendation") or {}
+        if r.get("pof_ci"):
+            lo, hi = r["pof_ci"]
+            ax.errorbar(
+                [rec],
+                [r["pof_estimate"]],
+                yerr=[[r["pof_estimate"] - lo], [hi - r["pof_estimate"]]],
+                fmt="D",
+                color="C2",
+                ms=5,
+                capsize=3,
+                label=f"{round(100 * r['confidence'])} % interval there",
+            )
     ax.set_xscale("log")
     if np.any(p > 0):
         ax.set_yscale("log")
@@ -130,5 +145,76 @@ def pod_plot(fit, a, y, kind: str):
     ax.set_xscale("log")
     ax.set_xlabel("crack size a [mm]")
     ax.legend(fontsize=8, loc="center right")
+    ax.grid(True, which="both", alpha=0.3)
+    return fig
+
+
+def pof_per_period(summary: dict):
+    """Probability of failure per period (year or block) as bars and cumulative as lines,
+    without inspection and at the recommended interval."""
+    fig, ax = _fig()
+    rows = summary.get("pof_per_period") or []
+    unit = summary.get("period") or "period"
+    if not rows:
+        ax.text(0.5, 0.5, "no period known (no duration per cycle)", ha="center")
+        return fig
+    x = np.array([r["period"] for r in rows])
+    ax2 = ax.twinx()
+    for i, (name, label) in enumerate(
+        (("no_inspection", "no inspection"), ("recommended", "recommended interval"))
+    ):
+        key = f"pof_in_period_{name}"
+        if key not in rows[0]:
+            continue
+        ax.bar(
+            x + (i - 0.5) * 0.4,
+            [r[key] for r in rows],
+            0.4,
+            alpha=0.6,
+            color=f"C{i}",
+            label=f"per {unit}, {label}",
+        )
+        ax2.plot(
+            x,
+            [r[f"cumulative_pof_{name}"] for r in rows],
+            f"C{i}-",
+            lw=1.5,
+            label=f"cumulative, {label}",
+        )
+    ax2.axhline(summary["target_pof"], color="C3", ls="--", lw=1, label="target (cumulative)")
+    ax.set_xlabel(f"{unit} of service")
+    ax.set_ylabel(f"probability of failure in the {unit}")
+    ax2.set_ylabel("cumulative probability of failure")
+    h1, l1 = ax.get_legend_handles_labels()
+    h2, l2 = ax2.get_legend_handles_labels()
+    ax.legend(h1 + h2, l1 + l2, fontsize=7, loc="upper left")
+    ax.grid(True, alpha=0.3)
+    return fig
+
+
+def pod_used(summary: dict, lower_bound: bool = False):
+    """The POD curve of the plan and, when asked, the curve of the same spread through the
+    a90/95 size (a lower bound on POD at each size)."""
+    import math
+
+    from cycj.plan.pod import PodCurve
+
+    d = summary["pod"]
+    c = PodCurve(d["model"], d["mu"], d["sigma"], d["ceiling"], d.get("a90_95_mm"))
+    fig, ax = _fig()
+    top = max(c.a90 * 3, (c.a90_95 or 0) * 2)
+    a = np.geomspace(c.a50 / 10, top, 300)
+    ax.plot(a, c(a), "C0-", label=f"POD used ({c.model}, a50 {c.a50:.3g} mm)")
+    ax.axvline(c.a90, color="C0", ls=":", lw=1, label=f"a90 = {c.a90:.3g} mm")
+    if lower_bound and c.a90_95:
+        lb = PodCurve(c.model, c.mu + math.log(c.a90_95 / c.a90), c.sigma, c.ceiling)
+        ax.plot(a, lb(a), "C1--", label=f"lower bound through a90/95 = {c.a90_95:.3g} mm")
+    det = summary["deterministic"]["detectable_size_mm"]
+    ax.axvline(det, color="0.4", ls="-.", lw=1, label=f"detectable size {det:.3g} mm")
+    ax.set_xscale("log")
+    ax.set_ylim(0, 1.02)
+    ax.set_xlabel("crack size a [mm]")
+    ax.set_ylabel("probability of detection")
+    ax.legend(fontsize=8, loc="lower right")
     ax.grid(True, which="both", alpha=0.3)
     return fig

@@ -130,6 +130,17 @@ class PodCurve:
         f = pod_lognormal if self.model == "lognormal" else pod_loglogistic
         return f(a, self.mu, self.sigma, self.ceiling)
 
+    def log_threshold(self, u):
+        """ln of the size above which a crack is detected for detection uniforms ``u``
+        (array): POD(a) > u ⇔ ln a > μ + σ·z(u/c), with z the probit or logit; +inf where
+        u ≥ the ceiling c (never detected)."""
+        from scipy.special import logit, ndtri
+
+        u = np.asarray(u, float)
+        q = np.minimum(u / self.ceiling, 1.0)
+        z = ndtri(q) if self.model == "lognormal" else logit(q)
+        return np.where(u < self.ceiling, self.mu + self.sigma * z, np.inf)
+
     def size_at(self, p: float) -> float:
         """Crack size [mm] whose POD (before the ceiling) is ``p``: a_p = exp(μ + z_p·σ)."""
         return math.exp(self.mu + _z(self.model, p) * self.sigma)

@@ -62,6 +62,23 @@ class Dist:
             return self.p1 + self.p2 * ndtri(lo + u * (1.0 - lo))
         raise ValueError(f"unknown distribution {self.kind!r}")
 
+    def from_normal(self, x):
+        """The value whose CDF is Φ(x), for standard normal ``x`` (array): the same map as
+        :meth:`ppf` at u = Φ(x), computed so that the upper tail keeps its precision."""
+        from scipy.special import log_ndtr, ndtr, ndtri
+
+        x = np.asarray(x, float)
+        if not self.scatters:
+            return self.ppf(np.full(x.shape, 0.5))
+        if self.kind == "lognormal":
+            return np.exp(self.p1 + self.p2 * x)
+        if self.kind == "weibull":
+            return self.p2 * (-log_ndtr(-x)) ** (1.0 / self.p1)
+        if self.kind == "normal":
+            lo = ndtr(-self.p1 / self.p2)
+            return self.p1 - self.p2 * ndtri((1.0 - lo) * ndtr(-x))
+        raise ValueError(f"unknown distribution {self.kind!r}")
+
     def quantile(self, p: float) -> float:
         return float(self.ppf(np.array([p]))[0])
 
@@ -129,3 +146,34 @@ class Scatter:
             "toughness_factor": self.toughness.ppf(u[2]),
             "load_factor": self.load_scale.ppf(u[3]),
         }
+
+    def from_normal(self, x) -> dict:
+        """Values at standard normal points ``x`` (4, n), in :data:`VARIABLES` order."""
+        return {
+            "c_factor": self.growth_C.from_normal(x[0]),
+            "a0_mm": self.initial_crack.from_normal(x[1]),
+            "toughness_factor": self.toughness.from_normal(x[2]),
+            "load_factor": self.load_scale.from_normal(x[3]),
+        }
+
+    @property
+    def scattering(self) -> np.ndarray:
+        """Mask of the inputs that scatter (in :data:`VARIABLES` order)."""
+        return np.array([getattr(self, v).scatters for v in VARIABLES])
+
+    def sample_shifted(self, rng: np.random.Generator, n: int, shift) -> tuple[dict, np.ndarray]:
+        """Importance sampling: ``n`` draws x = z + shift in standard normal space (z ~ N(0, I);
+        the shift of an input that does not scatter is ignored) and their likelihood ratios
+        w = φ(x)/φ(x − shift) = exp(−z·shift − |shift|²/2); the dict also holds the points x
+        (``u_normal``).
+
+        References
+        ----------
+        Rubinstein, R. Y., Kroese, D. P., *Simulation and the Monte Carlo Method*, 3rd ed.,
+        Wiley (2016), §5.7 (importance sampling).
+        """
+        s = np.where(self.scattering, np.asarray(shift, float), 0.0)
+        z = rng.standard_normal((4, n))
+        w = np.exp(-(s @ z) - 0.5 * float(s @ s))
+        x = z + s[:, None]
+        return self.from_normal(x) | {"u_normal": x}, w

@@ -11,7 +11,8 @@ points.
 References
 ----------
 .. [1] Paris, P. C., Erdogan, F., J. Basic Eng. 85 (1963) 528 (life scales as 1/C).
-.. [2] MIL-HDBK-1823A (2009): POD(a) forms.
+.. [2] MIL-HDBK-1823A (2009): POD(a) forms (inverted at the detection uniform,
+   :meth:`cycj.plan.pod.PodCurve.log_threshold`).
 """
 
 from __future__ import annotations
@@ -21,7 +22,6 @@ import math
 import numpy as np
 
 from cycj._jit import jit
-from cycj.plan.pod import POD_LOGNORMAL
 
 
 @jit
@@ -79,19 +79,6 @@ def size_at(phi, k, w, la0, dla, logphi):
 
 
 @jit
-def pod_value(a, model, mu, sigma, ceiling):
-    """POD at size ``a`` [mm]: model 0 log-normal, 1 log-logistic (MIL-HDBK-1823A)."""
-    if a <= 0.0:
-        return 0.0
-    z = (math.log(a) - mu) / sigma
-    if model == POD_LOGNORMAL:
-        return ceiling * 0.5 * math.erfc(-z / math.sqrt(2.0))
-    if z < -700.0:
-        return 0.0
-    return ceiling / (1.0 + math.exp(-z))
-
-
-@jit
 def simulate(
     la0_s,
     xc,
@@ -99,15 +86,11 @@ def simulate(
     w_s,
     phic,
     la_repl,
-    u_det,
+    la_thr,
     times,
     n_insp,
     horizon,
     repair,
-    pod_model,
-    pod_mu,
-    pod_sigma,
-    pod_ceiling,
     la_grid0,
     dla,
     logphi,
@@ -121,9 +104,11 @@ def simulate(
     ----------
     la0_s, xc, k_s, w_s, phic : (n,) arrays
         ln initial size, C-factor, load-scale row and weight, life coordinate at failure.
-    la_repl, u_det : (n, n_max) arrays
-        ln size of the crack that replaces a detected one at inspection j; uniform for the
-        detection draw at inspection j (common to all schedules).
+    la_repl, la_thr : (n, n_max) arrays
+        ln size of the crack that replaces a detected one at inspection j; ln of the size above
+        which inspection j detects the crack (the POD inverted at the sample's detection
+        uniform u: POD(a) > u ⇔ a > POD⁻¹(u); +inf when u ≥ the POD's ceiling), common to all
+        schedules, so one threshold in φ per inspection serves every schedule.
     times : (n_sched, n_max) inspection times [cycles], ascending; n_insp : (n_sched,) counts.
     horizon : float, cycles simulated (design life).
     repair : 0 renew (a new initial crack), 1 remove (no further crack).
@@ -132,12 +117,19 @@ def simulate(
     """
     n = la0_s.shape[0]
     n_sched = times.shape[0]
+    n_max = 0
+    for s in range(n_sched):
+        n_max = max(n_max, n_insp[s])
+    phi_thr = np.empty(max(n_max, 1))
     for i in range(n):
         k = k_s[i]
         w = w_s[i]
         x = xc[i]
         pc = phic[i]
         phi_first = phi_at(la0_s[i], k, w, la_grid0, dla, logphi)
+        for j in range(n_max):
+            lt = la_thr[i, j]
+            phi_thr[j] = math.inf if lt == math.inf else phi_at(lt, k, w, la_grid0, dla, logphi)
         for s in range(n_sched):
             phi0 = phi_first
             t0 = 0.0
@@ -152,8 +144,7 @@ def simulate(
                     ft = tf
                     fb = j
                     break
-                la = size_at(phi0 + x * (tj - t0), k, w, la_grid0, dla, logphi)
-                if u_det[i, j] < pod_value(math.exp(la), pod_model, pod_mu, pod_sigma, pod_ceiling):
+                if phi0 + x * (tj - t0) > phi_thr[j]:
                     nd += 1
                     if repair == 1:
                         removed = True

@@ -26,11 +26,31 @@ def answer_sentence(s: dict) -> str:
             f"; no interval searched meets the target probability of failure {s['target_pof']:.3g}."
         )
     else:
+        r = s.get("recommendation") or {}
+        when = f"{rec:.4g} cycles"
+        if s.get("recommended_interval_years") is not None:
+            when += (
+                f" ({s['recommended_interval_hours']:.4g} h, "
+                f"{s['recommended_interval_years']:.3g} years)"
+            )
         parts.append(
             f"; to keep the probability of failure over {s['design_life_cycles']:.4g} "
-            f"cycles within {s['target_pof']:.3g}, inspect at most every "
-            f"{rec:.4g} cycles (no inspection: {s['no_inspection']['pof']:.3g})."
+            f"cycles within {s['target_pof']:.3g}, inspect at most every {when} "
+            f"(no inspection: {s['no_inspection']['pof']:.3g})"
         )
+        if r:
+            lo, hi = r["pof_ci"]
+            parts.append(
+                f"; there the probability of failure is {r['pof_estimate']:.3g} "
+                f"({round(100 * r['confidence'])} % interval {lo:.3g} to {hi:.3g}, "
+                f"{r['samples']} samples, {r['method']})"
+            )
+            if r.get("budget_reached"):
+                parts.append(
+                    f" — the sample budget ({r['budget_samples']}) was reached before the "
+                    f"interval narrowed to ± {r['half_width_limit']:.2g}"
+                )
+        parts.append(".")
     return "".join(parts)
 
 
@@ -54,6 +74,8 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
         od.write_csv("what_if.csv", result.what_if)
         sched = pd.DataFrame(summary["deterministic"]["schedule"])
         od.write_csv("schedule.csv", sched)
+        if summary.get("pof_per_period"):
+            od.write_csv("pof_per_period.csv", pd.DataFrame(summary["pof_per_period"]))
         figures = []
         if plots:
             from cycj.plan import plots as P
@@ -69,6 +91,22 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
                     "cumulative_pof.png",
                     "Cumulative probability of failure vs cycles",
                     P.cumulative_pof(summary),
+                ),
+                (
+                    "pof_per_period.png",
+                    f"Probability of failure per {summary.get('period') or 'period'} and "
+                    "cumulative, without inspection and at the recommended interval",
+                    P.pof_per_period(summary),
+                ),
+                (
+                    "pod_used.png",
+                    "The POD curve used"
+                    + (
+                        " and its lower bound through a90/95"
+                        if result.inputs.pod_lower_bound
+                        else ""
+                    ),
+                    P.pod_used(summary, result.inputs.pod_lower_bound),
                 ),
                 (
                     "crack_envelope.png",
@@ -99,6 +137,8 @@ def _report(od, case, s, result, figures, sched):
         ("POD", inp.pod.to_toml()),
         ("repair", s["repair"]),
         ("samples, seed", f"{s['samples']}, {s['seed']}"),
+        ("samples used (budget)", f"{s.get('samples_used')} ({s.get('max_samples')})"),
+        ("sampling method", str(s.get("method"))),
         ("target probability of failure", f"{s['target_pof']:g}"),
     ]
     for name in ("growth_C", "initial_crack", "toughness", "load_scale"):
@@ -121,6 +161,44 @@ def _report(od, case, s, result, figures, sched):
 
     wi = result.what_if
     tables = [("What-if intervals", wi), ("Deterministic inspection schedule", sched)]
+    r = s.get("recommendation")
+    if r and r.get("interval_cycles") is not None:
+        row = {
+            k: r.get(k)
+            for k in ("interval_cycles", "interval_hours", "interval_years", "pof_estimate")
+        }
+        row |= {
+            "ci_low": r["pof_ci"][0],
+            "ci_high": r["pof_ci"][1],
+            "samples": r["samples"],
+            "failing_samples": r["failures"],
+            "method": r["method"],
+            "converged": r["converged"],
+            "budget_reached": r["budget_reached"],
+        }
+        tables.insert(0, ("Recommended interval", pd.DataFrame([row])))
+    f = s.get("form")
+    if f and f.get("available"):
+        tables.append(
+            (
+                "No inspection: sampling estimate and FORM cross-check",
+                pd.DataFrame(
+                    [
+                        {
+                            "pof_sampling": s["no_inspection"]["pof"],
+                            "std_error": s["no_inspection"]["std_error"],
+                            "pof_form": f["pof"],
+                            "beta": f["beta"],
+                            "form_converged": f["converged"],
+                        }
+                    ]
+                ),
+            )
+        )
+    if s.get("pof_per_period"):
+        tables.append(
+            (f"Probability of failure per {s['period']}", pd.DataFrame(s["pof_per_period"]))
+        )
     if s["schedule"]:
         tables.append(
             (

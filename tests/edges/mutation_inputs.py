@@ -175,6 +175,7 @@ CASE_PLAN = {
         "repair": "renew",
         "max_inspections": 8,
         "chunk_size": 200,
+        "max_samples": 400,
         "scatter": {
             "growth_C": {"distribution": "lognormal", "sigma": 0.3},
             "initial_crack": {"distribution": "lognormal", "median": "0.5 mm", "sigma": 0.5},

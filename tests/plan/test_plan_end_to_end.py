@@ -96,6 +96,22 @@ def test_plan_inspections_with_life_engine(case13):
         p, abs=4 * s["no_inspection"]["std_error"] + 2e-3
     )
     assert set(s) >= {"deterministic", "no_inspection", "what_if", "recommended_interval_cycles"}
+    # times: 10 s per cycle (the case's duration), a year of 8766 h (365.25 days)
+    hpc = 10 / 3600
+    rec = s["recommendation"]
+    assert s["recommended_interval_hours"] == pytest.approx(rec["interval_cycles"] * hpc)
+    assert s["recommended_interval_years"] == pytest.approx(rec["interval_cycles"] * hpc / 8766)
+    assert s["design_life_years"] == pytest.approx(1e6 * hpc / 8766)
+    for w in s["what_if"]:
+        assert w["interval_hours"] == pytest.approx(w["interval_cycles"] * hpc)
+    # 2778 h = 16.5 weeks: weeks are the largest period with ten in the design life; the
+    # per-period probabilities add up to the cumulative one over the design life
+    rows = s["pof_per_period"]
+    assert s["period"] == "week" and rows[-1]["end_cycles"] == pytest.approx(1e6)
+    assert sum(r["pof_in_period_no_inspection"] for r in rows) == pytest.approx(
+        s["no_inspection"]["pof"], abs=1e-12
+    )
+    assert rows[-1]["cumulative_pof_no_inspection"] == pytest.approx(s["no_inspection"]["pof"])
     assert list(r.what_if.columns[:4]) == ["interval_cycles", "pof", "std_error", "detections_mean"]
 
 

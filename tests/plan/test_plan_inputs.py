@@ -66,6 +66,12 @@ def test_detectable_size_defaults_to_a90_or_a90_95(case):
         ({"intervals": [1e5, -3]}, "inspection.intervals"),
         ({"schedule": [2e5, 3e6]}, "within the design life"),
         ({"design_life": None}, "inspection.design_life"),
+        ({"max_samples": 10}, "inspection.max_samples"),
+        ({"pof_tolerance": 0}, "inspection.pof_tolerance"),
+        ({"confidence": 1.0}, "inspection.confidence"),
+        ({"method": "subset"}, "inspection.method"),
+        ({"hours_per_year": 0}, "inspection.hours_per_year"),
+        ({"pod_lower_bound": True}, "needs a POD with a90_95"),
         (
             {"scatter": {"growth_c": {"distribution": "lognormal", "sigma": 0.3}}},
             "did you mean 'growth_C'",

@@ -49,6 +49,7 @@ def inputs(scatter, pod=None, **kw):
         scatter=scatter,
     )
     base.update(kw)
+    base.setdefault("max_samples", base["samples"])  # no samples added unless asked
     return PlanInputs(**base)
 
 
