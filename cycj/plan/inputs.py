@@ -220,6 +220,8 @@ def read_inspection(case) -> PlanInputs:
     else:
         det, det_src = pod.a90, "the POD's a90"
     intervals = _times(t, "intervals")
+    if intervals == ():
+        raise t.error("intervals", "needs at least one what-if interval", found=[])
     if intervals is not None and min(intervals) < life / MAX_INSPECTIONS:
         raise t.error(
             "intervals",

@@ -384,3 +384,26 @@ def test_decimal_commas_are_refused(tmp_path, capsys, name):
     code, _, err = run_cli(args, capsys)
     assert code == 2 and "decimal comma" in err and name in err
     assert not (tmp_path / "o").exists()
+
+
+def test_empty_what_if_intervals_are_refused(tmp_path, capsys):
+    """Found by the mutation tests: `intervals = []` in [inspection] ended `cycj check` in an
+    internal error (min of an empty list)."""
+    import shutil
+
+    from tests.helpers import run_cli
+
+    ex = Path(__file__).parents[2] / "examples"
+    text = (ex / "plate_inspection.toml").read_text(encoding="utf-8")
+    assert "intervals" in text
+    import re
+
+    text = re.sub(r"(?m)^intervals\s*=.*$", "intervals = []", text)
+    case = tmp_path / "plate_inspection.toml"
+    case.write_text(text, encoding="utf-8")
+    for f in ex.iterdir():
+        if f.suffix == ".csv":
+            shutil.copy(f, tmp_path / f.name)
+    code, out, err = run_cli(["check", case], capsys)
+    assert code == 2
+    assert "inspection.intervals" in err and "at least one" in err
