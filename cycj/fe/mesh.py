@@ -180,3 +180,12 @@ def _with_midsides(corners, tip, sizes, scale):
     mid_ids = len(nodes) + einv.reshape(-1, 4)
     elements = np.concatenate([conn, mid_ids], axis=1)
     return Mesh(np.concatenate([nodes, mids]), elements, tip, np.asarray(sizes))
+
+
+def without(mesh: Mesh, drop) -> Mesh:
+    """The mesh with the elements in the boolean mask ``drop`` removed (nodes renumbered)."""
+    kept = mesh.elements[~np.asarray(drop, bool)]
+    used = np.unique(kept)
+    renum = -np.ones(len(mesh.nodes), np.int64)
+    renum[used] = np.arange(len(used))
+    return Mesh(mesh.nodes[used], renum[kept], mesh.tip, mesh.ring_sizes)

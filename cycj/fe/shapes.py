@@ -32,7 +32,7 @@ from __future__ import annotations
 import numpy as np
 
 from cycj.fe.element import edge_loads
-from cycj.fe.mesh import focused_mesh
+from cycj.fe.mesh import focused_mesh, without
 from cycj.fe.solver import Problem
 
 #: shapes with a finite-element model here
@@ -61,11 +61,19 @@ def build(shape: str, width: float, a: float, law, *, refine: int = 1, order: in
     points = []  # elastic patches
     if shape == "compact-tension":
         x0, x1, h = -0.25 * w, w, 0.6 * w
-        outer = 0.7 * min(a - x0, x1 - a, a, 0.275 * w)
+        outer = 0.7 * min(a - x0, x1 - a, 0.15 * w)
         mesh = focused_mesh(
-            x0, x1, h, a, outer=outer, per_ring=per_ring, x_lines=(0.0,), y_lines=(0.275 * w,)
+            x0,
+            x1,
+            h,
+            a,
+            outer=outer,
+            per_ring=per_ring,
+            hmax=w / 8 / refine,
+            x_lines=tuple(np.linspace(-0.175, 0.175, 15) * w),
+            y_lines=tuple(np.linspace(0.1, 0.45, 15) * w),
         )
-        point_loads.append((0.0, 0.275 * w, 0.0, w))
+        mesh, pin_force = _pin_hole(mesh, w)
         points.append((0.0, 0.275 * w))
         fix_x = [mesh.nearest_node(x1, 0.0)]
     elif shape == "three-point-bend":
@@ -91,6 +99,8 @@ def build(shape: str, width: float, a: float, law, *, refine: int = 1, order: in
         raise ValueError(f"no finite-element model of shape {shape!r}")
     nodes = mesh.nodes
     force = np.zeros((len(nodes), 2))
+    if shape == "compact-tension":
+        force += pin_force
     for x, y, fx, fy in point_loads:
         force[mesh.nearest_node(x, y)] += (fx, fy)
     if shape in ("center-crack-plate", "edge-crack-plate"):
@@ -98,9 +108,31 @@ def build(shape: str, width: float, a: float, law, *, refine: int = 1, order: in
     lig = np.flatnonzero((np.abs(nodes[:, 1]) <= tol) & (nodes[:, 0] >= a - tol))
     fixed = np.unique(np.concatenate([2 * lig + 1, 2 * np.asarray(fix_x, np.int64)]))
     elastic = None
+    radius = 0.2 if shape == "compact-tension" else 0.04
     if points:
         c = mesh.centroids()
         elastic = np.zeros(len(c), bool)
         for x, y in points:
-            elastic |= np.hypot(c[:, 0] - x, c[:, 1] - y) <= 0.04 * w
+            elastic |= np.hypot(c[:, 0] - x, c[:, 1] - y) <= radius * w
     return Problem(mesh, law, fixed, force.ravel(), elastic, order)
+
+
+def _pin_hole(mesh, w):
+    """Cut the C(T) pin hole (diameter 0.25W, centre (0, 0.275W)) out of the grid (stepped at
+    the grid lines) and spread the pin force S·W over the nodes of its upper half, weighted
+    by cos θ from the vertical and corrected so the resultant acts on the load line."""
+    xc, yc, r = 0.0, 0.275 * w, 0.125 * w
+    c = mesh.centroids()
+    inside = np.hypot(c[:, 0] - xc, c[:, 1] - yc) < r
+    hole_nodes = np.unique(mesh.elements[inside])
+    out = without(mesh, inside)
+    old = np.unique(mesh.elements[~inside])
+    edge = np.flatnonzero(np.isin(old, hole_nodes))
+    x, y = out.nodes[edge, 0] - xc, out.nodes[edge, 1] - yc
+    top = y > 0
+    edge, x, y = edge[top], x[top], y[top]
+    wt = y / np.hypot(x, y)
+    wt = wt * (1 - x * np.sum(wt * x) / np.sum(wt * x * x))
+    force = np.zeros((len(out.nodes), 2))
+    force[edge, 1] = w * wt / wt.sum()
+    return out, force

@@ -3,7 +3,7 @@
 The body is a nonlinear elastic solid (deformation plasticity), so the equilibrium state
 minimises the potential Π(u) = ∫W dA − f·u over the free degrees of freedom; the tangent is
 symmetric positive definite.  Each Newton step solves K_t·du = f − f_int(u) with scipy's sparse
-direct solver (SuperLU, minimum-degree ordering of KᵀK+K) and backtracks along du until Π
+direct solver (SuperLU, symmetric mode: diagonal pivots, minimum-degree ordering of Kᵀ+K) and backtracks along du until Π
 decreases enough (Armijo).  Loads are applied in increasing order; each starts from the previous
 solution scaled to the new load, and a load that does not converge is approached in halves.
 
@@ -101,7 +101,8 @@ class Problem:
         if tangent:
             import scipy.sparse as sp
 
-            ke = np.einsum("egia,egij,egjb,eg->eab", kin.B, d, kin.B, kin.wdet)
+            db = np.einsum("egij,egjb->egib", d * kin.wdet[..., None, None], kin.B)
+            ke = np.einsum("egia,egib->eab", kin.B, db, optimize=True)
             keep, inv, cols, indptr, nnz = self.pattern()
             data = np.bincount(inv, ke.ravel()[keep], minlength=nnz)
             n = len(self.free)
@@ -121,9 +122,16 @@ class Solution:
 
 
 def _solve_linear(k, r):
-    from scipy.sparse.linalg import spsolve
+    from scipy.sparse.linalg import splu
 
-    return spsolve(k.tocsc(), r, permc_spec="MMD_AT_PLUS_A")
+    # symmetric positive definite: diagonal pivots and a symmetric ordering suffice
+    lu = splu(
+        k.tocsc(),
+        permc_spec="MMD_AT_PLUS_A",
+        diag_pivot_thresh=0.0,
+        options={"SymmetricMode": True},
+    )
+    return lu.solve(r)
 
 
 def newton(problem: Problem, load: float, u0, *, tol=1e-9, max_iter=40, ezz=None):
@@ -145,7 +153,7 @@ def newton(problem: Problem, load: float, u0, *, tol=1e-9, max_iter=40, ezz=None
         step = 1.0
         for _ in range(30):
             trial = u + step * du
-            st_t = problem.state(trial, True, st["ezz"])
+            st_t = problem.state(trial, False, st["ezz"])
             pi = st_t["energy"] - f @ trial
             if pi <= pi0 + 1e-4 * step * slope + 1e-12 * abs(pi0):
                 break
@@ -155,7 +163,7 @@ def newton(problem: Problem, load: float, u0, *, tol=1e-9, max_iter=40, ezz=None
             step = float(np.clip(new, 0.1 * step, 0.5 * step))
         else:
             raise RuntimeError("line search failed")
-        u, st = trial, st_t
+        u, st = trial, problem.state(trial, True, st["ezz"])
         if abs(step * slope) <= 1e-16 * max(abs(pi0), 1e-300) and it > 2:
             return u, st, it
     r = (f - st["fint"])[free]
@@ -172,6 +180,7 @@ def solve_loads(problem: Problem, loads, *, tol=1e-9, max_iter=40, max_halvings=
     out = []
     u = np.zeros(problem.n_dofs)
     prev, ezz = 0.0, None
+    u_before, prev_before = u, 0.0
     for target in loads:
         t0 = time.perf_counter()
         iters = 0
@@ -179,7 +188,7 @@ def solve_loads(problem: Problem, loads, *, tol=1e-9, max_iter=40, max_halvings=
         halvings = 0
         while queue:
             level = queue[-1]
-            start = u * (level / prev) if prev > 0 else u
+            start = _start(problem, level, prev, u, u_before, prev_before, ezz)
             try:
                 u_new, st, it = newton(problem, level, start, tol=tol, max_iter=max_iter, ezz=ezz)
             except RuntimeError:
@@ -189,7 +198,28 @@ def solve_loads(problem: Problem, loads, *, tol=1e-9, max_iter=40, max_halvings=
                 queue.append(0.5 * (prev + level))
                 continue
             iters += it
+            u_before, prev_before = u, prev
             u, prev, ezz = u_new, level, st["ezz"]
             queue.pop()
         out.append(Solution(target, u.copy(), st, iters, time.perf_counter() - t0))
     return out
+
+
+def _start(problem, level, prev, u, u_before, prev_before, ezz):
+    """Start of Newton at ``level``: the previous solution scaled to the new load, either
+    linearly or with the power p the last two solutions show (|u| ∝ P^p, p ≥ 1, as in the
+    fully plastic range); whichever has the lower potential energy."""
+    if prev <= 0:
+        return u
+    ratio = level / prev
+    cands = [u * ratio]
+    nu, nb = np.linalg.norm(u), np.linalg.norm(u_before)
+    if prev_before > 0 and nb > 0 and nu > nb:
+        p = np.log(nu / nb) / np.log(prev / prev_before)
+        if p > 1.05:
+            cands.append(u * ratio ** min(p, 50.0))
+    if len(cands) == 1:
+        return cands[0]
+    f = level * problem.unit_force
+    pis = [problem.state(c, False, ezz)["energy"] - f @ c for c in cands]
+    return cands[int(np.argmin(pis))]
