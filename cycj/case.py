@@ -175,6 +175,9 @@ def case_from_dict(
     analysis = _analysis(top.table("analysis"))
     run = _run(top.table("run"), geometry, source)
     inspection = top.get("inspection")
+    from cycj.fe.inputs import read_fe
+
+    read_fe(top.get("fe"), source)  # [fe]: options of `cycj j-table`, validated here
     if inspection is not None and not isinstance(inspection, dict):
         raise CycjInputError(
             "must be a table",
