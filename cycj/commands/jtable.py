@@ -13,8 +13,7 @@ import click
     "--sizes",
     type=click.IntRange(1, 50),
     default=None,
-    help="Number of crack sizes over the case's crack range (default: [fe] crack_lengths, "
-    "else 5).",
+    help="Number of crack sizes over the case's crack range (default: [fe] crack_lengths, else 5).",
 )
 @click.option(
     "--loads",

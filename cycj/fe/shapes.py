@@ -91,9 +91,7 @@ def build(shape: str, width: float, a: float, law, *, refine: int = 1, order: in
         outer = 0.7 * min(a, x1 - a)
         mesh = focused_mesh(x0, x1, h, a, outer=outer, per_ring=per_ring)
         fix_x = (
-            np.flatnonzero(np.abs(mesh.nodes[:, 0]) <= tol)
-            if mt
-            else [mesh.nearest_node(x1, 0.0)]
+            np.flatnonzero(np.abs(mesh.nodes[:, 0]) <= tol) if mt else [mesh.nearest_node(x1, 0.0)]
         )
     else:
         raise ValueError(f"no finite-element model of shape {shape!r}")

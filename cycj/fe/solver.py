@@ -3,8 +3,9 @@
 The body is a nonlinear elastic solid (deformation plasticity), so the equilibrium state
 minimises the potential Π(u) = ∫W dA − f·u over the free degrees of freedom; the tangent is
 symmetric positive definite.  Each Newton step solves K_t·du = f − f_int(u) with scipy's sparse
-direct solver (SuperLU, symmetric mode: diagonal pivots, minimum-degree ordering of Kᵀ+K) and backtracks along du until Π
-decreases enough (Armijo).  Loads are applied in increasing order; each starts from the previous
+direct solver (SuperLU in symmetric mode: diagonal pivots, minimum-degree ordering of Kᵀ+K; no
+sparse Cholesky package was installable) and backtracks along du until Π decreases enough
+(Armijo).  Loads are applied in increasing order; each starts from the previous
 solution scaled to the new load, and a load that does not converge is approached in halves.
 
 Units: N, mm, MPa; forces per mm of thickness (2-D); energies in N·mm per mm.

@@ -70,9 +70,7 @@ def laws(material, plane_strain: bool):
     mono = material.monotonic_curve
     peak, which = (mono, "monotonic") if mono is not None else (cyc, "cyclic")
     e, nu = material.elastic_modulus, material.poisson_ratio
-    law_j = DeformationLaw(
-        e, nu, peak.strength_coefficient, peak.hardening_exponent, plane_strain
-    )
+    law_j = DeformationLaw(e, nu, peak.strength_coefficient, peak.hardening_exponent, plane_strain)
     k_star = masing_coefficient(cyc.strength_coefficient, cyc.hardening_exponent)
     law_dj = DeformationLaw(e, nu, k_star, cyc.hardening_exponent, plane_strain)
     return law_j, law_dj, which
@@ -89,7 +87,7 @@ def solve_series(shape, width, a, law, stresses, *, refine=1, domains=4, span=No
     spread = np.empty(len(order))
     iters = np.empty(len(order), int)
     secs = np.empty(len(order))
-    for k, sol in zip(order, sols):
+    for k, sol in zip(order, sols, strict=True):
         vals, sp = j_domains(pb, sol, domains)
         j[k], spread[k], iters[k], secs[k] = vals.mean(), sp, sol.iterations, sol.seconds
     info = {
