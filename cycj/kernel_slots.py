@@ -56,7 +56,13 @@ CH_PM = 45
 CH_PB = CH_PM + MAX_CHANNELS
 #: 1.0 for a channel whose stress is secondary (in K and ρ, never in L_r), e.g. thermal
 CH_SECONDARY = CH_PB + MAX_CHANNELS
+#: finite-element J table (j_method "finite-element", cycj.fe.lookup): number of crack sizes,
+#: levels per size, then the table itself; cycj.life.model_array appends them (from FE_NA on)
+#: only for that method, so they lie beyond the base length N_MP
 N_MP = CH_SECONDARY + MAX_CHANNELS
+FE_NA = N_MP
+FE_NL = FE_NA + 1
+FE_TABLE = FE_NL + 1
 
 # crack-state slots (float64 array carried between compiled calls)
 (ST_A, ST_C, ST_CYCLES, ST_BLOCKS, ST_A_OL, ST_Z_OL, ST_K_OL) = range(7)

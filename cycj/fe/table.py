@@ -129,18 +129,13 @@ def crack_sizes(case, sizes=None):
         return np.unique(out)
     lo_v, hi_v = geo.size_limits
     a0 = geo.crack_length
-    end = case.run.crack_length_limit or hi_v
-    end = min(end, hi_v, 0.9 * geo.dims["width"] * (0.5 if _half(geo) else 1.0))
+    end = min(case.run.crack_length_limit or hi_v, hi_v)
     n = DEFAULT_SIZES if sizes is None else int(sizes)
     if n < 1:
         raise CycjInputError("need at least one crack size", key="--sizes", found=sizes)
     if n == 1 or end <= a0:
         return np.array([a0])
     return np.linspace(max(a0, lo_v), end, n)
-
-
-def _half(geo):
-    return geo.shape.name == "center-crack-plate"
 
 
 def load_levels(case, a, loads=None, fe=None):
