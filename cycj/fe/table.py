@@ -82,7 +82,15 @@ def solve_series(shape, width, a, law, stresses, *, refine=1, domains=4, span=No
     t0 = time.perf_counter()
     pb = build(shape, width, a, law, refine=refine, span=span)
     order = np.argsort(stresses)
-    sols = solve_loads(pb, np.asarray(stresses, float)[order])
+    try:
+        sols = solve_loads(pb, np.asarray(stresses, float)[order])
+    except RuntimeError as exc:
+        from cycj.errors import ValidityRangeError
+
+        raise ValidityRangeError(
+            f"finite-element solution at a = {a:.6g} mm did not converge ({exc}); "
+            "lower the largest load ([fe] loads or nominal_stresses)"
+        ) from None
     j = np.empty(len(order))
     spread = np.empty(len(order))
     iters = np.empty(len(order), int)
