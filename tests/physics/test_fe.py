@@ -88,7 +88,7 @@ H1 = [(3, 1.24, (0.5, 1.0, 1.5, 2.0, 2.5)), (5, 0.919, (0.5, 1.0, 1.5, 2.0)), (1
 def test_fully_plastic_h1_compact_tension(n, h1, ratios):
     # n = 10 in plane strain is also the locking check: reduced-integration Q8 elements keep
     # the nearly incompressible fully plastic field (a locking mesh gives far too small J)
-    ratios = ratios or (0.5, 1.0, 1.25, 1.5, 1.75, 2.0)
+    ratios = ratios or (0.5, 1.0, 1.5, 2.0)
     sigma_0, a = 400.0, 0.5 * W
     b = W - a
     geo = _geometry("compact-tension", a)
