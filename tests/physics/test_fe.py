@@ -183,3 +183,15 @@ def test_newton_continuation_reports_iterations():
     assert all(x.iterations >= 1 for x in sols)
     vals, spread = j_domains(pb, sols[-1], 3)
     assert len(vals) == 3 and spread < 0.01
+
+
+def test_plane_stress_plastic_path_independence():
+    # deformation plasticity is nonlinear elastic: J is path independent (Rice 1968); plane
+    # stress with ε_zz from σ_zz = 0 at every point, beyond the limit load
+    law = _power_law(5, plane_strain=False)
+    a = 0.25 * W
+    geo = _geometry("center-crack-plate", a, plane_strain=False)
+    s_l = geo.limit_stress(a, 400.0)
+    j, spread, _ = solve_series("center-crack-plate", W, a, law, [0.5 * s_l, 1.5 * s_l])
+    assert np.all(spread < 0.01)
+    assert j[1] > 3 * _elastic_j("center-crack-plate", a, 1.5 * s_l, False)
