@@ -209,7 +209,8 @@ def solve_loads(problem: Problem, loads, *, tol=1e-9, max_iter=40, max_halvings=
 def _start(problem, level, prev, u, u_before, prev_before, ezz):
     """Start of Newton at ``level``: the previous solution scaled to the new load, either
     linearly or with the power p the last two solutions show (|u| ∝ P^p, p ≥ 1, as in the
-    fully plastic range); whichever has the lower potential energy."""
+    fully plastic range), or extended along the secant of the last two solutions; whichever
+    has the lowest potential energy."""
     if prev <= 0:
         return u
     ratio = level / prev
@@ -219,6 +220,8 @@ def _start(problem, level, prev, u, u_before, prev_before, ezz):
         p = np.log(nu / nb) / np.log(prev / prev_before)
         if p > 1.05:
             cands.append(u * ratio ** min(p, 50.0))
+        # the secant through the last two solutions, extended to the new load
+        cands.append(u + (u - u_before) * (level - prev) / (prev - prev_before))
     if len(cands) == 1:
         return cands[0]
     f = level * problem.unit_force
