@@ -38,8 +38,9 @@ _M = np.array([1.0, 1.0, 1.0, 0.0])  # δ_ij in (xx, yy, zz, xy)
 class DeformationLaw:
     """E [MPa], ν, K [MPa], n' of ε = σ/E + (σ/K)^(1/n'); ``plane_strain`` or plane stress.
 
-    ``elastic`` (optional boolean mask over elements, set by :func:`with_elastic`) marks
-    elements kept linear elastic (round point loads)."""
+    The methods take an optional boolean mask ``elastic`` over the integration points: those
+    points stay linear elastic (round point loads and supports).  Validity: 0 ≤ ν < 0.5,
+    0 < n' ≤ 1, proportional loading."""
 
     E: float
     nu: float

@@ -50,9 +50,6 @@ class Mesh:
         """Square distance max(|x − a|, y) of each node from the tip [mm]."""
         return np.maximum(np.abs(self.nodes[:, 0] - self.tip[0]), self.nodes[:, 1] - self.tip[1])
 
-    def nodes_where(self, mask) -> np.ndarray:
-        return np.flatnonzero(mask)
-
     def nearest_node(self, x: float, y: float) -> int:
         d = np.hypot(self.nodes[:, 0] - x, self.nodes[:, 1] - y)
         return int(np.argmin(d))

@@ -6,8 +6,9 @@ is the half y ≥ 0 and the ligament y = 0, x > a is a symmetry line (u_y = 0). 
 nominal stress S = P/(B·W) and per mm of thickness, so a load level is S [MPa]:
 
 * ``compact-tension`` — C(T) of the ASTM E399 proportions: x from the load line, front face at
-  −0.25W, back face at W, half height 0.6W; the pin force S·W acts at (0, 0.275W) (the pin's
-  centre); x fixed at one point of the back face.
+  −0.25W, back face at W, half height 0.6W, pin hole of diameter 0.25W centred at (0, 0.275W)
+  (stepped on a local uniform grid); the pin force S·W is spread over the hole's upper half;
+  x fixed at one point of the back face.
 * ``three-point-bend`` — SE(B), span 4W: x is the depth from the cracked face, y along the beam
   from the crack plane; half the load, S·W/2, acts at (W, 0), the support at (0, S/2) holds
   u_x; the beam ends 0.25W beyond the support.
@@ -16,9 +17,10 @@ nominal stress S = P/(B·W) and per mm of thickness, so a load level is S [MPa]:
 * ``edge-crack-plate`` — SE(T) free to rotate (pin loaded, as Tada's solution): uniform stress
   S on the far edge, half height 2.5W; x fixed at one point of the back face.
 
-Point loads and supports sit in a small elastic patch (radius 0.04W) so the material round them
-does not yield (they are far from the crack tip and do not change J).  Side grooves are not
-modelled.
+Point loads and supports sit in a small elastic patch (radius 0.04W; 0.2W round the C(T) pin
+hole) so the material round them does not yield (they are far from the crack tip and do not
+change J).  Side grooves are not modelled.  Validity: the crack tip must leave room for the
+rings (0 < a < W; C(T) a > 0); the shapes' own K ranges apply to the comparison columns.
 
 References
 ----------
