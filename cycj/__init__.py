@@ -5,6 +5,7 @@ Python API (the command line calls the same functions):
 * ``cycj.load_case(path)`` → :class:`cycj.case.Case`
 * ``cycj.predict_life(case)`` → result with ``.summary`` (dict) and ``.history`` (DataFrame)
 * ``cycj.count_cycles(values, gate=0.0)`` → DataFrame ``range, mean, count, start, end``
+* ``cycj.j_table(case, sizes=None, loads=None)`` → DataFrame of J and ΔJ by finite elements
 * ``cycj.fit_logs(...)`` (calibration) and ``cycj.plan_inspections(...)`` (inspection planning)
 
 Estimates for engineering judgement; they do not replace the applicable design code,
@@ -19,6 +20,7 @@ _LAZY = {
     "count_cycles": "cycj.spectrum:count_cycles",
     "fit_logs": "cycj.calibrate.fit:fit_logs",
     "plan_inspections": "cycj.plan.inspections:plan_inspections",
+    "j_table": "cycj.fe.table:j_table",
 }
 
 __all__ = ["__version__", *_LAZY]

@@ -38,6 +38,7 @@ END_REASONS = (
 class Analysis:
     j_method: str = "reference-stress"
     fad: str = "option-2"
+    j_table: str | None = None  # jtable.csv for j_method "finite-element" (path resolved)
 
 
 @dataclass(frozen=True)
@@ -180,9 +181,12 @@ def case_from_dict(
     growth = read_growth(mat_t.table("growth", required=True), material, geometry)
     mat_t.finish()
     loading = read_loading(top.table("loading", required=True), geometry, base or Path("."))
-    analysis = _analysis(top.table("analysis"))
+    analysis = _analysis(top.table("analysis"), base or Path("."))
     run = _run(top.table("run"), geometry, source)
     inspection = top.get("inspection")
+    from cycj.fe.inputs import read_fe
+
+    read_fe(top.get("fe"), source)  # [fe]: options of `cycj j-table`, validated here
     if inspection is not None and not isinstance(inspection, dict):
         raise CycjInputError(
             "must be a table",
@@ -225,6 +229,16 @@ def case_from_dict(
             expected=f"'reference-stress' or 'elastic' for {geometry.shape.name}",
             found="small-crack",
         )
+    if analysis.j_method == "finite-element" and analysis.j_table is None:
+        from cycj.fe.shapes import FE_SHAPES
+
+        if geometry.shape.name not in FE_SHAPES:
+            raise CycjInputError(
+                f"no finite-element model of {geometry.shape.name}: give [analysis] j_table",
+                source=source,
+                key="analysis.j_method",
+                expected="a shape of " + ", ".join(FE_SHAPES),
+            )
     for crit in run.criteria:
         if crit == "toughness" and material.J_c is None:
             raise CycjInputError(
@@ -348,13 +362,21 @@ def _geometry(t: Table, base: Path) -> Geometry:
     return replace(geo, notch=notch)
 
 
-def _analysis(t: Table | None) -> Analysis:
+def _analysis(t: Table | None, base: Path = Path(".")) -> Analysis:
     if t is None:
         return Analysis()
     jm = t.choice("j_method", models.names("j_method"), default="reference-stress")
     fad = t.choice("fad", models.names("fad"), default="option-2")
+    table = t.string("j_table")
+    if table is not None:
+        if jm != "finite-element":
+            raise t.error("j_table", "a J table is read only by j_method 'finite-element'")
+        path = base / table
+        if not path.is_file():
+            raise t.error("j_table", "file not found", found=str(path))
+        table = str(path)
     t.finish()
-    return Analysis(jm, fad)
+    return Analysis(jm, fad, table)
 
 
 #: largest crack size a run may aim at [mm] (beyond it growth and J overflow)

@@ -17,6 +17,7 @@ COMMANDS = {
     "count": "cycj.commands.count:count",
     "demo": "cycj.commands.demo:demo",
     "geometries": "cycj.commands.check:geometries",
+    "j-table": "cycj.commands.jtable:j_table",
     "plan": "cycj.commands.plan:plan",
     "pod": "cycj.commands.pod:pod",
     "run": "cycj.commands.run:run",

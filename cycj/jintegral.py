@@ -83,6 +83,21 @@ NOTCH = register(
         _MASING,
     ),
 ).code
+FINITE_ELEMENT = register(
+    "j_method",
+    "finite-element",
+    4,
+    slots=("E_PRIME", "N_CYC", "FE_NA", "FE_NL", "FE_TABLE"),
+    validity="inside the J table's crack sizes and load levels (cycj j-table); no extrapolation",
+    citation=(
+        _RICE,
+        "Shih, C. F., Moran, B., Nakamura, T., Int. J. Fract. 30 (1986) 79–102: equivalent "
+        "domain integral",
+        "Lamba, H. S., Eng. Fract. Mech. 7 (1975) 693–703; Dowling, N. E., Begley, J. A., ASTM "
+        "STP 590 (1976) 82–103: ΔJ on the Masing branch (from memory)",
+        _MASING,
+    ),
+).code
 _FAD_SOURCE = "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max"
 FAD_OPTION_1 = register(
     "fad", "option-1", 1, slots=("LR_MAX",), validity="0 ≤ L_r ≤ L_r,max", citation=(_FAD_SOURCE,)
@@ -104,6 +119,7 @@ J_METHODS = {
     "reference-stress": REFERENCE_STRESS,
     "small-crack": SMALL_CRACK,
     "notch": NOTCH,
+    "finite-element": FINITE_ELEMENT,
 }
 
 

@@ -62,6 +62,12 @@ CH_SECONDARY = CH_PB + MAX_CHANNELS
 A_CRIT = CH_SECONDARY + MAX_CHANNELS
 CRIT_CODE = A_CRIT + 1
 N_MP = CRIT_CODE + 1
+#: finite-element J table (j_method "finite-element", cycj.fe.lookup): number of crack sizes,
+#: levels per size, then the table itself; cycj.life.model_array appends them (from FE_NA on)
+#: only for that method, so they lie beyond the base length N_MP
+FE_NA = N_MP
+FE_NL = FE_NA + 1
+FE_TABLE = FE_NL + 1
 
 # crack-state slots (float64 array carried between compiled calls)
 (ST_A, ST_C, ST_CYCLES, ST_BLOCKS, ST_A_OL, ST_Z_OL, ST_K_OL) = range(7)

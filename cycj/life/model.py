@@ -109,6 +109,8 @@ def model_array(
         _channel_params(case, loads, mp)
         if geo.two_d:
             mp[M.ASPECT_MAX] = 1.0  # the surface-crack weight functions hold for a/c ≤ 1
+    if case.analysis.j_method == "finite-element":
+        mp = np.concatenate([mp, fe_table_tail(case, loads)])
     if "tearing" in crit and loads is not None:
         from cycj.life.critical_size import tearing_instability_size
 
@@ -118,6 +120,53 @@ def model_array(
             geo, loads, a_from, mp[M.A_LIMIT], rc.C1 * toughness_scale, rc.C2, mp
         )
     return mp
+
+
+_FE_TABLES: dict = {}
+
+
+def fe_table_tail(case: Case, loads: BlockLoads | None) -> np.ndarray:
+    """The J table of j_method "finite-element" packed for the kernels: read from
+    ``[analysis] j_table`` or computed by finite elements (:func:`cycj.fe.table.compute`);
+    refuses a table that does not span the run's crack sizes or its loads' L_r."""
+    import pandas as pd
+
+    from cycj.errors import CycjInputError
+    from cycj.fe.lookup import pack_table
+
+    geo, sy = case.geometry, case.material.yield_strength
+    if case.analysis.j_table is not None:
+        frame = pd.read_csv(case.analysis.j_table)
+    else:
+        from cycj.fe.table import compute
+
+        if id(case) not in _FE_TABLES:  # model_array runs several times a run: solve once
+            _FE_TABLES.clear()
+            _FE_TABLES[id(case)] = (case, compute(case)[0])
+        frame = _FE_TABLES[id(case)][1]
+    tail, sizes, lr_top = pack_table(frame, geo, sy)
+    a0, a_end = geo.crack_length, size_limit(case)[0]
+    if a0 < sizes[0] * (1 - 1e-9) or a_end > sizes[-1] * (1 + 1e-9):
+        raise CycjInputError(
+            f"the J table spans a = {sizes[0]:.6g} to {sizes[-1]:.6g} mm; the run needs "
+            f"{a0:.6g} to {a_end:.6g} mm (no extrapolation)",
+            key="analysis.j_table" if case.analysis.j_table else "fe.crack_lengths",
+        )
+    if loads is not None and loads.lmax.shape[1] == 1:
+        smax = float(np.max(loads.smax))
+        srange = float(np.max(loads.smax - loads.smin))
+        lr_stop = case.material.lr_max if "collapse" in case.run.criteria else np.inf
+        for a, top in zip(sizes, lr_top, strict=True):
+            s_l = float(geo.limit_stress(a, sy))
+            if smax / s_l >= lr_stop:
+                break
+            if max(smax, srange) / s_l > top * (1 + 1e-9):
+                raise CycjInputError(
+                    f"the J table reaches L_r = {top:.4g} at a = {a:.6g} mm; the loads need "
+                    f"{max(smax, srange) / s_l:.4g} (no extrapolation)",
+                    key="analysis.j_table" if case.analysis.j_table else "fe.loads",
+                )
+    return tail
 
 
 def _channel_params(case, loads, mp):

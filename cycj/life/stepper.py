@@ -29,6 +29,7 @@ from cycj.end_criteria import (
     RUNNING,
     end_check,
 )
+from cycj.fe.lookup import fe_ratio
 from cycj.fields.channels import channel_k
 from cycj.fields.notch import neuber_masing_stress_range_scalar, notch_delta_j_scalar
 from cycj.fields.residual import r6_rho_scalar
@@ -36,10 +37,12 @@ from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
 from cycj.growth import opening_fraction, paris_rate_from_power
 from cycj.jintegral import (
     ELASTIC,
+    FINITE_ELEMENT,
     NOTCH,
     REFERENCE_STRESS,
     SMALL_CRACK,
     j_peak_scalar,
+    plastic_fraction_scalar,
     reference_stress_delta_j_scalar,
     small_crack_delta_j_scalar,
 )
@@ -133,11 +136,16 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
             dj = notch_delta_j_scalar(
                 a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
             )
+    elif jm == FINITE_ELEMENT:  # the J table's ΔJ/ΔJ_el; closure as for the reference stress
+        g = fe_ratio(mp, a, lr_range, 0)
+        dj = dj_el * (u * u + plastic_fraction_scalar(u, mp[N_CYC]) * (g - 1.0))
     else:
         dj = u * u * dj_el
     j_el_max = kmax * kmax / mp[E_PRIME]
     if jm == ELASTIC:  # the LEFM comparison: J_max = K_max²/E'
         jmax = j_el_max
+    elif jm == FINITE_ELEMENT:
+        jmax = j_el_max * fe_ratio(mp, a, lr_max, 1)
     else:
         jmax = j_peak_scalar(j_el_max, lr_max, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
     return dj, jmax, lr_max, j_el_max, clipped

@@ -86,7 +86,13 @@ def test_record_names_feed_case_validation():
     assert loading_inputs.CLOSURE_MODELS == models.names("closure")
     assert loading_inputs.SEQUENCE_MODELS == models.names("retardation")
     assert case.CRITERIA == models.names("end_criterion")
-    assert set(models.names("j_method")) == {"elastic", "reference-stress", "small-crack", "notch"}
+    assert set(models.names("j_method")) == {
+        "elastic",
+        "reference-stress",
+        "small-crack",
+        "notch",
+        "finite-element",
+    }
 
 
 def test_unknown_names_and_codes_are_errors():

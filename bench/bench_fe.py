@@ -1,0 +1,79 @@
+"""Benchmark of the finite-element J stage (a script, not a test).
+
+One load sequence of ``--levels`` levels (L_r from 0.05 to 1.5) on a C(T), a/W = 0.5, plane
+strain, hardening exponent n = 1/n' = 10, with ``--refine`` 2 (about 20,000 degrees of
+freedom): prints the degrees of freedom, Newton iterations and seconds per level, the total
+time, the share spent in the linear solves, and the worst spread between the domains.
+
+Run from the repository root::
+
+    python bench/bench_fe.py [--refine 2] [--levels 12]
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+
+import cycj.fe.solver as S  # noqa: E402
+from cycj.fe.domain import j_domains  # noqa: E402
+from cycj.fe.law import DeformationLaw  # noqa: E402
+from cycj.fe.shapes import build  # noqa: E402
+from cycj.geometry import make_geometry  # noqa: E402
+
+
+def main(argv=None):
+    ap = argparse.ArgumentParser(description=__doc__)
+    ap.add_argument("--refine", type=int, default=2)
+    ap.add_argument("--levels", type=int, default=12)
+    args = ap.parse_args(argv)
+    e, nu, sigma_0, n, w = 200e3, 0.3, 400.0, 10.0, 50.0
+    a = 0.5 * w
+    law = DeformationLaw(e, nu, sigma_0 * (sigma_0 / e) ** (-1 / n), 1 / n, True)
+    t0 = time.perf_counter()
+    pb = build("compact-tension", w, a, law, refine=args.refine)
+    _ = pb.kin, pb.pattern()
+    t_setup = time.perf_counter() - t0
+    s_l = make_geometry("compact-tension", a, width=w, thickness=1.0).limit_stress(a, sigma_0)
+    loads = s_l * np.geomspace(0.05, 1.5, args.levels)
+    solve_time = [0.0]
+    inner = S._solve_linear
+
+    def timed(k, r):
+        t = time.perf_counter()
+        out = inner(k, r)
+        solve_time[0] += time.perf_counter() - t
+        return out
+
+    S._solve_linear = timed
+    t1 = time.perf_counter()
+    sols = S.solve_loads(pb, loads)
+    t_solve = time.perf_counter() - t1
+    print(
+        f"C(T) a/W = 0.5, n = 10, plane strain: {pb.n_dofs} degrees of freedom, "
+        f"{len(pb.mesh.elements)} elements, setup {t_setup:.2f} s"
+    )
+    worst = 0.0
+    for sol in sols:
+        vals, spread = j_domains(pb, sol)
+        worst = max(worst, spread)
+        print(
+            f"  L_r {sol.load / s_l:6.3f}  J {vals.mean():12.5g} kJ/m²  spread {spread:.1e}  "
+            f"{sol.iterations:3d} Newton iterations  {sol.seconds:6.2f} s"
+        )
+    print(
+        f"total {t_solve:.1f} s for {len(loads)} levels ({sum(s.iterations for s in sols)} "
+        f"Newton iterations); linear solves {100 * solve_time[0] / t_solve:.0f} % of it; "
+        f"worst domain spread {worst:.1e}"
+    )
+
+
+if __name__ == "__main__":
+    main()
