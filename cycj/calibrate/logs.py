@@ -11,6 +11,7 @@ Column names are matched case-insensitively; units come from the specimen's ``lo
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -92,7 +93,7 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
         )
     data = {}
     for c in want:
-        vals = pd.to_numeric(df[c], errors="coerce").to_numpy(float)
+        vals = _numeric(df[c])
         bad = np.flatnonzero(~np.isfinite(vals))
         if bad.size and (c == "cycle" or kind == "crack"):
             raise CycjInputError(
@@ -116,6 +117,25 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     if kind == "crack":
         return _crack_log(name, data, crack_factor, load_factor)
     return _raw_log(name, data, load_factor, displacement_factor)
+
+
+def _numeric(col) -> np.ndarray:
+    """A column as floats: text is NaN, an integer beyond the float range ±inf."""
+    import pandas as pd
+
+    try:
+        return pd.to_numeric(col, errors="coerce").to_numpy(float)
+    except OverflowError:
+        return np.array([_float(v) for v in col], dtype=float)
+
+
+def _float(v) -> float:
+    try:
+        return float(v)
+    except OverflowError:  # an int of more than ~309 digits
+        return math.inf if v > 0 else -math.inf
+    except (TypeError, ValueError):
+        return math.nan
 
 
 def _check_cycles(cyc, src):

@@ -72,6 +72,11 @@ def table_params(alpha, f, factor):
     return out
 
 
+#: largest F or limit-load factor of a table (far beyond any geometry's; larger values
+#: overflow the resampling)
+MAX_FACTOR = 1.0e6
+
+
 def read_table(path, source=None, key="geometry.table"):
     """Read the CSV ``a_over_W, F, limit_load_factor``; errors name the file and line."""
     import pandas as pd
@@ -90,7 +95,7 @@ def read_table(path, source=None, key="geometry.table"):
         )
     try:
         arr = df[need].to_numpy(dtype=float)
-    except ValueError:
+    except (ValueError, OverflowError):  # text, or an integer beyond the float range
         raise CycjInputError(
             "a value is not a number",
             source=str(path),
@@ -103,7 +108,15 @@ def read_table(path, source=None, key="geometry.table"):
                 source=str(path),
                 line=i + 2,
                 expected="0 < a_over_W < 1, F > 0, limit_load_factor > 0",
-                found=list(row),
+                found=[float(x) for x in row],
+            )
+        if row[1] > MAX_FACTOR or row[2] > MAX_FACTOR:  # beyond any geometry; overflows
+            raise CycjInputError(
+                "implausible factor",
+                source=str(path),
+                line=i + 2,
+                expected=f"F and limit_load_factor at most {MAX_FACTOR:g}",
+                found=[float(x) for x in row],
             )
     if arr.shape[0] < 3 or np.any(np.diff(arr[:, 0]) <= 0):
         raise CycjInputError("a_over_W must increase, with at least 3 rows", source=str(path))
