@@ -15,11 +15,14 @@ mutant, ``run`` for the first :data:`RUN_SUBSET` case mutants of each example th
 check (cycles capped at :data:`CYCLE_CAP`), ``plan`` for the first :data:`PLAN_SUBSET` of the
 inspection example (samples capped at :data:`SAMPLE_CAP`), ``count`` for histories (and ``run``
 of the cases that read them, for the first few), ``fit`` for logs and specimen files, ``pod``
-for POD data (``count`` and ``pod`` with ``--out`` for every :data:`OUT_EVERY`-th mutant).  Every outcome must be exit 0, or exit 2 with at most three non-empty lines on
-stderr, the first naming the file, the key or the line; never exit 1, a traceback or an
-internal error; every file of the folder still there with its hash; no run longer than
-:data:`MAX_SECONDS`.  Each command also runs once with ``--out`` on the folder holding its
-inputs and ``--force``: exit 2, nothing changed.
+for POD data (``count`` and ``pod`` with ``--out`` for every :data:`OUT_EVERY`-th mutant).
+Every outcome must be exit 0, or exit 2 with at most three non-empty lines on stderr, the
+first naming the file, the key or the line; never exit 1, a traceback or an internal error;
+every file of the folder still there with its hash; no run longer than :data:`MAX_SECONDS`.
+The ``max_cycles`` cap is added to a case without one and lowers a larger one (a mutation
+that keeps ``max_cycles = 1e9`` on a cycle-by-cycle case would run for minutes).  Each
+command also runs once with ``--out`` on the folder holding its inputs and ``--force``: exit 2,
+nothing changed.
 
 ``CYCJ_FUZZ_MUTANTS=1000`` gives a longer hunt (same seed, the first mutants unchanged).  A
 failing mutant is kept (its folder is named in the failure) to reproduce it by hand.
