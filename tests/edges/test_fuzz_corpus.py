@@ -24,7 +24,8 @@ that keeps ``max_cycles = 1e9`` on a cycle-by-cycle case would run for minutes).
 command also runs once with ``--out`` on the folder holding its inputs and ``--force``: exit 2,
 nothing changed.
 
-``CYCJ_FUZZ_MUTANTS=1000`` gives a longer hunt (same seed, the first mutants unchanged).  A
+``CYCJ_FUZZ_MUTANTS=1000`` gives a longer hunt (same seed, the first mutants unchanged);
+``CYCJ_FUZZ_LOG=file`` lists every outcome with the first line of its error.  A
 failing mutant is kept (its folder is named in the failure) to reproduce it by hand.
 """
 
@@ -69,6 +70,8 @@ OUT_EVERY = 4
 LOG_LINES = 1500
 #: the longest value written by a mutation
 LONG = 2000
+#: CYCJ_FUZZ_LOG=path appends every outcome there (command, input type, exit, first line)
+LOG = os.environ.get("CYCJ_FUZZ_LOG")
 #: no single command may take longer
 MAX_SECONDS = 60.0
 
@@ -692,6 +695,9 @@ class Fuzz:
         left = [p.name for p in d.rglob("*") if re.search(r"\.cycj-(tmp|old|lock)", p.name)]
         if left:
             problems.append(f"left over: {left}")
+        if LOG:  # every outcome, one line each, for reading the messages
+            with open(LOG, "a", encoding="utf-8") as fh:
+                fh.write(f"{command}\t{kind}\t{code}\t{lines[0] if lines else ''}\t{what}\n")
         if problems:
             self.failures.append(
                 f"{what}\n  args: {[str(a) for a in args]}\n  problems: {problems}\n"
