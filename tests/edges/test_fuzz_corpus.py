@@ -528,7 +528,7 @@ def _m_line_endings(rng, text, fmt):
 def _m_encoding(rng, text, fmt):
     kind = rng.choice(["utf-16", "latin-1", "nul"])
     if kind == "utf-16":
-        return text.encode("utf-16", "surrogateescape"), "UTF-16"
+        return text.encode("utf-16", "surrogatepass"), "UTF-16"
     if kind == "latin-1":
         b = text.encode("utf-8", "surrogateescape")
         k = rng.randrange(len(b) + 1)
@@ -716,8 +716,7 @@ class Fuzz:
 
 def _names_something(line: str, d: Path) -> bool:
     """The first line of an error names a file of ``d`` (or ``d``), a key or a line."""
-    names = {p.name for p in d.rglob("*")} | {d.name}
-    if any(n in line for n in names):
+    if str(d) in line or any(p.name in line for p in d.rglob("*") if p.is_file()):
         return True
     return bool(re.search(r"\[[\w.\-\]\[ ]+\]|\bline \d+|--\w+|\bkey\b", line))
 
