@@ -420,7 +420,7 @@ def test_table_factor_beyond_any_geometry_is_input_error(tmp_path, capsys):
     text = table.read_text(encoding="utf-8").replace("1.15552", "1e308")
     table.write_text(text, encoding="utf-8")
     code, _, err = run_cli(["check", case], capsys)
-    assert code == 2 and "lug_table.csv" in err and "implausible factor" in err
+    assert code == 2 and "lug_table.csv:5:" in err and "implausible factor" in err  # line 5
     assert "np.float64" not in err and "internal error" not in err
     table.write_text(text.replace("1e308", "9" * 400), encoding="utf-8")
     code, _, err = run_cli(["check", case], capsys)
