@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import difflib
 import math
+import sys
 import tomllib
 from pathlib import Path
 
@@ -25,11 +26,43 @@ def read_toml(path, role: str = "input") -> dict:
     note_input(path, role)
     try:
         text = path.read_bytes().decode("utf-8")
-        return tomllib.loads(text.removeprefix("\ufeff"))
+        raw = tomllib.loads(text.removeprefix("\ufeff"))
     except tomllib.TOMLDecodeError as exc:
         raise CycjInputError(f"not valid TOML ({exc})", source=str(path)) from None
     except UnicodeDecodeError:
         raise CycjInputError("not a UTF-8 text file", source=str(path)) from None
+    except ValueError:  # an integer of more digits than Python converts
+        raise CycjInputError(
+            "not valid TOML (an integer of more digits than can be read)", source=str(path)
+        ) from None
+    huge = _huge_integer(raw)
+    if huge is not None:
+        raise CycjInputError(
+            "integer beyond the range of a number",
+            source=str(path),
+            key=huge[0],
+            expected=f"a magnitude below {sys.float_info.max:.3g}",
+            found=huge[1],
+        )
+    return raw
+
+
+def _huge_integer(obj, key: str = ""):
+    """(key path, value) of the first integer of parsed TOML too large for a float, or None
+    (TOML integers have no bound; every number read is used as a float)."""
+    if isinstance(obj, dict):
+        items = ((f"{key}.{k}" if key else str(k), v) for k, v in obj.items())
+    elif isinstance(obj, list):
+        items = ((f"{key}[{i}]", v) for i, v in enumerate(obj))
+    elif isinstance(obj, int) and not isinstance(obj, bool) and abs(obj) > sys.float_info.max:
+        return key, obj
+    else:
+        return None
+    for k, v in items:
+        found = _huge_integer(v, k)
+        if found is not None:
+            return found
+    return None
 
 
 class Table:

@@ -11,6 +11,7 @@ Column names are matched case-insensitively; units come from the specimen's ``lo
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -91,7 +92,6 @@ def frame_log(df, src, name, load_factor=1.0, displacement_factor=1.0, crack_fac
     """Check the columns of a log read into a DataFrame ``df`` and convert it to N and mm
     (``src`` names the file in errors, ``name`` the log).  Used by :func:`read_log` and for
     the tests of a long-format file (:mod:`cycj.calibrate.replicates`)."""
-    import pandas as pd
 
     df.columns = [str(c).strip().lower() for c in df.columns]
     cols = set(df.columns)
@@ -108,7 +108,7 @@ def frame_log(df, src, name, load_factor=1.0, displacement_factor=1.0, crack_fac
         )
     data = {}
     for c in want:
-        vals = pd.to_numeric(df[c], errors="coerce").to_numpy(float)
+        vals = _numeric(df[c])
         bad = np.flatnonzero(~np.isfinite(vals))
         if bad.size and (c == "cycle" or kind == "crack"):
             raise CycjInputError(
@@ -131,6 +131,25 @@ def frame_log(df, src, name, load_factor=1.0, displacement_factor=1.0, crack_fac
     if kind == "crack":
         return _crack_log(name, data, crack_factor, load_factor)
     return _raw_log(name, data, load_factor, displacement_factor)
+
+
+def _numeric(col) -> np.ndarray:
+    """A column as floats: text is NaN, an integer beyond the float range ±inf."""
+    import pandas as pd
+
+    try:
+        return pd.to_numeric(col, errors="coerce").to_numpy(float)
+    except OverflowError:
+        return np.array([_float(v) for v in col], dtype=float)
+
+
+def _float(v) -> float:
+    try:
+        return float(v)
+    except OverflowError:  # an int of more than ~309 digits
+        return math.inf if v > 0 else -math.inf
+    except (TypeError, ValueError):
+        return math.nan
 
 
 def _check_cycles(cyc, src, rows=None):

@@ -14,6 +14,7 @@ References
 """
 
 import math
+from pathlib import Path
 
 import numpy as np
 
@@ -72,6 +73,21 @@ def table_params(alpha, f, factor):
     return out
 
 
+def _data_lines(path) -> list[int]:
+    """Line numbers (1-based) of the data rows of the table: lines with text before any '#',
+    after the header."""
+    try:
+        text = Path(path).read_text(encoding="utf-8", errors="replace")
+    except OSError:
+        return []
+    return [n for n, ln in enumerate(text.splitlines(), 1) if ln.split("#", 1)[0].strip()][1:]
+
+
+#: largest F or limit-load factor of a table (far beyond any geometry's; larger values
+#: overflow the resampling)
+MAX_FACTOR = 1.0e6
+
+
 def read_table(path, source=None, key="geometry.table"):
     """Read the CSV ``a_over_W, F, limit_load_factor``; errors name the file and line."""
     import pandas as pd
@@ -90,20 +106,29 @@ def read_table(path, source=None, key="geometry.table"):
         )
     try:
         arr = df[need].to_numpy(dtype=float)
-    except ValueError:
+    except (ValueError, OverflowError):  # text, or an integer beyond the float range
         raise CycjInputError(
             "a value is not a number",
             source=str(path),
             expected="numbers in a_over_W, F, limit_load_factor",
         ) from None
+    rows = _data_lines(path)
     for i, row in enumerate(arr):
         if not np.all(np.isfinite(row)) or row[1] <= 0 or row[2] <= 0 or not 0 < row[0] < 1:
             raise CycjInputError(
                 "bad row",
                 source=str(path),
-                line=i + 2,
+                line=rows[i] if i < len(rows) else None,
                 expected="0 < a_over_W < 1, F > 0, limit_load_factor > 0",
-                found=list(row),
+                found=[float(x) for x in row],
+            )
+        if row[1] > MAX_FACTOR or row[2] > MAX_FACTOR:  # beyond any geometry; overflows
+            raise CycjInputError(
+                "implausible factor",
+                source=str(path),
+                line=rows[i] if i < len(rows) else None,
+                expected=f"F and limit_load_factor at most {MAX_FACTOR:g}",
+                found=[float(x) for x in row],
             )
     if arr.shape[0] < 3 or np.any(np.diff(arr[:, 0]) <= 0):
         raise CycjInputError("a_over_W must increase, with at least 3 rows", source=str(path))

@@ -407,3 +407,44 @@ def test_empty_what_if_intervals_are_refused(tmp_path, capsys):
     code, out, err = run_cli(["check", case], capsys)
     assert code == 2
     assert "inspection.intervals" in err and "at least one" in err
+
+
+# ------------------------------------------- crashes found by tests/edges/test_fuzz_corpus.py
+def test_toml_integer_beyond_the_float_range_is_input_error(tmp_path, capsys):
+    text = (EXAMPLES / "lab_compact_tension.toml").read_text(encoding="utf-8")
+    case = tmp_path / "ct.toml"
+    case.write_text(text.replace("max_cycles = 1e8", "max_cycles = " + "9" * 400))
+    code, _, err = run_cli(["check", case], capsys)
+    assert code == 2 and "ct.toml" in err and "[run.max_cycles]" in err
+    assert "beyond the range" in err and len(err.strip().splitlines()) == 1
+    case.write_text(text.replace("max_cycles = 1e8", "max_cycles = " + "9" * 5000))
+    code, _, err = run_cli(["check", case], capsys)
+    assert code == 2 and "ct.toml" in err and "not valid TOML" in err
+    assert "set_int_max_str_digits" not in err and "internal error" not in err
+
+
+def test_log_integer_beyond_the_float_range_is_input_error(tmp_path, capsys):
+    lines = (EXAMPLES / "lab_log_ct_r05.csv").read_text(encoding="utf-8").splitlines()[:400]
+    lines[300] = "9" * 400 + lines[300][lines[300].index(",") :]
+    log = tmp_path / "log.csv"
+    log.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    spec = tmp_path / "s.toml"
+    spec.write_bytes((EXAMPLES / "lab_specimen_ct.toml").read_bytes())
+    before = _hashes(tmp_path)
+    args = ["fit", log, "--specimen", spec, "--out", tmp_path / "o", "--no-plots"]
+    code, _, err = run_cli(args, capsys)
+    assert code == 2 and "log.csv:301" in err and "'cycle'" in err
+    assert not (tmp_path / "o").exists() and _hashes(tmp_path) == before
+
+
+def test_table_factor_beyond_any_geometry_is_input_error(tmp_path, capsys):
+    case = _lug(tmp_path / "job")
+    table = tmp_path / "job" / "lug_table.csv"
+    text = table.read_text(encoding="utf-8").replace("1.15552", "1e308")
+    table.write_text(text, encoding="utf-8")
+    code, _, err = run_cli(["check", case], capsys)
+    assert code == 2 and "lug_table.csv:5:" in err and "implausible factor" in err  # line 5
+    assert "np.float64" not in err and "internal error" not in err
+    table.write_text(text.replace("1e308", "9" * 400), encoding="utf-8")
+    code, _, err = run_cli(["check", case], capsys)
+    assert code == 2 and "lug_table.csv" in err and "internal error" not in err
