@@ -154,3 +154,21 @@ def test_fit_cyclic_curve_recovers_parameters():
     curve, info = fit_cyclic_curve(sa, ea, e)
     assert curve.strength_coefficient == pytest.approx(k, rel=1e-8)
     assert curve.hardening_exponent == pytest.approx(n, rel=1e-8)
+
+
+def test_small_crack_uses_the_shapes_factor():
+    # Dowling (1977): ΔJ = a(3.2ΔW_e + 5.0ΔW_p) holds for a small semicircular surface crack
+    # ((K/S)² = 1.6a); on a straight-fronted edge crack the shape's own factor 1.1215√(πa)
+    # (Tada) replaces it: ΔJ = (FΔS)²πa/E' + (5.0/1.6)·F²πa·ΔSΔε_p/(1+n'), by hand
+    g = make_geometry("edge-crack-semi-infinite", 1.0)
+    m = mat(k=700.0)
+    a, ds = 1.0, 500.0
+    dep = 2 * (ds / 1400.0) ** (1 / 0.15)
+    f2pa = 1.1215**2 * math.pi * a
+    hand = f2pa * ds**2 / (200e3 / 0.91) + 5.0 / 1.6 * f2pa * ds * dep / 1.15
+    assert J.delta_j(g, m, a, ds, method="small-crack") == pytest.approx(hand, rel=1e-9)
+    # with (K/S)² = 1.6a and E' = E it is Dowling's own form
+    dk = ds * math.sqrt(1.6 * a)
+    assert J.shape_small_crack_delta_j(dk, ds, m, 200e3) == pytest.approx(
+        a * (3.2 * ds**2 / 400e3 + 5.0 * ds * dep / 1.15), rel=1e-12
+    )
