@@ -22,6 +22,7 @@ from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
 from cycj.life.model import model_array, size_limit
+from cycj.material import curve_consistency_warnings
 
 #: rows of history aimed at between the initial and the critical crack size
 HISTORY_ROWS = 400
@@ -422,6 +423,7 @@ def _input_warnings(case, loads, mp, a0, a_crit):
             )
     if mat.monotonic_curve is None:
         w.append("J_max at peak load uses the cyclic curve (no monotonic_curve given)")
+    w.extend(curve_consistency_warnings(mat))
     return w
 
 
