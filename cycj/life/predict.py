@@ -233,11 +233,16 @@ def predict_life(
     hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
     hist = hist.reset_index(drop=True)
     reason = END_NAMES[end]
+    tripped = _tripped(case, loads, mp, reason, val, a_end)
+    a_crit_first = _tripped(case, loads, mp, None, 0.0, a0) if a_crit <= a0 else []
     summary = {
         "title": case.title,
         "cycles_to_end": float(cycles),
         "end_reason": reason,
         "end_values": _end_values(case, loads, mp, reason, val, a_end, cycles),
+        "end_criteria_tripped": tripped,
+        "initially_critical": bool(a_crit <= a0),
+        "initial_criteria_tripped": a_crit_first,
         "a_initial_mm": a0,
         "a_end_mm": float(a_end),
         "critical_crack_length_mm": a_crit,
@@ -345,6 +350,22 @@ def _peak_row(case, loads, mp, a):
         loads.lmax, loads.lmin, a, case.geometry.code, case.geometry.params, loads.ct, mp
     )
     return djmax, djeq, jmx, lrmx, g / loads.n
+
+
+def _tripped(case, loads, mp, reason, val, a):
+    """Every criterion tripped at crack size ``a`` under the history's peak load (loaded from
+    zero), in priority order; the criterion that stopped the stepper (``reason``, ``val``)
+    first if the peak state does not name it."""
+    from cycj.end_criteria import PRIORITY, tripped_criteria
+
+    geo = case.geometry
+    dj, jmax, lr, jel, _, rho = K.peak_state(
+        loads.lmax, loads.i_peak, a, geo.code, geo.params, loads.ct, mp
+    )
+    rows = tripped_criteria(a, jmax, lr, jel, rho, mp)
+    if reason in PRIORITY and reason not in [r["criterion"] for r in rows]:
+        rows.insert(0, {"criterion": reason, "quantity": "value", "value": float(val)})
+    return rows
 
 
 def _end_values(case, loads, mp, reason, val, a_end, cycles):

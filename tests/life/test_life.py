@@ -277,3 +277,38 @@ def test_growth_curve_from_another_start():
     assert np.all(np.diff(a) > 0)
     c_k = 1.648e-8 / math.sqrt(1000) ** 3
     assert n2[-1] == pytest.approx(paris_closed_form(c_k, 3.0, 100.0, 4.0, 10.0), rel=5e-3)
+
+
+def test_criteria_tripped_together_are_all_named_collapse_first():
+    # centre crack in an infinite plate: S_L = σ_y, so L_r = S_max/σ_y = 1000/350 = 2.857 by
+    # hand, above L_r,max = (350 + 500)/(2·350) = 1.214 (R6 / BS 7910); J_max ≫ J_c as well
+    from cycj.life.write import answer_sentence
+    from tests.helpers import make_case
+
+    case = make_case(
+        loading={"constant": {"max": "1000 MPa", "min": "0 MPa"}},
+        analysis={"j_method": "reference-stress"},
+        run={"criteria": ["toughness", "collapse", "size-limit"], "crack_length_limit": "10 mm"},
+    )
+    s = predict_life(case).summary
+    assert s["end_reason"] == "collapse"
+    names = [r["criterion"] for r in s["end_criteria_tripped"]]
+    assert names[:2] == ["collapse", "toughness"]
+    first = s["end_criteria_tripped"][0]
+    assert first["value"] == pytest.approx(1000 / 350, rel=1e-12)
+    assert first["limit"] == pytest.approx(850 / 700, rel=1e-12)
+    assert s["end_criteria_tripped"][1]["limit"] == pytest.approx(200.0)
+    assert s["initially_critical"] is True
+    text = answer_sentence(s)
+    assert text.startswith("The initial crack (1 mm) is already critical")
+    assert "collapse: L_r = 2.857 ≥ 1.214" in text and "toughness: J_max" in text
+
+
+def test_single_criterion_headline_unchanged():
+    from cycj.life.write import answer_sentence
+    from tests.helpers import make_case
+
+    s = predict_life(make_case()).summary
+    assert s["end_reason"] == "size-limit" and not s["initially_critical"]
+    assert [r["criterion"] for r in s["end_criteria_tripped"]] == ["size-limit"]
+    assert answer_sentence(s).startswith("End by the crack size limit")
