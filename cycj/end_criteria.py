@@ -80,7 +80,11 @@ register(
     END_FAD,
     slots=("FAD_CURVE", "J_C", "LR_MAX"),
     validity="assessment point on or outside the failure assessment curve",
-    citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",),
+    citation=(
+        "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",
+        "R6 Rev. 3 / BS 7910:1999 level 2A: the Option 1 curve's form "
+        "(1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)) (from memory)",
+    ),
 )
 register(
     "end_criterion",

@@ -16,7 +16,9 @@ References
    Eng. Fract. Mech. 19 (1984) 633–642: J/J_e = Eε_ref/σ_ref + ½L_r²σ_ref/(Eε_ref).
 .. [2] Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: ΔJ as a cyclic J-integral.
 .. [3] Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p), small cracks.
-.. [4] R6 Rev. 4 (EDF Energy) and BS 7910:2013+A1:2015, Option 1 and Option 2 FAD curves.
+.. [4] R6 Rev. 4 (EDF Energy) and BS 7910:2013+A1:2015, Option 1 and Option 2 FAD curves; the
+   Option 1 curve as coded, (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), is the form of R6 Rev. 3
+   (1986) and of the BS 7910:1999 level 2A curve (from memory).
 .. [5] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326: δ_t = d_n·J/σ_0.
 """
 
@@ -229,7 +231,8 @@ def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
 
 @jit
 def fad_option1_scalar(lr, lr_max):
-    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max."""
+    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max
+    (the R6 Rev. 3 / BS 7910:1999 level 2A form, from memory)."""
     if lr > lr_max:
         return 0.0
     return (1.0 - 0.14 * lr * lr) * (0.3 + 0.7 * math.exp(-0.65 * lr**6))
@@ -494,7 +497,13 @@ def j_max(geometry, material, a, s_max):
 
 
 def fad_option1(lr, lr_max=np.inf):
-    """R6 / BS 7910 Option 1 curve f(L_r) (0 beyond ``lr_max``)."""
+    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)) (0 beyond ``lr_max``).
+
+    References
+    ----------
+    .. [1] R6 Rev. 3 and BS 7910:1999 level 2A (the form coded; from memory), kept as Option 1
+       in R6 Rev. 4 and BS 7910:2013+A1:2015.
+    """
     return _fad1(_nonneg("L_r", lr), float(lr_max))
 
 

@@ -90,8 +90,7 @@ def model_array(
     mp[M.C_LAW], mp[M.M_LAW], mp[M.DJ_TH] = law.C, law.m, law.threshold
     mp[M.Q_TOUGH] = law.toughness_exponent if mat.J_c else 0.0
     mp[M.U_CONST] = ld.closure.U
-    alpha = ld.closure.constraint_factor
-    mp[M.ALPHA_NEWMAN] = alpha if alpha is not None else (3.0 if geo.plane_strain else 1.0)
+    mp[M.ALPHA_NEWMAN] = case.newman_constraint_factor()[0]
     mp[M.INCLUDE_COMP] = 1.0 if ld.compressive_part == "include" else 0.0
     crit = case.run.criteria
     mp[M.CHECK_TOUGH] = 1.0 if "toughness" in crit else 0.0

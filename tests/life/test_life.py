@@ -312,3 +312,26 @@ def test_single_criterion_headline_unchanged():
     assert s["end_reason"] == "size-limit" and not s["initially_critical"]
     assert [r["criterion"] for r in s["end_criteria_tripped"]] == ["size-limit"]
     assert answer_sentence(s).startswith("End by the crack size limit")
+
+
+def test_newman_constraint_factor_is_stated_in_the_resolved_inputs():
+    # Newman (1984): α = 3 in plane strain, 1 in plane stress unless the case gives α
+    from tests.helpers import make_case
+
+    g = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm"}
+    law = {"growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}}
+    for constraint, alpha in (("plane-strain", 3.0), ("plane-stress", 1.0)):
+        case = make_case(
+            geometry={**g, "constraint": constraint},
+            loading={"closure": {"model": "newman"}},
+            material=law,
+        )
+        closure = case.resolved()["loading"]["closure"]
+        assert closure["constraint_factor_used"] == alpha
+        assert "default" in closure["constraint_factor_basis"]
+    case = make_case(
+        geometry=g,
+        loading={"closure": {"model": "newman", "constraint_factor": 2.0}},
+        material=law,
+    )
+    assert case.resolved()["loading"]["closure"]["constraint_factor_used"] == 2.0

@@ -99,16 +99,41 @@ def test_center_crack_plate_limit_load_net_section():
     assert h.limit_stress(20, 300.0) / g.limit_stress(20, 300.0) == pytest.approx(2 / math.sqrt(3))
 
 
-def test_edge_crack_plate_limit_load_limits():
-    # tension–bending interaction: full section at a → 0, zero at a → W (common practice)
+def test_edge_crack_plate_limit_load_epri():
+    # EPRI NP-1931 (Kumar, German & Shih 1981, from memory), SE(T): P_0 = 1.072·η·c·B·σ_0
+    # (plane stress), 1.455·η·c·B·σ_0 (plane strain), η = √(1 + (a/c)²) − a/c, c = W − a
     g = make_geometry("edge-crack-plate", 1e-9, width=50, thickness=5, constraint="plane-stress")
-    assert g.limit_stress(1e-9, 300.0) == pytest.approx(300.0, rel=1e-6)
-    # rectangular section under N and M = N·a/2: M/M0 + (N/N0)² = 1 (plastic interaction)
+    assert g.limit_stress(1e-9, 300.0) == pytest.approx(1.072 * 300.0, rel=1e-6)
     a, w, sy = 20.0, 50.0, 300.0
-    p_l = g.limit_stress(a, sy) * w * 5
-    b = w - a
-    n0, m0 = sy * 5 * b, sy * 5 * b * b / 4
+    c = w - a
+    eta = math.sqrt(1 + (a / c) ** 2) - a / c
+    assert g.limit_stress(a, sy) * w * 5 == pytest.approx(1.072 * eta * c * 5 * sy, rel=1e-12)
+    h = make_geometry("edge-crack-plate", a, width=w, thickness=5)
+    assert h.limit_stress(a, sy) * w * 5 == pytest.approx(1.455 * eta * c * 5 * sy, rel=1e-12)
+    # η·c is the rectangular net section under N and M = N·a/2: M/M0 + (N/N0)² = 1
+    p_l = g.limit_stress(a, sy) * w * 5 / 1.072
+    n0, m0 = sy * 5 * c, sy * 5 * c * c / 4
     assert p_l * a / 2 / m0 + (p_l / n0) ** 2 == pytest.approx(1.0, rel=1e-10)
+
+
+def test_axial_crack_bulging_factor_two_term_and_long_flaw_forms():
+    # Kiefner & Vieth (1989, from memory), z = (2a)²/(2R_m·t) = 2λ²: M = √(1 + 0.6275z −
+    # 0.003375z²) for z ≤ 50, M = 0.032z + 3.3 beyond
+    from cycj.geometry.axial_crack_cylinder import folias_factor
+
+    f = getattr(folias_factor, "py_func", folias_factor)
+    for l2 in (1.0, 10.0, 24.9):
+        z = 2 * l2
+        assert f(math.sqrt(l2)) == pytest.approx(math.sqrt(1 + 0.6275 * z - 0.003375 * z * z))
+    for l2 in (25.1, 30.0, 50.0):
+        assert f(math.sqrt(l2)) == pytest.approx(0.032 * 2 * l2 + 3.3, rel=1e-12)
+    assert f(math.sqrt(25.0 + 1e-9)) / f(math.sqrt(25.0)) == pytest.approx(1.0, abs=2e-3)
+    g = make_geometry("axial-crack-cylinder", 300.0, inner_radius=300.0, thickness=10.0)
+    rm = 305.0
+    lam2 = 300.0**2 / (rm * 10.0)
+    assert lam2 > 25
+    assert g.k_over_s(300.0) == pytest.approx(math.sqrt(math.pi * 300) * (0.064 * lam2 + 3.3))
+    assert g.limit_stress(300.0, 300.0) == pytest.approx(300.0 / (0.064 * lam2 + 3.3))
 
 
 def test_six_shapes_registered():
@@ -135,3 +160,13 @@ def test_side_grooves_raise_k():
     g = make_geometry("compact-tension", 25, width=50, thickness=20)
     h = make_geometry("compact-tension", 25, width=50, thickness=20, net_thickness=16)
     assert h.k_over_s(25) / g.k_over_s(25) == pytest.approx(math.sqrt(20 / 16))
+
+
+def test_every_shape_states_its_bases_and_the_doc_lists_it():
+    from pathlib import Path
+
+    doc = (Path(__file__).parents[2] / "docs" / "physics_bases.md").read_text()
+    for name, shape in SHAPES.items():
+        assert shape.k_basis and shape.limit_basis
+        assert f"`{name}`" in doc
+    assert "1.455·η·c" in SHAPES["edge-crack-plate"].limit_basis
