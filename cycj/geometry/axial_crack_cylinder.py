@@ -4,8 +4,8 @@ K = σ_h·√(πa)·M(λ), λ = a/√(R_m·t), with the Folias bulging factor in
 M = √(1 + 1.255λ² − 0.0135λ⁴), which holds to λ² = 25 (z = (2a)²/(2R_m·t) = 2λ² ≤ 50), and the
 long-flaw form M = 0.064λ² + 3.3 (z > 50) beyond; σ_h = p·R_i/t, the wall-averaged hoop stress
 (exact by equilibrium).  The two forms meet within 0.2 % at λ² = 25 (4.893 and 4.900).
-The nominal stress S is σ_h.  Limit: the hoop stress at collapse of the bulging crack, S_L = σ_y/M (with L_r,max = σ_flow/σ_y this is the flow-stress criterion
-σ_h = σ_flow/M).
+The nominal stress S is σ_h.  Limit: the hoop stress at collapse of the bulging crack,
+S_L = σ_y/M (with L_r,max = σ_flow/σ_y this is the flow-stress criterion σ_h = σ_flow/M).
 
 References
 ----------
