@@ -248,6 +248,17 @@ def case_from_dict(
             source=source,
             key="analysis.j_method",
         )
+    if analysis.j_method == "notch" and geometry.notch and geometry.shape.name != "crack-at-hole":
+        hi = geometry.size_limits[1]
+        if not geometry.crack_length + geometry.notch["depth"] < hi:
+            raise CycjInputError(
+                "the crack plus the notch depth leaves the K solution's range (the long crack "
+                "of j_method 'notch' has length a + D)",
+                source=source,
+                key="geometry.notch.depth",
+                expected=f"a + D < {hi:g} mm",
+                found=geometry.notch["depth"],
+            )
     if analysis.j_method == "small-crack" and geometry.shape.name not in (
         "edge-crack-semi-infinite",
         "center-crack-infinite-plate",
