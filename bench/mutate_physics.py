@@ -23,6 +23,7 @@ import ast
 import json
 import os
 import random
+import re
 import shutil
 import subprocess
 import sys
@@ -81,8 +82,25 @@ NAMED = {
     ),
 }
 
-#: survivors shown to be equivalent: (file, line of the original source, mutation) → reason
+#: survivors shown to be equivalent: (file, original text, mutated text) → reason
 EQUIVALENT: dict[tuple[str, str, str], str] = {}
+
+_FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
+
+
+def equivalent_reason(m: Mutant) -> str:
+    """Why a mutant cannot change any result, or '' (pattern rules, then :data:`EQUIVALENT`).
+
+    Flags and counts are stored as whole numbers in float arrays (0.0/1.0 switches, one or two
+    cracks) and tested against a half-way threshold: moving the threshold by 5 % or making the
+    comparison inclusive selects the same branch for every stored value."""
+    line = m.context
+    if _FLAG.search(line):
+        if m.kind.startswith("constant") and m.before in ("0.5", "1.5"):
+            return "flag threshold between stored whole numbers"
+        if m.kind == "comparison" and _FLAG.search(m.before):
+            return "flag comparison: inclusive or strict is the same for whole numbers"
+    return EQUIVALENT.get(m.key, "")
 
 
 @dataclass
@@ -95,6 +113,7 @@ class Mutant:
     start: int  # character offsets in the file's source
     end: int
     name: str = ""
+    context: str = ""  # the source line
 
     @property
     def key(self):
@@ -185,7 +204,8 @@ def generate(path: str) -> list[Mutant]:
         a, b = span(node)
         before = src[a:b]
         if new_text != before:
-            out.append(Mutant(path, node.lineno, kind, before, new_text, a, b))
+            line = src.splitlines()[node.lineno - 1].strip()
+            out.append(Mutant(path, node.lineno, kind, before, new_text, a, b, "", line))
 
     for node in ast.walk(tree):
         if id(node) in skip:
@@ -292,6 +312,11 @@ def run_one(m: Mutant, work: Path, timeout: float) -> tuple[str, float, str]:
     return outcome, time.perf_counter() - t0, failed
 
 
+def _match_key(row: dict) -> tuple:
+    """Identity of a mutant across edits of other lines (no line numbers or offsets)."""
+    return (row["file"], row["kind"], row["before"], row["after"])
+
+
 def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--max", type=int, default=250, help="generated mutants sampled (all: 0)")
@@ -300,11 +325,16 @@ def main(argv=None) -> int:
     ap.add_argument("--timeout", type=float, default=180.0)
     ap.add_argument("--json", default="", help="write the outcomes to this file")
     ap.add_argument("--list", action="store_true", help="list the mutants and stop")
+    ap.add_argument("--rerun", default="", help="repeat the survivors of this JSON report")
     args = ap.parse_args(argv)
 
     targets = [t for t in TARGETS if args.only in t]
     generated = [m for t in targets for m in generate(t)]
-    if args.max and len(generated) > args.max:
+    if args.rerun:
+        old = json.loads(Path(args.rerun).read_text())["rows"]
+        want = {_match_key(r) for r in old if r["outcome"] == "survived" and r["kind"] != "named"}
+        generated = [m for m in generated if _match_key(m.__dict__) in want]
+    elif args.max and len(generated) > args.max:
         generated = random.Random(args.seed).sample(generated, args.max)
         generated.sort(key=lambda m: (m.file, m.start))
     mutants = [m for m in named_mutants() if args.only in m.file] + generated
@@ -323,9 +353,11 @@ def main(argv=None) -> int:
             print(base.stdout[-3000:])
             raise SystemExit("the physics tests fail on the unmutated copy; fix them first")
         for i, m in enumerate(mutants, 1):
-            outcome, secs, failed = run_one(m, work, args.timeout)
-            if outcome == "survived" and m.key in EQUIVALENT:
-                outcome = "equivalent"
+            reason = equivalent_reason(m)
+            if reason:
+                outcome, secs, failed = "equivalent", 0.0, reason
+            else:
+                outcome, secs, failed = run_one(m, work, args.timeout)
             rows.append({**m.__dict__, "outcome": outcome, "seconds": secs, "killed_by": failed})
             print(f"[{i}/{len(mutants)}] {outcome:10s} {secs:5.1f}s  {m.describe()}", flush=True)
 

@@ -48,7 +48,17 @@ def _f2(lr, sy=350.0, e=200e3, k=350.0 / 0.002**0.1, n=0.1):
     return (e * er / (lr * sy) + lr**3 * sy / (2 * e * er)) ** -0.5
 
 
-@pytest.mark.parametrize("check", [end_check, _py(end_check)])
+_CODES = {"collapse": END_COLLAPSE, "tearing": END_TEARING, "toughness": END_TOUGHNESS}
+_CODES.update({"fad": END_FAD, "size-limit": END_SIZE})
+
+
+def _first_tripped(a, jmax, lr, jel, rho, mp):
+    """end_check's answer rebuilt from the list of every criterion tripped."""
+    rows = tripped_criteria(a, jmax, lr, jel, rho, mp)
+    return (_CODES[rows[0]["criterion"]], rows[0]["value"]) if rows else (RUNNING, 0.0)
+
+
+@pytest.mark.parametrize("check", [end_check, _py(end_check), _first_tripped])
 def test_each_criterion_at_its_threshold(check):
     # nothing trips inside every limit
     assert check(10.0, 50.0, 0.5, 10.0, 0.0, _mp(CHECK_TOUGH=1, CHECK_COLLAPSE=1))[0] == RUNNING
@@ -71,7 +81,7 @@ def test_each_criterion_at_its_threshold(check):
     assert check(49.999, 1.0, 0.1, 1.0, 0.0, _mp())[0] == RUNNING
 
 
-@pytest.mark.parametrize("check", [end_check, _py(end_check)])
+@pytest.mark.parametrize("check", [end_check, _py(end_check), _first_tripped])
 @pytest.mark.parametrize("lr", [0.3, 0.9, 1.15])
 def test_fad_option_1_and_2_by_hand(check, lr):
     # K_r = √(J_el/J_c) + ρ on or outside f(L_r) (R6 / BS 7910); J_c = 100 kJ/m²
@@ -85,9 +95,11 @@ def test_fad_option_1_and_2_by_hand(check, lr):
         assert check(10.0, 1.0, lr, j_on * (1 - 1e-6), rho, mp)[0] == RUNNING
     # Option 2 lies below Option 1 here (a flat-topped curve with n = 0.1): they differ
     assert abs(_f2(0.9) - _f1(0.9)) > 0.01
-    # beyond L_r,max the curve is 0: any K_r trips
+    # beyond L_r,max the curve is 0: any K_r trips, even 0 (on the curve is failure)
     mp = _mp(CHECK_FAD=1)
     assert check(10.0, 1.0, 1.21, 1e-12, 0.0, mp)[0] == END_FAD
+    assert check(10.0, 1.0, 1.21, 0.0, 0.0, mp) == (END_FAD, 0.0)
+    assert check(10.0, 1.0, 1.2, 0.0, 0.0, mp)[0] == RUNNING  # f(L_r,max) > 0
 
 
 @pytest.mark.parametrize("check", [end_check, _py(end_check)])
