@@ -170,3 +170,88 @@ def test_every_shape_states_its_bases_and_the_doc_lists_it():
         assert shape.k_basis and shape.limit_basis
         assert f"`{name}`" in doc
     assert "1.455·η·c" in SHAPES["edge-crack-plate"].limit_basis
+
+
+def _newman_raju_by_hand(a, c, t, w, phi, beta=0.0):
+    """Newman & Raju (1981) K/S for a surface crack, the published equations written out
+    (from memory): K = (S_m + H·S_b)√(πa/Q)·F, F = [M1 + M2(a/t)² + M3(a/t)⁴]·g·f_φ·f_w."""
+    at, sp, cp = a / t, math.sin(phi), math.cos(phi)
+    fw = (1 / math.cos(math.pi * c / w * math.sqrt(at))) ** 0.5  # b = W/2
+    if a <= c:
+        r = a / c
+        m = [1.13 - 0.09 * r, -0.54 + 0.89 / (0.2 + r), 0.5 - 1 / (0.65 + r) + 14 * (1 - r) ** 24]
+        g = 1 + (0.1 + 0.35 * at**2) * (1 - sp) ** 2
+        f_phi = (r**2 * cp**2 + sp**2) ** 0.25
+        q = 1 + 1.464 * r**1.65
+    else:
+        r = c / a
+        m = [math.sqrt(r) * (1 + 0.04 * r), 0.2 * r**4, -0.11 * r**4]
+        g = 1 + (0.1 + 0.35 * r * at**2) * (1 - sp) ** 2
+        f_phi = (r**2 * sp**2 + cp**2) ** 0.25
+        q = 1 + 1.464 * r**1.65
+    f = (m[0] + m[1] * at**2 + m[2] * at**4) * g * f_phi * fw
+    h = 1.0
+    if beta:
+        r = a / c
+        p = 0.2 + r + 0.6 * at
+        h1 = 1 - 0.34 * at - 0.11 * r * at
+        h2 = 1 + (-1.22 - 0.12 * r) * at + (0.55 - 1.05 * r**0.75 + 0.47 * r**1.5) * at**2
+        h = 1 + beta * (h1 + (h2 - h1) * sp**p)
+    return h * math.sqrt(math.pi * a / q) * f
+
+
+def test_surface_crack_semicircle_shallow_anchor_values():
+    # a/c = 1, a/t → 0, wide plate: F = 1.04 at the deepest point, 1.04·1.1 at the surface,
+    # Q = 2.464 → K/(S√(πa)) = 0.6625 and 0.7288 (Newman & Raju 1981, by hand)
+    g = make_geometry("surface-crack-plate", 0.01, width=1e5, thickness=1e3, half_length=0.01)
+    scale = math.sqrt(math.pi * 0.01)
+    assert g.k_over_s(0.01) / scale == pytest.approx(1.04 / math.sqrt(2.464), rel=1e-5)
+    assert g.k_over_s_surface(0.01) / scale == pytest.approx(1.144 / math.sqrt(2.464), rel=1e-5)
+
+
+@pytest.mark.parametrize(
+    "a,c,beta",
+    [
+        (2.0, 10.0, 0.0),
+        (4.0, 5.0, 0.0),
+        (6.0, 4.0, 0.0),
+        (10.0, 6.0, 0.0),
+        (3.0, 8.0, 0.7),
+        (7.0, 9.0, 1.5),
+        (12.0, 15.0, 0.0),
+        (1.0, 5.0, 2.0),
+    ],
+)
+def test_surface_crack_newman_raju_by_hand(a, c, beta):
+    t, w = 20.0, 120.0
+    if beta and a > c:
+        pytest.skip("bending multiplier published for a/c ≤ 1")
+    g = make_geometry(
+        "surface-crack-plate", a, width=w, thickness=t, half_length=c, bending_ratio=beta
+    )
+    deep = _newman_raju_by_hand(a, c, t, w, math.pi / 2, beta)
+    surf = _newman_raju_by_hand(a, c, t, w, 0.0, beta)
+    assert g.k_over_s(a) == pytest.approx(deep, rel=1e-12)
+    assert g.k_over_s_surface(a) == pytest.approx(surf, rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    "a,c,w,beta",
+    [
+        (5.0, 10.0, 200.0, 0.0),
+        (5.0, 10.0, 50.0, 0.0),
+        (8.0, 12.0, 200.0, 1.0),
+        (8.0, 12.0, 60.0, 0.5),
+    ],
+)
+def test_surface_crack_reference_stress_bs7910_by_hand(a, c, w, beta):
+    # BS 7910 Annex P (from memory): σ_ref = [P_b + √(P_b² + 9P_m²(1 − α″)²)]/[3(1 − α″)²],
+    # α″ = (a/t)/(1 + t/c) for W ≥ 2(c + t), else (2a/t)(c/W); S_L = σ_y·P_m/σ_ref
+    t, sy = 20.0, 355.0
+    g = make_geometry(
+        "surface-crack-plate", a, width=w, thickness=t, half_length=c, bending_ratio=beta
+    )
+    alpha = (a / t) / (1 + t / c) if w >= 2 * (c + t) else (2 * a / t) * (c / w)
+    pm, pb = 1.0, beta
+    s_ref = (pb + math.sqrt(pb**2 + 9 * pm**2 * (1 - alpha) ** 2)) / (3 * (1 - alpha) ** 2)
+    assert g.limit_stress(a, sy) == pytest.approx(sy * pm / s_ref, rel=1e-12)
