@@ -114,22 +114,28 @@ CONTEXT_EQUIVALENT = [
 ]
 
 
+def survivor_equivalent_reason(m: Mutant) -> str:
+    """Why a *surviving* mutant cannot change any result, or '' (:data:`CONTEXT_EQUIVALENT`,
+    :data:`EQUIVALENT`).  Applied only after the tests passed on it."""
+    for path, start, reason in CONTEXT_EQUIVALENT:
+        if m.file == path and m.context.startswith(start):
+            return reason
+    return EQUIVALENT.get(m.key, "")
+
+
 def equivalent_reason(m: Mutant) -> str:
-    """Why a mutant cannot change any result, or '' (pattern rules, then :data:`EQUIVALENT`).
+    """Why a mutant is equivalent before running it, or ''.
 
     Flags and counts are stored as whole numbers in float arrays (0.0/1.0 switches, one or two
     cracks) and tested against a half-way threshold: moving the threshold by 5 % or making the
     comparison inclusive selects the same branch for every stored value."""
     line = m.context
-    for path, start, reason in CONTEXT_EQUIVALENT:
-        if m.file == path and line.startswith(start):
-            return reason
     if _FLAG.search(line):
         if m.kind.startswith("constant") and m.before in ("0.5", "1.5"):
             return "flag threshold between stored whole numbers"
         if m.kind == "comparison" and _FLAG.search(m.before):
             return "flag comparison: inclusive or strict is the same for whole numbers"
-    return EQUIVALENT.get(m.key, "")
+    return ""
 
 
 @dataclass
@@ -387,6 +393,8 @@ def main(argv=None) -> int:
                 outcome, secs, failed = "equivalent", 0.0, reason
             else:
                 outcome, secs, failed = run_one(m, work, args.timeout)
+                if outcome == "survived" and survivor_equivalent_reason(m):
+                    outcome, failed = "equivalent", survivor_equivalent_reason(m)
             rows.append({**m.__dict__, "outcome": outcome, "seconds": secs, "killed_by": failed})
             print(f"[{i}/{len(mutants)}] {outcome:10s} {secs:5.1f}s  {m.describe()}", flush=True)
 
