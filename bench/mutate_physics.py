@@ -398,6 +398,10 @@ def main(argv=None) -> int:
             rows.append({**m.__dict__, "outcome": outcome, "seconds": secs, "killed_by": failed})
             print(f"[{i}/{len(mutants)}] {outcome:10s} {secs:5.1f}s  {m.describe()}", flush=True)
 
+    if args.rerun:  # merge: the earlier run's decided mutants, the survivors as run now
+        kept = [r for r in old if r["outcome"] != "survived" and r["kind"] != "named"]
+        print(f"merged with {len(kept)} decided mutants of {args.rerun}")
+        rows = [*rows, *kept]
     counted = [r for r in rows if r["outcome"] in ("killed", "survived")]
     killed = sum(r["outcome"] == "killed" for r in counted)
     score = killed / len(counted) if counted else float("nan")
@@ -406,13 +410,19 @@ def main(argv=None) -> int:
     print(f"  equivalent (not counted): {sum(r['outcome'] == 'equivalent' for r in rows)}")
     print(f"  invalid (not counted): {sum(r['outcome'] == 'invalid' for r in rows)}")
     for r in rows:
+        if r["outcome"] == "equivalent":
+            print(
+                f"  equivalent: {r['file']}:{r['line']} {r['before']!r} → {r['after']!r}: "
+                f"{r['killed_by']}"
+            )
+    for r in rows:
         if r["kind"] == "named":
             print(f"  named: {r['name']}: {r['outcome']} ({r['killed_by']})")
     survivors = [r for r in rows if r["outcome"] == "survived"]
     if survivors:
         print("survivors:")
         for r in survivors:
-            m = Mutant(**{k: r[k] for k in Mutant.__dataclass_fields__})
+            m = Mutant(**{k: r.get(k, "") for k in Mutant.__dataclass_fields__})
             print("  " + m.describe())
     if args.json:
         Path(args.json).write_text(json.dumps({"score": score, "rows": rows}, indent=1))
