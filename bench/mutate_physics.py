@@ -83,7 +83,14 @@ NAMED = {
 }
 
 #: survivors shown to be equivalent: (file, original text, mutated text) → reason
-EQUIVALENT: dict[tuple[str, str, str], str] = {}
+EQUIVALENT: dict[tuple[str, str, str], str] = {
+    ("cycj/fields/notch.py", "far < root", "far <= root"): (
+        "ties: at far = root both branches give the same ΔJ"
+    ),
+    ("cycj/fields/notch.py", "dk <= 0.0", "dk < 0.0"): (
+        "at ΔK = 0 every estimate is 0 (and the stepper returns before)"
+    ),
+}
 
 _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 

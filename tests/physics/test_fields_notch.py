@@ -229,3 +229,42 @@ def test_notch_validity(steel):
         notch_delta_j(0.0, 100.0, 2.0, steel, 1.0)  # a ≤ 0
     with pytest.raises(ValidityRangeError):
         neuber_masing(2.0, 100.0, Material(E, 0.3, 350.0))  # no cyclic curve
+
+
+def test_notch_never_below_the_plain_crack(steel):
+    # K_t = 1 and a shallow notch: the root estimate (no ½L_r² bracket) falls below the plain
+    # reference stress estimate of the same crack (Ainsworth 1984, by hand), which then holds
+    from dataclasses import replace
+
+    from cycj.geometry import make_geometry
+    from cycj.jintegral import delta_j
+
+    g = replace(
+        make_geometry("edge-crack-semi-infinite", 0.5),
+        notch={"kt": 1.0, "depth": 1e-6, "root_radius": 1.0},
+    )
+    ep, a, ds = E / 0.91, 0.5, 300.0
+    dj_el = (1.1215 * ds) ** 2 * math.pi * a / ep
+    dep = 2 * (ds / 1800.0) ** (1 / 0.15)
+    lr = ds / (2 * 900.0 * 0.002**0.15)
+    plain = dj_el * (1 + 0.5 * lr**2 * ds / (E * (ds / E + dep))) + dj_el * E * dep / ds
+    assert delta_j(g, steel, a, ds, method="notch") == pytest.approx(plain, rel=1e-9)
+    assert delta_j(g, steel, a, ds) == pytest.approx(plain, rel=1e-9)
+
+
+def test_notch_delta_j_scales_with_the_load_squared_down_to_tiny_loads():
+    # elastic limit (Rice 1968): ΔJ = (1.1215·K_t·ΔS)²πa/E' for any ΔS > 0, however small
+    from dataclasses import replace
+
+    from cycj.geometry import make_geometry
+    from cycj.jintegral import delta_j
+
+    el = Material(E, 0.3, 350.0, cyclic_curve=StressStrainCurve(1e12, 0.15))
+    g = replace(
+        make_geometry("edge-crack-semi-infinite", 0.1),
+        notch={"kt": 2.5, "depth": 3.0, "root_radius": 1.0},
+    )
+    for ds in (1e-5, 1e-2, 10.0):
+        hand = (1.1215 * 2.5 * ds) ** 2 * math.pi * 0.1 / (E / 0.91)
+        assert delta_j(g, el, 0.1, ds, method="notch") == pytest.approx(hand, rel=1e-9)
+    assert delta_j(g, el, 0.1, 0.0, method="notch") == 0.0
