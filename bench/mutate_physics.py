@@ -99,6 +99,16 @@ _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 CONTEXT_EQUIVALENT = [
     (
         "cycj/geometry/__init__.py",
+        "inner_radius: float = 0.0,",
+        "default of a dimension the shape does not use (a required one is checked > 0)",
+    ),
+    (
+        "cycj/geometry/__init__.py",
+        "hole_radius: float = 0.0,",
+        "default of a dimension the shape does not use (a required one is checked > 0)",
+    ),
+    (
+        "cycj/geometry/__init__.py",
         "return out if out.size > 1",
         "array sizes are whole numbers; a one-element array and its float hold the same value",
     ),

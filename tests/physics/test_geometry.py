@@ -255,3 +255,33 @@ def test_surface_crack_reference_stress_bs7910_by_hand(a, c, w, beta):
     pm, pb = 1.0, beta
     s_ref = (pb + math.sqrt(pb**2 + 9 * pm**2 * (1 - alpha) ** 2)) / (3 * (1 - alpha) ** 2)
     assert g.limit_stress(a, sy) == pytest.approx(sy * pm / s_ref, rel=1e-12)
+
+
+def test_validity_ranges_at_their_ends():
+    # Newman–Raju: 0 < a/c ≤ 2 without bending (≤ 1 with), a/t < 0.8 (from memory)
+    make_geometry("surface-crack-plate", 4.0, width=100, thickness=20, half_length=2.0)
+    with pytest.raises(CycjInputError):
+        make_geometry("surface-crack-plate", 4.02, width=100, thickness=20, half_length=2.0)
+    make_geometry(
+        "surface-crack-plate", 2.0, width=100, thickness=20, half_length=2.0, bending_ratio=0.5
+    )
+    with pytest.raises(CycjInputError):
+        make_geometry(
+            "surface-crack-plate", 2.02, width=100, thickness=20, half_length=2.0, bending_ratio=0.5
+        )
+    # axial crack: λ = a/√(R_m·t) ≤ √50, R_m = R_i + t/2
+    g = make_geometry("axial-crack-cylinder", 10.0, inner_radius=300.0, thickness=10.0)
+    assert g.size_limits == (0.0, pytest.approx(math.sqrt(50 * 305.0 * 10.0), rel=1e-14))
+    # the two-term bulging factor still holds at λ² = 25 exactly
+    from cycj.geometry.axial_crack_cylinder import folias_factor
+
+    f = getattr(folias_factor, "py_func", folias_factor)
+    assert f(5.0) == pytest.approx(math.sqrt(1 + 1.255 * 25 - 0.0135 * 625), rel=1e-15)
+    # infinite and semi-infinite bodies and the crack at a hole: any crack size > 0
+    for shape, kw in (
+        ("center-crack-infinite-plate", {}),
+        ("edge-crack-semi-infinite", {}),
+        ("crack-at-hole", {"hole_radius": 5.0}),
+    ):
+        g = make_geometry(shape, 1e-6, **kw)
+        assert g.size_limits == (0.0, math.inf)
