@@ -335,3 +335,33 @@ def test_newman_constraint_factor_is_stated_in_the_resolved_inputs():
         material=law,
     )
     assert case.resolved()["loading"]["closure"]["constraint_factor_used"] == 2.0
+
+
+def test_stepper_j_max_uses_the_monotonic_curve():
+    # Ainsworth (1984) at peak load with the monotonic curve (proof stress = σ_y = 350 MPa),
+    # not the softer cyclic one (K' = 700): centre crack in an infinite plate, S_L = σ_y
+    import math
+
+    from cycj.life import block_loads, model_array
+    from cycj.life import stepper as K
+    from tests.helpers import make_case
+
+    mono_k = 350.0 / 0.002**0.1
+    case = make_case(
+        material={
+            "cyclic_curve": {"strength_coefficient": "700 MPa", "hardening_exponent": 0.15},
+            "monotonic_curve": {"strength_coefficient": f"{mono_k} MPa", "hardening_exponent": 0.1},
+        },
+        loading={"constant": {"max": "330 MPa", "min": "0 MPa"}},
+        analysis={"j_method": "reference-stress"},
+    )
+    loads = block_loads(case)
+    mp = model_array(case, loads=loads)
+    g = case.geometry
+    out = K.cycle_driving_force(loads.lmax, loads.lmin, 0, 2.0, g.code, g.params, loads.ct, mp)
+    j_el = (330.0 * math.sqrt(math.pi * 2.0)) ** 2 / (200e3 / 0.91)
+    e_ref = 330.0 / 200e3 + (330.0 / mono_k) ** 10
+    lr = 330.0 / 350.0
+    hand = j_el * (200e3 * e_ref / 330.0 + 0.5 * lr**2 * 330.0 / (200e3 * e_ref))
+    assert out[1] == pytest.approx(hand, rel=1e-9)
+    assert out[3] == pytest.approx(j_el, rel=1e-12)
