@@ -87,6 +87,9 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
     ("cycj/fields/notch.py", "far < root", "far <= root"): (
         "ties: at far = root both branches give the same ΔJ"
     ),
+    ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
+        "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
+    ),
     ("cycj/fields/notch.py", "dk <= 0.0", "dk < 0.0"): (
         "at ΔK = 0 every estimate is 0 (and the stepper returns before)"
     ),
@@ -97,6 +100,16 @@ _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 
 #: (file, start of the source line, reason): lines where no small mutation can change a result
 CONTEXT_EQUIVALENT = [
+    (
+        "cycj/fields/notch.py",
+        "return 0.0, 1.0",
+        "no load range: ΔJ = 0 and the K factor is not used (the stepper returns before)",
+    ),
+    (
+        "cycj/geometry/__init__.py",
+        'p[P.PLANE_STRAIN] = 1.0 if constraint == "plane-strain" else 0.0',
+        "a flag read as > 0.5: any stored value below one half is plane stress",
+    ),
     (
         "cycj/geometry/__init__.py",
         "inner_radius: float = 0.0,",

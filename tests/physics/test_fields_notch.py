@@ -268,3 +268,14 @@ def test_notch_delta_j_scales_with_the_load_squared_down_to_tiny_loads():
         hand = (1.1215 * 2.5 * ds) ** 2 * math.pi * 0.1 / (E / 0.91)
         assert delta_j(g, el, 0.1, ds, method="notch") == pytest.approx(hand, rel=1e-9)
     assert delta_j(g, el, 0.1, 0.0, method="notch") == 0.0
+
+
+def test_notch_inputs_at_their_ends(steel):
+    # K_t = 1 (no concentration) is a valid notch; two cracks are the default at a hole
+    # (Tada's fit F2 = ½(3 − s)[1 + 1.243(1 − s)³], s = a/(a + R), from memory)
+    a = np.array([0.5, 2.0])
+    assert np.all(np.isfinite(notch_delta_j(a, 100.0, 1.0, steel, 1.0)))
+    assert np.all(np.isfinite(notch_root_delta_j(a, 100.0, 1.0, steel)))
+    s = a / (a + 3.0)
+    f2 = 0.5 * (3 - s) * (1 + 1.243 * (1 - s) ** 3)
+    np.testing.assert_allclose(k_over_s_crack_at_hole(a, 3.0), np.sqrt(np.pi * a) * f2, rtol=1e-14)
