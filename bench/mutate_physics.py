@@ -87,6 +87,9 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
     ("cycj/fields/notch.py", "far < root", "far <= root"): (
         "ties: at far = root both branches give the same ΔJ"
     ),
+    ("cycj/geometry/surface_crack_plate.py", "w >= 2.0 * (c + t)", "w > 2.0 * (c + t)"): (
+        "at W = 2(c + t) both forms of α″ are (a/t)/(1 + t/c)"
+    ),
     ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
         "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
     ),
@@ -100,6 +103,16 @@ _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 
 #: (file, start of the source line, reason): lines where no small mutation can change a result
 CONTEXT_EQUIVALENT = [
+    (
+        "cycj/geometry/surface_crack_plate.py",
+        "g = 1.0 + (0.1",
+        "only φ = 90° and φ = 0 are evaluated, where (1 − sin φ)^2 is 0 or 1 for any exponent",
+    ),
+    (
+        "cycj/geometry/surface_crack_plate.py",
+        "p = 0.2 + ac + 0.6 * at",
+        "exponent of sin φ in H: sin^p φ is 1 at φ = 90° and 0 at φ = 0 for any p > 0",
+    ),
     (
         "cycj/fields/notch.py",
         "return 0.0, 1.0",

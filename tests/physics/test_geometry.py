@@ -285,3 +285,26 @@ def test_validity_ranges_at_their_ends():
     ):
         g = make_geometry(shape, 1e-6, **kw)
         assert g.size_limits == (0.0, math.inf)
+
+
+def test_tabulated_geometry_linear_table_by_hand():
+    # monotone cubic interpolation (Fritsch & Carlson 1980) reproduces linear data exactly:
+    # F(α) = 1 + α, limit factor 1 − α → K = S√(πa)(1 + a/W), S_L = σ_y(1 − a/W)
+    import numpy as np
+
+    alpha = np.array([0.1, 0.3, 0.5, 0.7])
+    g = make_geometry(
+        "tabulated", 12.3, width=50.0, thickness=10.0, table=(alpha, 1 + alpha, 1 - alpha)
+    )
+    for a in (5.0, 12.3, 20.0, 31.7, 35.0):
+        assert g.k_over_s(a) == pytest.approx(math.sqrt(math.pi * a) * (1 + a / 50), rel=1e-12)
+        assert g.limit_stress(a, 300.0) == pytest.approx(300.0 * (1 - a / 50), rel=1e-12)
+    assert g.size_limits == (pytest.approx(5.0), pytest.approx(35.0))
+
+
+def test_three_point_bend_side_grooves_and_range():
+    # ASTM E1820: K ∝ 1/√(B·B_N); ASTM E399 SE(B) range 0.1 ≤ a/W (here also ≤ 0.9)
+    g = make_geometry("three-point-bend", 20, width=40, thickness=20)
+    h = make_geometry("three-point-bend", 20, width=40, thickness=20, net_thickness=15)
+    assert h.k_over_s(20) / g.k_over_s(20) == pytest.approx(math.sqrt(20 / 15), rel=1e-14)
+    assert g.size_limits == (pytest.approx(4.0), pytest.approx(36.0))

@@ -120,3 +120,13 @@ def test_paris_rate_threshold_is_exclusive():
         assert f(0.0, 1e-4, 1.6, 0.0) == 0.0
     law = G.GrowthLaw(C=2e-4, m=1.5, threshold=0.1)
     assert law.rate([0.05, 0.1, 1.0]) == pytest.approx([0.0, 0.0, 2e-4], rel=1e-14)
+
+
+def test_opening_fraction_small_ranges_and_small_minimum():
+    of = getattr(G.opening_fraction, "py_func", G.opening_fraction)
+    for f in (G.opening_fraction, of):
+        # a tiny but positive range still has its U (constant-U model)
+        assert f(G.CONSTANT, 100.0, 100.0 - 1e-6, 0.3, 0.65, 2.0, 0.0) == (pytest.approx(0.35), 0)
+        # a small positive minimum is not a compressive part (S_op = S_min, x = 0)
+        assert f(G.NONE, 100.0, 5e-4, 0.3, 1.0, 2.0, 0.0) == (0.0, 0)
+        assert f(G.NONE, 100.0, -5e-4, 0.3, 1.0, 2.0, 0.0) == (pytest.approx(5e-4 / 100.0005), 0)
