@@ -94,6 +94,10 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
         "only when on the line 'return min(max(x, 0.0), 1.0), clipped': Newman's U stays in "
         "[0.23, 1] over its range (checked on a grid of R, S_max/σ0, α), so x ≤ 0.77"
     ),
+    ("cycj/growth.py", "dj > 0.0", "dj >= 0.0"): ("at ΔJ = 0, ΔJ^m = 0 either way"),
+    ("cycj/jintegral.py", "x <= 0.0", "x < 0.0"): (
+        "at x = 0 the formula 1 − (1+n')x + n'x^(1+1/n') is 1, the value returned"
+    ),
     ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
         "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
     ),

@@ -254,3 +254,11 @@ def test_option1_curve_by_hand_and_cut_off():
         assert J.fad_option1(lr, lr_max=1.15) == pytest.approx(hand, rel=1e-14)
     assert J.fad_option1(1.15, lr_max=1.15) > 0.0
     assert J.fad_option1(1.1501, lr_max=1.15) == 0.0
+
+
+def test_plastic_fraction_near_full_opening_by_hand():
+    # f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U, just below U = 1 and just above U = 0
+    for u in (0.9995, 0.99, 0.0005):
+        x = 1 - u
+        hand = 1 - 1.15 * x + 0.15 * x ** (1 + 1 / 0.15)
+        assert J.plastic_fraction(u, 0.15) == pytest.approx(hand, rel=1e-12, abs=1e-300)
