@@ -98,6 +98,10 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
     ("cycj/jintegral.py", "x <= 0.0", "x < 0.0"): (
         "at x = 0 the formula 1 − (1+n')x + n'x^(1+1/n') is 1, the value returned"
     ),
+    ("cycj/jintegral.py", "0.0", "1e-3"): (
+        "only when on the line 'if dsig_ref <= 0.0:': below Δσ_ref = 1e-3 MPa the bracket "
+        "½L_r,cyc² and the plastic term are below 1e-12 of ΔJ_el"
+    ),
     ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
         "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
     ),

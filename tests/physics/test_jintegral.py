@@ -262,3 +262,11 @@ def test_plastic_fraction_near_full_opening_by_hand():
         x = 1 - u
         hand = 1 - 1.15 * x + 0.15 * x ** (1 + 1 / 0.15)
         assert J.plastic_fraction(u, 0.15) == pytest.approx(hand, rel=1e-12, abs=1e-300)
+
+
+def test_shape_small_crack_without_a_primary_range_is_elastic():
+    # a K range with no nominal loop (e.g. a secondary stress only): U²ΔK²/E' (Rice 1968)
+    m = mat()
+    assert J.shape_small_crack_delta_j(50.0, 0.0, m, 210e3, 0.6) == pytest.approx(
+        0.36 * 2500 / 210e3, rel=1e-14
+    )
