@@ -270,3 +270,16 @@ def test_shape_small_crack_without_a_primary_range_is_elastic():
     assert J.shape_small_crack_delta_j(50.0, 0.0, m, 210e3, 0.6) == pytest.approx(
         0.36 * 2500 / 210e3, rel=1e-14
     )
+
+
+def test_option2_curve_is_cut_off_just_beyond_lr_max():
+    # R6 / BS 7910: f(L_r) = 0 only for L_r > L_r,max; at L_r,max it is the curve's value
+    mono = StressStrainCurve(350.0 / 0.002**0.1, 0.1)
+    m = Material(200e3, 0.3, 350.0, 500.0, StressStrainCurve(700.0, 0.15), mono, 200.0)
+    lr = m.lr_max
+    s = lr * 350.0
+    er = s / 200e3 + (s / mono.strength_coefficient) ** 10
+    hand = (200e3 * er / s + 0.5 * lr**2 * s / (200e3 * er)) ** -0.5
+    assert J.fad_option2(lr, m) == pytest.approx(hand, rel=1e-12)
+    assert J.fad_option2(lr * (1 + 1e-9), m) == 0.0
+    assert J.fad_option2(0.0, m) == 1.0
