@@ -102,6 +102,9 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
         "only when on the line 'if dsig_ref <= 0.0:': below Δσ_ref = 1e-3 MPa the bracket "
         "½L_r,cyc² and the plastic term are below 1e-12 of ΔJ_el"
     ),
+    ("cycj/jintegral.py", "d > 0", "d >= 0"): (
+        "at D = 0 the shape's K and limit load at a + D are those at a"
+    ),
     ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
         "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
     ),
