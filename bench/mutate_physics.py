@@ -105,6 +105,9 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
     ("cycj/jintegral.py", "d > 0", "d >= 0"): (
         "at D = 0 the shape's K and limit load at a + D are those at a"
     ),
+    ("cycj/growth.py", "dj <= 0.0", "dj < 0.0"): (
+        "ΔJ = 0 is already caught by ΔJ ≤ ΔJ_th (the threshold is ≥ 0)"
+    ),
     ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
         "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
     ),
@@ -118,6 +121,11 @@ _FLAG = re.compile(r"(mp\[[A-Z_]+\]|p\[\d\]|n_cracks|own) [<>]=? (0\.5|1\.5)\b")
 
 #: (file, start of the source line, reason): lines where no small mutation can change a result
 CONTEXT_EQUIVALENT = [
+    (
+        "cycj/jintegral.py",
+        "1.0 if own else 0.0,",
+        "a flag read as > 0.5 by the notch kernel",
+    ),
     (
         "cycj/geometry/surface_crack_plate.py",
         "g = 1.0 + (0.1",
