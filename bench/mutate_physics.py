@@ -424,7 +424,7 @@ def run_one(m: Mutant, work: Path, timeout: float) -> tuple[str, float, str]:
 
 def _match_key(row: dict) -> tuple:
     """Identity of a mutant across edits of other lines (no line numbers or offsets)."""
-    return (row["file"], row["kind"], row["before"], row["after"])
+    return (row["file"], row["kind"], row["before"], row["after"], row.get("context", ""))
 
 
 def main(argv=None) -> int:
