@@ -127,6 +127,8 @@ def test_opening_fraction_small_ranges_and_small_minimum():
     for f in (G.opening_fraction, of):
         # a tiny but positive range still has its U (constant-U model)
         assert f(G.CONSTANT, 100.0, 100.0 - 1e-6, 0.3, 0.65, 2.0, 0.0) == (pytest.approx(0.35), 0)
+        # a small positive peak still opens (nothing to exclude)
+        assert f(G.CONSTANT, 5e-4, 0.0, 0.3, 0.65, 2.0, 0.0) == (pytest.approx(0.35), 0)
         # a small positive minimum is not a compressive part (S_op = S_min, x = 0)
         assert f(G.NONE, 100.0, 5e-4, 0.3, 1.0, 2.0, 0.0) == (0.0, 0)
         assert f(G.NONE, 100.0, -5e-4, 0.3, 1.0, 2.0, 0.0) == (pytest.approx(5e-4 / 100.0005), 0)
