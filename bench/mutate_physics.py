@@ -108,9 +108,6 @@ EQUIVALENT: dict[tuple[str, str, str], str] = {
     ("cycj/growth.py", "dj <= 0.0", "dj < 0.0"): (
         "ΔJ = 0 is already caught by ΔJ ≤ ΔJ_th (the threshold is ≥ 0)"
     ),
-    ("cycj/geometry/dispatch.py", "code == _HOLE", "code != _HOLE"): (
-        "in limit_stress the last two branches (hole, infinite plate) both return σ_y"
-    ),
     ("cycj/fields/notch.py", "dk <= 0.0", "dk < 0.0"): (
         "at ΔK = 0 every estimate is 0 (and the stepper returns before)"
     ),

@@ -308,3 +308,14 @@ def test_three_point_bend_side_grooves_and_range():
     h = make_geometry("three-point-bend", 20, width=40, thickness=20, net_thickness=15)
     assert h.k_over_s(20) / g.k_over_s(20) == pytest.approx(math.sqrt(20 / 15), rel=1e-14)
     assert g.size_limits == (pytest.approx(4.0), pytest.approx(36.0))
+
+
+def test_crack_at_hole_shape_by_hand():
+    # Bowie (1956), Tada's fit (from memory): K = S√(πa)·F, F2 = ½(3 − s)[1 + 1.243(1 − s)³],
+    # F1 = F2·√((2 − s)/2), s = a/(a + R); wide plate: S_L = σ_y
+    for n in (1, 2):
+        g = make_geometry("crack-at-hole", 2.0, hole_radius=5.0, cracks=n)
+        s = 2.0 / 7.0
+        f = 0.5 * (3 - s) * (1 + 1.243 * (1 - s) ** 3) * (math.sqrt((2 - s) / 2) if n == 1 else 1)
+        assert g.k_over_s(2.0) == pytest.approx(math.sqrt(math.pi * 2.0) * f, rel=1e-14)
+        assert g.limit_stress(2.0, 300.0) == 300.0
