@@ -75,6 +75,17 @@ class Case:
             return None
         return hashlib.sha256(Path(self.path).read_bytes()).hexdigest()
 
+    def newman_constraint_factor(self) -> tuple[float, str]:
+        """Newman's constraint factor α used by the closure model, and where it comes from:
+        the case's ``constraint_factor``, else 3 (plane strain) or 1 (plane stress), the two
+        bounds of Newman (1984)."""
+        alpha = self.loading.closure.constraint_factor
+        if alpha is not None:
+            return float(alpha), "loading.closure.constraint_factor"
+        if self.geometry.plane_strain:
+            return 3.0, "default for plane strain (Newman 1984: α = 3)"
+        return 1.0, "default for plane stress (Newman 1984: α = 1)"
+
     def resolved(self) -> dict:
         """The case in internal units, as plain JSON-ready data."""
         geo = self.geometry
@@ -105,6 +116,10 @@ class Case:
         out["material"]["effective_modulus"] = self.material.effective_modulus(geo.plane_strain)
         if geo.notch is not None:
             out["geometry"]["notch"] = geo.notch
+        if self.loading.closure.model == "newman":
+            alpha, basis = self.newman_constraint_factor()
+            out["loading"]["closure"]["constraint_factor_used"] = alpha
+            out["loading"]["closure"]["constraint_factor_basis"] = basis
         if self.fields is not None:
             out["fields"] = _fields_plain(self.fields)
         if self.inspection is not None:
@@ -218,6 +233,17 @@ def case_from_dict(
             source=source,
             key="analysis.j_method",
         )
+    if analysis.j_method == "notch" and geometry.notch and geometry.shape.name != "crack-at-hole":
+        hi = geometry.size_limits[1]
+        if not geometry.crack_length + geometry.notch["depth"] < hi:
+            raise CycjInputError(
+                "the crack plus the notch depth leaves the K solution's range (the long crack "
+                "of j_method 'notch' has length a + D)",
+                source=source,
+                key="geometry.notch.depth",
+                expected=f"a + D < {hi:g} mm",
+                found=geometry.notch["depth"],
+            )
     if analysis.j_method == "small-crack" and geometry.shape.name not in (
         "edge-crack-semi-infinite",
         "center-crack-infinite-plate",

@@ -51,7 +51,7 @@ poisson_ratio = 0.3
 yield_strength = "420 MPa"
 tensile_strength = "590 MPa"
 cyclic_curve = { strength_coefficient = "760 MPa", hardening_exponent = 0.14 }
-monotonic_curve = { strength_coefficient = "700 MPa", hardening_exponent = 0.17 }
+monotonic_curve = { strength_coefficient = "842 MPa", hardening_exponent = 0.112 }
 toughness = { J_c = "95 kJ/m^2" }
 {growth}
 

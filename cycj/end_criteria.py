@@ -80,7 +80,11 @@ register(
     END_FAD,
     slots=("FAD_CURVE", "J_C", "LR_MAX"),
     validity="assessment point on or outside the failure assessment curve",
-    citation=("R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",),
+    citation=(
+        "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max",
+        "R6 Rev. 3 / BS 7910:1999 level 2A: the Option 1 curve's form "
+        "(1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)) (from memory)",
+    ),
 )
 register(
     "end_criterion",
@@ -115,13 +119,17 @@ END_NAMES = {
 def end_check(a, jmax, lr, j_el_max, rho, mp):
     """End code tripped at crack size ``a`` with J_max, L_r and J_el at peak (0 if none) and the
     value that tripped it; ``rho`` is the plasticity interaction added to K_r when secondary
-    (residual) stresses act (R6 / BS 7910), else 0."""
+    (residual) stresses act (R6 / BS 7910), else 0.
+
+    Order when several trip in the same cycle (:data:`PRIORITY`): collapse (L_r ≥ L_r,max
+    overrides every fracture criterion), tearing, toughness, FAD, size limit;
+    :func:`tripped_criteria` lists them all."""
+    if mp[CHECK_COLLAPSE] > 0.5 and lr >= mp[LR_MAX]:
+        return END_COLLAPSE, lr
     if a >= mp[A_TEAR]:
         return END_TEARING, a
     if mp[CHECK_TOUGH] > 0.5 and jmax >= mp[J_C]:
         return END_TOUGHNESS, jmax
-    if mp[CHECK_COLLAPSE] > 0.5 and lr >= mp[LR_MAX]:
-        return END_COLLAPSE, lr
     if mp[CHECK_FAD] > 0.5:
         kr = math.sqrt(j_el_max / mp[J_C]) + rho
         if int(mp[FAD_CURVE]) == FAD_OPTION_2:
@@ -133,3 +141,40 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
     if a >= mp[A_LIMIT]:
         return END_SIZE, a
     return RUNNING, 0.0
+
+
+#: the order in which criteria tripped in the same cycle are named (the first is end_reason)
+PRIORITY = ("collapse", "tearing", "toughness", "fad", "size-limit")
+
+
+def tripped_criteria(a, jmax, lr, j_el_max, rho, mp) -> list[dict]:
+    """Every end criterion tripped at crack size ``a`` [mm] with J_max, L_r, J_el at peak
+    [kJ/m²] and ρ (as :func:`end_check`), in :data:`PRIORITY` order, each with its value and
+    its limit: ``{"criterion", "value", "limit", "quantity"}``."""
+    out = []
+    if mp[CHECK_COLLAPSE] > 0.5 and lr >= mp[LR_MAX]:
+        out.append(_row("collapse", "L_r", lr, mp[LR_MAX]))
+    if a >= mp[A_TEAR]:
+        out.append(_row("tearing", "a_mm", a, mp[A_TEAR]))
+    if mp[CHECK_TOUGH] > 0.5 and jmax >= mp[J_C]:
+        out.append(_row("toughness", "J_max_kJm2", jmax, mp[J_C]))
+    if mp[CHECK_FAD] > 0.5:
+        kr = math.sqrt(j_el_max / mp[J_C]) + rho
+        if int(mp[FAD_CURVE]) == FAD_OPTION_2:
+            f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+        else:
+            f = fad_option1_scalar(lr, mp[LR_MAX])
+        if kr >= f:
+            out.append(_row("fad", "K_r", kr, f))
+    if a >= mp[A_LIMIT]:
+        out.append(_row("size-limit", "a_mm", a, mp[A_LIMIT]))
+    return out
+
+
+def _row(name, quantity, value, limit):
+    return {
+        "criterion": name,
+        "quantity": quantity,
+        "value": float(value),
+        "limit": float(limit),
+    }

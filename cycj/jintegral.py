@@ -16,7 +16,9 @@ References
    Eng. Fract. Mech. 19 (1984) 633–642: J/J_e = Eε_ref/σ_ref + ½L_r²σ_ref/(Eε_ref).
 .. [2] Dowling, N. E., Begley, J. A., ASTM STP 590 (1976) 82–103: ΔJ as a cyclic J-integral.
 .. [3] Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p), small cracks.
-.. [4] R6 Rev. 4 (EDF Energy) and BS 7910:2013+A1:2015, Option 1 and Option 2 FAD curves.
+.. [4] R6 Rev. 4 (EDF Energy) and BS 7910:2013+A1:2015, Option 1 and Option 2 FAD curves; the
+   Option 1 curve as coded, (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), is the form of R6 Rev. 3
+   (1986) and of the BS 7910:1999 level 2A curve (from memory).
 .. [5] Shih, C. F., J. Mech. Phys. Solids 29 (1981) 305–326: δ_t = d_n·J/σ_0.
 """
 
@@ -57,29 +59,52 @@ REFERENCE_STRESS = register(
         _MASING,
     ),
 ).code
+_DOWLING_1977 = (
+    "Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p) for a small "
+    "semicircular surface crack (Y ≈ 0.714); here scaled to the crack's own K, "
+    "ΔJ = U²ΔK²/E' + f_pl·(5.0/1.6)(K/S)²ΔσΔε_p/(1+n')"
+)
 SMALL_CRACK = register(
     "j_method",
     "small-crack",
     2,
-    slots=("E_MOD", "K_CYC", "N_CYC"),
-    validity="small semicircular surface crack in a smooth section (a ≪ section size)",
-    citation=(
-        _RICE,
-        "Dowling, N. E., ASTM STP 637 (1977) 97–121: ΔJ = a(3.2ΔW_e + 5.0ΔW_p) for small cracks",
-        _MASING,
+    slots=("E_PRIME", "K_CYC", "N_CYC"),
+    validity=(
+        "small crack in a smooth section (a ≪ section size), nominal loop on the Masing branch; "
+        "the shape's own K sets the elastic part and scales the plastic part"
     ),
+    citation=(_RICE, _DOWLING_1977, _MASING),
 ).code
 NOTCH = register(
     "j_method",
     "notch",
     3,
-    slots=("NOTCH_KT", "NOTCH_DEPTH", "NOTCH_OWN_LONG", "E_MOD", "K_CYC", "N_CYC"),
-    validity="crack growing from a notch root; notch keys required",
+    slots=(
+        "NOTCH_KT",
+        "NOTCH_DEPTH",
+        "NOTCH_OWN_LONG",
+        "E_MOD",
+        "E_PRIME",
+        "SIGMA_Y",
+        "K_CYC",
+        "N_CYC",
+    ),
+    validity=(
+        "crack growing from a notch root; notch keys required.  Short crack: the shape's own K "
+        "at a with the Neuber notch-root range (→ K_t·ΔS elastic); long crack: the shape's own "
+        "K and limit load at a + D by the reference stress method; the smaller of the two, "
+        "never below the same crack without the notch"
+    ),
     citation=(
         _RICE,
         "Neuber, H., J. Appl. Mech. 28 (1961) 544; Topper, Wetzel & Morrow, J. "
         "Materials 4 (1969) 200: notch-root loop on the Masing branch",
-        "Dowling, N. E., ASTM STP 677 (1979) 247–273: crack at a notch (from memory)",
+        "Dowling, N. E., ASTM STP 677 (1979) 247–273: crack at a notch, the smaller of the "
+        "short-crack estimate (≈ 1.12·K_t·ΔS√(πa) for an edge crack) and the long crack of "
+        "length a + D (from memory)",
+        "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: reference stress J estimate "
+        "(long crack)",
+        _DOWLING_1977,
         _MASING,
     ),
 ).code
@@ -99,8 +124,21 @@ FINITE_ELEMENT = register(
     ),
 ).code
 _FAD_SOURCE = "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max"
+#: the Option 1 curve as coded, (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), is the form of R6
+#: Rev. 3 and the BS 7910:1999 level 2A curve (from memory); later editions keep it for
+#: Option 1
+FAD_OPTION_1_SOURCE = (
+    "R6 Rev. 3 (Milne, Ainsworth, Dowling & Stewart, Int. J. Pres. Ves. & Piping 32 (1988) "
+    "3–104) and BS 7910:1999 level 2A: f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), "
+    "the same form as Option 1 of R6 Rev. 4 / BS 7910:2013 (from memory)"
+)
 FAD_OPTION_1 = register(
-    "fad", "option-1", 1, slots=("LR_MAX",), validity="0 ≤ L_r ≤ L_r,max", citation=(_FAD_SOURCE,)
+    "fad",
+    "option-1",
+    1,
+    slots=("LR_MAX",),
+    validity="0 ≤ L_r ≤ L_r,max",
+    citation=(FAD_OPTION_1_SOURCE, _FAD_SOURCE),
 ).code
 FAD_OPTION_2 = register(
     "fad",
@@ -170,6 +208,30 @@ def small_crack_delta_j_scalar(a, dsig, e_mod, k_prime, n_prime, u):
     return a * (3.2 * u * u * dwe + 5.0 * plastic_fraction_scalar(u, n_prime) * dwp)
 
 
+#: Dowling's (1977) plastic-to-elastic coefficient ratio per unit (K/S)²: 5.0/1.6
+DOWLING_PLASTIC_RATIO = 5.0 / 1.6
+
+
+@jit
+def shape_small_crack_delta_j_scalar(dk, dsig, e_prime, k_prime, n_prime, u):
+    """Small-crack ΔJ with the crack's own K [kJ/m²]: Dowling's (1977) form with its elastic
+    term replaced by ΔK²/E' and its plastic term scaled by the same (K/S)² factor,
+
+    ΔJ = U²·ΔK²/E' + f_pl·(5.0/1.6)·(ΔK/Δσ)²·ΔσΔε_p/(1+n'),
+
+    ΔK [MPa√mm] of the stress range ``dsig`` [MPa] acting on the crack, Δε_p from the Masing
+    branch.  With (K/S)² = 1.6a (Y ≈ 0.714, semicircular surface crack) and E' = E it is
+    a(3.2ΔW_e + 5.0ΔW_p)."""
+    if dsig <= 0.0:
+        return u * u * dk * dk / e_prime
+    kos2 = (dk / dsig) ** 2
+    dwp = dsig * masing_plastic_strain_range(dsig, k_prime, n_prime) / (1.0 + n_prime)
+    return (
+        u * u * dk * dk / e_prime
+        + plastic_fraction_scalar(u, n_prime) * DOWLING_PLASTIC_RATIO * kos2 * dwp
+    )
+
+
 @jit
 def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
     """J at peak load by the reference stress method (Ainsworth 1984) [kJ/m²].
@@ -185,7 +247,8 @@ def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
 
 @jit
 def fad_option1_scalar(lr, lr_max):
-    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max."""
+    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max
+    (the R6 Rev. 3 / BS 7910:1999 level 2A form, from memory)."""
     if lr > lr_max:
         return 0.0
     return (1.0 - 0.14 * lr * lr) * (0.3 + 0.7 * math.exp(-0.65 * lr**6))
@@ -206,6 +269,7 @@ def fad_option2_scalar(lr, lr_max, sigma_y, e_mod, k, n):
 _plastic_fraction = ufunc(plastic_fraction_scalar)
 _ref_stress_dj = ufunc(reference_stress_delta_j_scalar)
 _small_crack_dj = ufunc(small_crack_delta_j_scalar)
+_shape_small_dj = ufunc(shape_small_crack_delta_j_scalar)
 _j_peak = ufunc(j_peak_scalar)
 _fad1 = ufunc(fad_option1_scalar)
 _fad2 = ufunc(fad_option2_scalar)
@@ -332,24 +396,99 @@ def lr_cyclic(delta_sigma_ref, cyclic_curve):
     return _nonneg("Δσ_ref", delta_sigma_ref) / (2 * cyclic_curve.proof_stress)
 
 
+def shape_small_crack_delta_j(delta_k, delta_sigma, material, e_prime, u=1.0):
+    """Small-crack ΔJ with the crack's own K [kJ/m²] (Dowling's 1977 form generalised).
+
+    ΔJ = U²·ΔK²/E' + f_pl·(5.0/1.6)·(ΔK/Δσ)²·ΔσΔε_p/(1+n').
+
+    Parameters
+    ----------
+    delta_k : array_like [MPa√mm], ΔK of the crack for the range ``delta_sigma``
+    delta_sigma : array_like [MPa], stress range of the loop the crack sits in, ≥ 0
+    material : Material with a cyclic curve
+    e_prime : float [MPa], E' of the crack's constraint
+    u : effective range ratio in [0, 1]
+
+    Notes
+    -----
+    With ΔK = Δσ√(1.6a) and E' = E it is :func:`small_crack_delta_j`.  Valid for a crack small
+    against the section (nominal loop, no net-section plasticity).
+
+    References
+    ----------
+    .. [1] Dowling, N. E., ASTM STP 637 (1977) 97–121.
+    """
+    c = _curve(material)
+    if not e_prime > 0:
+        raise ValidityRangeError("E' must be > 0 MPa")
+    return _shape_small_dj(
+        _nonneg("ΔK", delta_k),
+        _nonneg("Δσ", delta_sigma),
+        float(e_prime),
+        c.strength_coefficient,
+        c.hardening_exponent,
+        _closure_u(u),
+    )
+
+
 def delta_j(geometry, material, a, delta_s, u=1.0, method="reference-stress"):
     """Effective ΔJ [kJ/m²] for crack sizes ``a`` [mm] and nominal stress ranges ``delta_s``
-    [MPa] on ``geometry``; ``method`` is ``"reference-stress"``, ``"small-crack"`` or
+    [MPa] on ``geometry``; ``method`` is ``"reference-stress"``, ``"small-crack"`` (with the
+    shape's own K), ``"notch"`` (needs ``geometry.notch``; ``a`` from the notch root) or
     ``"elastic"`` (U²·ΔK²/E')."""
     a = np.asarray(a, float)
     ds = _nonneg("ΔS", delta_s)
     u = _closure_u(u)
+    e_prime = material.effective_modulus(geometry.plane_strain)
+    dk = ds * geometry.k_over_s(a)
     if method == "small-crack":
-        return small_crack_delta_j(a, ds, material, u)
-    dj_el = delta_j_elastic(
-        ds * geometry.k_over_s(a), material.effective_modulus(geometry.plane_strain)
-    )
+        return shape_small_crack_delta_j(dk, ds, material, e_prime, u)
+    if method == "notch":
+        return _notch_delta_j(geometry, material, a, ds, u, e_prime)
+    dj_el = delta_j_elastic(dk, e_prime)
     if method == "elastic":
         return u * u * dj_el
     if method == "reference-stress":
         dsig_ref = ds * material.yield_strength / geometry.limit_stress(a, material.yield_strength)
         return reference_stress_delta_j(dj_el, dsig_ref, material, u)
     raise ValueError(f"unknown j_method {method!r}; expected one of {', '.join(J_METHODS)}")
+
+
+def _notch_delta_j(geometry, material, a, ds, u, e_prime):
+    """ΔJ of j_method "notch" on a shape (compiled kernel of :mod:`cycj.fields.notch`)."""
+    from cycj.fields.notch import notch_delta_j_scalar
+
+    notch = geometry.notch
+    if notch is None:
+        raise ValidityRangeError("j_method 'notch' needs the geometry's notch (kt, depth)")
+    c = _curve(material)
+    own = geometry.shape.name == "crack-at-hole"
+    d = 0.0 if own else float(notch["depth"])
+    sy = material.yield_strength
+    a, ds, u = np.broadcast_arrays(a, ds, u)
+    out = np.empty(a.shape, float)
+    for i in np.ndindex(a.shape):
+        ai = float(a[i])
+        kos = float(geometry.k_over_s(ai))
+        kos2 = float(geometry.k_over_s(ai + d)) if d > 0 else kos
+        sl = float(geometry.limit_stress(ai, sy))
+        sl2 = float(geometry.limit_stress(ai + d, sy)) if d > 0 else sl
+        out[i] = notch_delta_j_scalar(
+            float(ds[i]) * kos,
+            float(ds[i]),
+            kos2 / kos,
+            sl / sl2,
+            float(ds[i]) / sl,
+            float(notch["kt"]),
+            1.0 if own else 0.0,
+            material.elastic_modulus,
+            e_prime,
+            sy,
+            c.strength_coefficient,
+            c.hardening_exponent,
+            float(u[i]),
+        )[0]
+    return out if out.ndim else float(out)
 
 
 def j_max(geometry, material, a, s_max):
@@ -374,7 +513,13 @@ def j_max(geometry, material, a, s_max):
 
 
 def fad_option1(lr, lr_max=np.inf):
-    """R6 / BS 7910 Option 1 curve f(L_r) (0 beyond ``lr_max``)."""
+    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)) (0 beyond ``lr_max``).
+
+    References
+    ----------
+    .. [1] R6 Rev. 3 and BS 7910:1999 level 2A (the form coded; from memory), kept as Option 1
+       in R6 Rev. 4 and BS 7910:2013+A1:2015.
+    """
     return _fad1(_nonneg("L_r", lr), float(lr_max))
 
 

@@ -155,6 +155,46 @@ class Material:
         return self.monotonic_curve or self.cyclic_curve
 
 
+#: relative difference between the monotonic curve's 0.2 % proof stress and σ_y that is
+#: reported as a contradiction (common practice: a tensile test's scatter is a few per cent)
+PROOF_STRESS_TOLERANCE = 0.10
+
+
+def curve_consistency_warnings(material: Material) -> list[str]:
+    """Warnings for material data that contradict each other.
+
+    The monotonic curve σ = K·ε_p^n has the 0.2 % proof stress K·0.002^n [MPa]; J at peak load
+    (σ_ref = L_r·σ_y on that curve), the Option 2 FAD and L_r all assume it is σ_y.  A
+    difference of more than 10 % is reported with both values.
+
+    Parameters
+    ----------
+    material : Material
+
+    Returns
+    -------
+    list of str (empty when consistent or when no monotonic curve is given)
+
+    References
+    ----------
+    .. [1] Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642 (σ_ref = L_r·σ_y on the
+       material's curve, with σ_y the 0.2 % proof stress).
+    """
+    curve = material.monotonic_curve
+    if curve is None:
+        return []
+    proof = curve.proof_stress
+    sy = material.yield_strength
+    diff = proof / sy - 1.0
+    if abs(diff) <= PROOF_STRESS_TOLERANCE:
+        return []
+    return [
+        f"monotonic_curve contradicts yield_strength: its 0.2 % proof stress "
+        f"K·0.002^n = {proof:.4g} MPa differs from σ_y = {sy:.4g} MPa by {100 * diff:+.0f} % "
+        f"(more than {100 * PROOF_STRESS_TOLERANCE:.0f} %); J_max, L_r and the FAD use both"
+    ]
+
+
 def fit_cyclic_curve(stress_amplitude, strain_amplitude, elastic_modulus: float):
     """Fit K', n' of σ_a = K'·(ε_pa)^n' to stable-loop tips by log–log least squares.
 

@@ -64,6 +64,8 @@ def geometries(as_json):
             "crack": s.crack,
             "validity": s.validity,
             "references": list(s.references),
+            "k_basis": s.k_basis,
+            "limit_load_basis": s.limit_basis,
         }
         for s in SHAPES.values()
     ]
@@ -75,5 +77,7 @@ def geometries(as_json):
         click.echo(f"  dimensions: {', '.join(r['dimensions'])}")
         click.echo(f"  loading: {' or '.join(r['loading'])};  {r['nominal_stress']}")
         click.echo(f"  crack: {r['crack']};  valid for {r['validity']}")
+        click.echo(f"  K basis: {r['k_basis']}")
+        click.echo(f"  limit load basis: {r['limit_load_basis']}")
         for ref in r["references"]:
             click.echo(f"  source: {ref}")

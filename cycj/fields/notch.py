@@ -5,12 +5,14 @@ Units: stresses and moduli in MPa, lengths in mm, K in MPa√mm, ΔJ in kJ/m².
 
 * Neuber's rule for the stable loop at the notch root: Δσ·Δε = (K_t·ΔS)²/E with Δε on the
   Masing branch Δε = Δσ/E + 2(Δσ/2K')^(1/n') (compiled scalar root finder; vectorised twin).
-* ΔJ of a short crack of depth a at the notch root: Dowling's small-crack form
-  a(3.2ΔW_e + 5.0ΔW_p) with the local Δσ (``cycj.jintegral``).
+* ΔJ of a short crack of depth a at the notch root: the crack's own K factor with the local
+  Neuber range, ΔK_root = (K/S)(a)·Δσ_N (→ 1.12·K_t·ΔS√(πa) for an edge crack), elastic part
+  ΔK_root²/E' plus the plastic part of the notch-root loop scaled as in Dowling's small-crack
+  form (which is recovered for a small semicircular surface crack, (K/S)² = 1.6a).
 * Transition to the long crack (Dowling 1979): the crack sees the smaller of the notch-root
   estimate and the long-crack estimate in which the notch depth D adds to the crack length,
-  ΔJ = min[ΔJ_root(a), ΔJ_long(a + D)].  The Smith–Miller extent of the notch field,
-  0.13√(Dρ), is given for information.
+  ΔJ = min[ΔJ_root(a), ΔJ_long(a + D)], the long crack with the shape's own K and limit load.
+  The Smith–Miller extent of the notch field, 0.13√(Dρ), is given for information.
 * Through cracks at a circular hole of radius R in a wide plate under remote tension S:
   K = S√(πa)·F(s), s = a/(a + R); two symmetric cracks F2 = ½(3 − s)[1 + 1.243(1 − s)³]
   (Tada's fit of Bowie's solution); one crack F1 = F2·√((2 − s)/2).
@@ -38,7 +40,11 @@ import numpy as np
 
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
-from cycj.jintegral import small_crack_delta_j, small_crack_delta_j_scalar
+from cycj.jintegral import (
+    reference_stress_delta_j,
+    reference_stress_delta_j_scalar,
+    shape_small_crack_delta_j_scalar,
+)
 from cycj.material import masing_plastic_strain_range
 
 __all__ = [
@@ -87,13 +93,45 @@ def neuber_masing_stress_range_scalar(kt, ds, e_mod, k_prime, n_prime):
 
 
 @jit
-def notch_delta_j_scalar(a, ds, kt, notch_depth, e_mod, k_prime, n_prime, u):
-    """Dowling's (1979) ΔJ [kJ/m²] of a crack of depth ``a`` at a notch of depth D:
-    min[ΔJ_small(a, Δσ_Neuber), ΔJ_small(a + D, ΔS)]."""
+def notch_delta_j_scalar(
+    dk, ds, g_long, l_long, lr_range, kt, own, e_mod, e_prime, sigma_y, k_prime, n_prime, u
+):
+    """ΔJ_eff [kJ/m²] of a crack at a notch root (Dowling 1979) from the shape's own K, and the
+    factor r on the shape's K that the chosen estimate used (J_max takes the same K).
+
+    ``dk`` [MPa√mm] is the shape's ΔK at the crack size a, ``ds`` [MPa] the nominal range,
+    ``g_long`` = (K/S)(a + D)/(K/S)(a) and ``l_long`` = S_L(a)/S_L(a + D) (1 when the shape
+    holds the notch, ``own`` = 1), ``lr_range`` = ΔS/S_L(a).
+
+    * short crack: ΔK_root = ΔK·Δσ_N/ΔS (the shape's factor times the Neuber notch-root range,
+      K_t·ΔS when elastic; ÷ K_t when the shape's K already holds the notch), elastic part
+      ΔK_root²/E' plus the plastic part of the notch-root loop
+      (:func:`cycj.jintegral.shape_small_crack_delta_j_scalar`);
+    * long crack: the shape's own K and limit load at a + D by the reference stress method;
+    * ΔJ = min(short, long), and never below the same crack without the notch (own = 0).
+    """
+    if dk <= 0.0 or ds <= 0.0:
+        return 0.0, 1.0
     dsig = neuber_masing_stress_range_scalar(kt, ds, e_mod, k_prime, n_prime)
-    root = small_crack_delta_j_scalar(a, dsig, e_mod, k_prime, n_prime, u)
-    far = small_crack_delta_j_scalar(a + notch_depth, ds, e_mod, k_prime, n_prime, u)
-    return min(root, far)
+    scale = dsig / ds
+    if own > 0.5:
+        scale = scale / kt
+    dk_root = dk * scale
+    root = shape_small_crack_delta_j_scalar(dk_root, dsig, e_prime, k_prime, n_prime, u)
+    dk_long = dk * g_long
+    far = reference_stress_delta_j_scalar(
+        dk_long * dk_long / e_prime, lr_range * l_long * sigma_y, e_mod, k_prime, n_prime, u
+    )
+    dj, r = root, scale
+    if far < root:
+        dj, r = far, g_long
+    if own < 0.5:
+        plain = reference_stress_delta_j_scalar(
+            dk * dk / e_prime, lr_range * sigma_y, e_mod, k_prime, n_prime, u
+        )
+        if plain > dj:
+            dj, r = plain, 1.0
+    return dj, r
 
 
 @jit
@@ -107,7 +145,7 @@ def crack_at_hole_factor_scalar(a, radius, n_cracks):
 
 
 _neuber = ufunc(neuber_masing_stress_range_scalar)
-_notch_dj = ufunc(notch_delta_j_scalar)
+_shape_small = ufunc(shape_small_crack_delta_j_scalar)
 _hole = ufunc(crack_at_hole_factor_scalar)
 
 
@@ -170,11 +208,17 @@ def neuber_masing(kt, delta_s, material):
     return dsig, c.masing_strain_range(dsig, e_mod)
 
 
-def notch_root_delta_j(a, delta_s, kt, material, u=1.0):
+def _semicircle(a):
+    """K/S of a small semicircular surface crack in Dowling's (1977) form, √(1.6a) [√mm]."""
+    return np.sqrt(1.6 * np.asarray(a, float))
+
+
+def notch_root_delta_j(a, delta_s, kt, material, u=1.0, k_over_s=None, e_prime=None):
     """ΔJ [kJ/m²] of a short crack of depth ``a`` inside the notch-root field.
 
-    Dowling's small-crack form a(3.2ΔW_e + 5.0ΔW_p) with the local Δσ from
-    :func:`neuber_masing` (the plastic strain range follows from the same Masing branch).
+    ΔJ = U²·ΔK_root²/E' + f_pl·(5.0/1.6)·(K/S)²·Δσ_NΔε_p/(1+n'), ΔK_root = (K/S)(a)·Δσ_N, with
+    the local range Δσ_N of :func:`neuber_masing` (K_t·ΔS when elastic) and Δε_p on the same
+    Masing branch.
 
     Parameters
     ----------
@@ -183,18 +227,38 @@ def notch_root_delta_j(a, delta_s, kt, material, u=1.0):
     delta_s, kt, material
         As in :func:`neuber_masing`.
     u : array_like
-        Effective range ratio in [0, 1] (closure), passed to ``small_crack_delta_j``.
+        Effective range ratio in [0, 1] (closure).
+    k_over_s : callable, optional
+        K/S [√mm] of the crack in the body without the notch, as a function of ``a``: the
+        crack's own factor (1.1215√(πa) for a shallow edge or through crack).  Default: a small
+        semicircular surface crack in Dowling's (1977) form, √(1.6a) (Y ≈ 0.714) — only for
+        that crack shape.
+    e_prime : float, optional
+        E' [MPa] of the elastic part; default E (as Dowling's form).
+
+    Notes
+    -----
+    With the default factor this is Dowling's a(3.2ΔW_e + 5.0ΔW_p) with the local Δσ.
+    Valid while the crack is inside the notch field (about 0.13√(Dρ), Smith & Miller 1977).
 
     References
     ----------
-    .. [1] Dowling, N. E., ASTM STP 637 (1977) 97–121.
-    .. [2] Topper, Wetzel & Morrow, J. Materials 4 (1969) 200.
+    .. [1] Dowling, N. E., ASTM STP 637 (1977) 97–121 (small semicircular surface crack).
+    .. [2] Dowling, N. E., ASTM STP 677 (1979) 247–273 (edge crack at a notch, 1.12·K_t;
+       from memory).
+    .. [3] Topper, Wetzel & Morrow, J. Materials 4 (1969) 200.
     """
+    c = _cyclic(material)
+    a = _finite("a", a, strict=True)
     dsig, _ = neuber_masing(kt, delta_s, material)
-    return small_crack_delta_j(_finite("a", a, strict=True), dsig, material, _u(u))
+    kos = _semicircle(a) if k_over_s is None else np.asarray(k_over_s(a), float)
+    ep = material.elastic_modulus if e_prime is None else float(e_prime)
+    return _shape_small(kos * dsig, dsig, ep, c.strength_coefficient, c.hardening_exponent, _u(u))
 
 
-def notch_delta_j(a, delta_s, kt, material, notch_depth, u=1.0, long_crack=None):
+def notch_delta_j(
+    a, delta_s, kt, material, notch_depth, u=1.0, long_crack=None, k_over_s=None, e_prime=None
+):
     """ΔJ [kJ/m²] of a crack growing from a notch root, with the transition to the long crack.
 
     ΔJ = min[ΔJ_root(a), ΔJ_long(a + D)] (Dowling 1979): the notch-root estimate for short
@@ -216,32 +280,38 @@ def notch_delta_j(a, delta_s, kt, material, notch_depth, u=1.0, long_crack=None)
     u : array_like
         Effective range ratio in [0, 1].
     long_crack : callable, optional
-        ΔJ_long(a_eff) [kJ/m²] for the effective length a_eff = a + D [mm].  Default: Dowling's
-        small-crack form with the nominal ΔS, a_eff·(3.2ΔW_e + 5.0ΔW_p) — the same crack shape
-        as the notch-root term, so the two meet without a jump in shape factor.
+        ΔJ_long(a_eff) [kJ/m²] for the effective length a_eff = a + D [mm].  Default: the
+        reference stress estimate in a wide body (Δσ_ref = ΔS) with the same K factor as the
+        short crack, ``k_over_s(a + D)``.
+    k_over_s, e_prime
+        As in :func:`notch_root_delta_j`.  For a shape of :mod:`cycj.geometry` use
+        ``cycj.jintegral.delta_j(..., method="notch")``, which takes the shape's K and limit
+        load at a + D.
 
     Notes
     -----
     Limits: a → 0 gives the notch-root value; a ≫ D gives the plain long-crack value
-    ΔJ_long(a).  The default path is the compiled ``notch_delta_j_scalar``.
+    ΔJ_long(a).
 
     References
     ----------
     .. [1] Dowling, N. E., ASTM STP 677 (1979) 247–273 (from memory).
-    .. [2] Dowling, N. E., ASTM STP 637 (1977) 97–121.
+    .. [2] Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642 (reference stress).
     """
-    c = _cyclic(material)
     a = _finite("a", a, strict=True)
     ds = _finite("ΔS", delta_s)
     kt = _finite("K_t", kt, 1.0)
     d = float(_finite("notch depth", notch_depth))
     u = _u(u)
+    root = notch_root_delta_j(a, ds, kt, material, u, k_over_s, e_prime)
     if long_crack is None:
-        return _notch_dj(
-            a, ds, kt, d, material.elastic_modulus, c.strength_coefficient, c.hardening_exponent, u
-        )
-    root = notch_root_delta_j(a, ds, kt, material, u)
-    return np.minimum(root, np.asarray(long_crack(a + d), float))
+        kos_fn = _semicircle if k_over_s is None else k_over_s
+        ep = material.elastic_modulus if e_prime is None else float(e_prime)
+        kos_far = np.asarray(kos_fn(a + d), float)
+        far = reference_stress_delta_j((ds * kos_far) ** 2 / ep, ds, material, u)
+    else:
+        far = np.asarray(long_crack(a + d), float)
+    return np.minimum(root, far)
 
 
 def smith_miller_notch_field_depth(notch_depth, root_radius):

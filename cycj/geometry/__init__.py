@@ -48,13 +48,73 @@ class Shape:
     references: tuple[str, ...]
     optional: dict = field(default_factory=dict)
     two_d: bool = False
+    k_basis: str = ""
+    limit_basis: str = ""
 
 
 SHAPES: dict[str, Shape] = {}
 
+#: the published basis of each shape's K solution and limit load (docs/physics_bases.md)
+BASES = {
+    "center-crack-infinite-plate": (
+        "K = S√(πa), exact (Irwin; Tada, Paris & Irwin)",
+        "S_L = σ_y: the remote stress reaches yield (infinite body)",
+    ),
+    "edge-crack-semi-infinite": (
+        "K = 1.1215·S√(πa) (Tada, Paris & Irwin)",
+        "S_L = σ_y: the remote stress reaches yield (semi-infinite body)",
+    ),
+    "center-crack-plate": (
+        "Tada's secant form (Anderson, Fracture Mechanics, Table 2.4)",
+        "EPRI NP-1931 (Kumar, German & Shih 1981): P_0 = 2cBσ_0 plane stress, ×2/√3 plane "
+        "strain, c = W/2 − a (from memory)",
+    ),
+    "edge-crack-plate": (
+        "Tada's SE(T) form, pin loaded (Anderson, Fracture Mechanics, Table 2.4)",
+        "EPRI NP-1931 (Kumar, German & Shih 1981): P_0 = 1.455·η·c·B·σ_0 plane strain, "
+        "1.072·η·c·B·σ_0 plane stress, η = √(1 + (a/c)²) − a/c, c = W − a (from memory)",
+    ),
+    "compact-tension": (
+        "Srawley (1976), ASTM E399/E647",
+        "EPRI NP-1931 (Kumar, German & Shih 1981): P_0 = 1.455·η·b·B·σ_0 plane strain, "
+        "1.072·η·b·B·σ_0 plane stress, η = √((2a/b)² + 2(2a/b) + 2) − (2a/b + 1), b = W − a "
+        "(from memory)",
+    ),
+    "three-point-bend": (
+        "Srawley (1976), ASTM E399, span 4W",
+        "EPRI NP-1931 (Kumar, German & Shih 1981): P_0 = 0.728·B·b²σ_0/(S/2) plane strain, "
+        "0.536·B·b²σ_0/(S/2) plane stress, b = W − a (from memory)",
+    ),
+    "surface-crack-plate": (
+        "Newman & Raju (1981), deepest and surface points (from memory)",
+        "BS 7910:2013+A1:2015 Annex P reference stress of a surface flaw in a plate, "
+        "membrane and bending (from memory)",
+    ),
+    "axial-crack-cylinder": (
+        "Folias bulging factor: two-term form √(1 + 1.255λ² − 0.0135λ⁴) to λ² = 25, long-flaw "
+        "form 0.064λ² + 3.3 beyond (Kiefner & Vieth 1989, z = 2λ²; from memory)",
+        "flow-stress collapse of the bulging crack, σ_h = σ_flow/M (Kiefner et al. 1973, from "
+        "memory); S_L = σ_y/M with L_r,max = σ_flow/σ_y",
+    ),
+    "tabulated": (
+        "the user's table of F(a/W), monotone cubic interpolation (Fritsch & Carlson 1980)",
+        "the user's table: P_L = factor·σ_y·W·B",
+    ),
+    "crack-at-hole": (
+        "Bowie (1956), Tada's fit F2 = ½(3 − s)[1 + 1.243(1 − s)³], F1 = F2·√((2 − s)/2) "
+        "(from memory)",
+        "S_L = σ_y: the remote stress reaches yield (wide plate)",
+    ),
+}
+
 
 def _register(shape: Shape) -> None:
+    from dataclasses import replace
+
     from cycj.models import register
+
+    k_basis, limit_basis = BASES[shape.name]
+    shape = replace(shape, k_basis=k_basis, limit_basis=limit_basis)
 
     register(
         "geometry",
@@ -126,7 +186,8 @@ _register(
         "0 < a/W ≤ 0.9",
         (
             "Tada (1973), in Anderson, Fracture Mechanics 3rd ed. Table 2.4",
-            "Miller, IJPVP 32 (1988): tension-bending net-section limit load (from memory)",
+            "Kumar, German & Shih, EPRI NP-1931 (1981): limit load 1.455·η·c·σ_0 (plane "
+            "strain), 1.072·η·c·σ_0 (plane stress) (from memory)",
         ),
         {"net_thickness": "= thickness"},
     )
@@ -198,11 +259,13 @@ _register(
         ("pressure", "stress"),
         "S = hoop stress p·R_i/t (wall average)",
         "a = half crack length",
-        "λ = a/√(R_m·t) ≤ √50",
+        "λ = a/√(R_m·t) ≤ √50 (two-term bulging factor to λ² = 25, long-flaw form beyond)",
         (
             "Folias, Int. J. Fract. Mech. 1 (1965) 104",
             "Kiefner, Maxey, Eiber & Duffy, ASTM STP 536 (1973): bulging factor, flow-stress "
             "collapse (from memory)",
+            "Kiefner & Vieth, AGA/PRCI PR-3-805 (1989): two-term bulging factor for z = 2λ² ≤ 50, "
+            "long-flaw form 0.032z + 3.3 beyond (from memory)",
         ),
     )
 )

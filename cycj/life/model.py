@@ -20,12 +20,27 @@ from cycj.life.loads import BlockLoads
 
 def size_limit(case: Case) -> tuple[float, str]:
     """Largest crack size the run may reach [mm] and why (user limit or validity range)."""
-    hi = case.geometry.size_limits[1]
-    why = f"validity range of {case.geometry.shape.name} ({case.geometry.shape.validity})"
+    geo = case.geometry
+    hi = geo.size_limits[1]
+    why = f"validity range of {geo.shape.name} ({geo.shape.validity})"
+    if notch_adds_depth(case):  # the long crack a + D must stay inside the K solution's range
+        hi = hi - geo.notch["depth"]
+        why += f", less the notch depth {geo.notch['depth']:g} mm"
     lim = case.run.crack_length_limit
     if lim is not None and lim < hi:
         return lim, "crack_length_limit"
     return hi, why
+
+
+def notch_adds_depth(case: Case) -> bool:
+    """True when j_method "notch" adds the notch depth to the crack for the long-crack
+    estimate (a notch given on a shape whose K does not hold it)."""
+    geo = case.geometry
+    return (
+        case.analysis.j_method == "notch"
+        and geo.notch is not None
+        and geo.shape.name != "crack-at-hole"
+    )
 
 
 def choose_models(case: Case, mp: np.ndarray, cited: Citations) -> None:
@@ -76,8 +91,7 @@ def model_array(
     mp[M.C_LAW], mp[M.M_LAW], mp[M.DJ_TH] = law.C, law.m, law.threshold
     mp[M.Q_TOUGH] = law.toughness_exponent if mat.J_c else 0.0
     mp[M.U_CONST] = ld.closure.U
-    alpha = ld.closure.constraint_factor
-    mp[M.ALPHA_NEWMAN] = alpha if alpha is not None else (3.0 if geo.plane_strain else 1.0)
+    mp[M.ALPHA_NEWMAN] = case.newman_constraint_factor()[0]
     mp[M.INCLUDE_COMP] = 1.0 if ld.compressive_part == "include" else 0.0
     crit = case.run.criteria
     mp[M.CHECK_TOUGH] = 1.0 if "toughness" in crit else 0.0

@@ -17,11 +17,12 @@ from cycj.case import Case
 from cycj.citations import Citations
 from cycj.end_criteria import END_NAMES, RUNNING
 from cycj.errors import CycjInputError
+from cycj.life import end_state as ES
 from cycj.life import stepper as K
 from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
-from cycj.life.model import model_array, size_limit
+from cycj.life.model import model_array
 from cycj.life.validity import valid_range_warning
 
 END_CODES = {name: code for code, name in END_NAMES.items()}
@@ -208,7 +209,7 @@ def predict_life(
     if crit_reason not in ("size-limit", "leak"):  # those sizes are slots of their own
         mp[M.A_CRIT] = a_crit
         mp[M.CRIT_CODE] = END_CODES[crit_reason]
-    warnings = _input_warnings(case, loads, mp, a0, a_crit)
+    warnings = ES.input_warnings(case, loads, mp, a0, a_crit)
     used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001))
     max_cycles = float(case.run.max_cycles)
     rec_da = max((a_crit - a0) / history_rows, 1e-9)
@@ -226,14 +227,14 @@ def predict_life(
     end, val, step_rows, clipped = _stepper(case, loads, mp, state, max_cycles, rec_da, progress)
     a_end, cycles, blocks = state[M.ST_A], state[M.ST_CYCLES], state[M.ST_BLOCKS]
     if math.isnan(val):  # the last cycle reached the end size: the criterion's value there
-        val = _criterion_value(case, loads, mp, end, a_end)
+        val = ES.criterion_value(case, loads, mp, end, a_end)
     if clipped:
         warnings.append(
             f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
             "cycles (Elber −0.1 ≤ R ≤ 0.7; Newman R ≥ −1, S_max/σ_0 ≤ 0.8)"
         )
-    first = (0.0, 0.0, a0, *_peak_row(case, loads, mp, a0), geo.dims.get("half_length", 0.0))
-    last = (cycles, blocks, a_end, *_peak_row(case, loads, mp, a_end), state[M.ST_C])
+    first = (0.0, 0.0, a0, *ES.peak_row(case, loads, mp, a0), geo.dims.get("half_length", 0.0))
+    last = (cycles, blocks, a_end, *ES.peak_row(case, loads, mp, a_end), state[M.ST_C])
     hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)
     if not mp[M.TWO_D]:
         hist = hist.drop(columns="c_mm")
@@ -243,11 +244,16 @@ def predict_life(
     if outside:
         warnings.append(outside)
     reason = END_NAMES[end]
+    tripped = ES.tripped(case, loads, mp, reason, val, a_end)
+    a_crit_first = ES.tripped(case, loads, mp, None, 0.0, a0) if a_crit <= a0 else []
     summary = {
         "title": case.title,
         "cycles_to_end": float(cycles),
         "end_reason": reason,
-        "end_values": _end_values(case, loads, mp, reason, val, a_end, cycles),
+        "end_values": ES.end_values(case, loads, mp, reason, val, a_end, cycles),
+        "end_criteria_tripped": tripped,
+        "initially_critical": bool(a_crit <= a0),
+        "initial_criteria_tripped": a_crit_first,
         "a_initial_mm": a0,
         "a_end_mm": float(a_end),
         "critical_crack_length_mm": a_crit,
@@ -353,116 +359,6 @@ def _once(first, second, marker):
     """Warnings of both phases, those with ``marker`` only once."""
     seen = any(marker in w for w in first)
     return first + [w for w in second if not (seen and marker in w)]
-
-
-def _peak_row(case, loads, mp, a):
-    """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) of the block at crack size a, frozen."""
-    g, djeq, jmx, lrmx, djmax = K.block_growth(
-        loads.lmax, loads.lmin, a, case.geometry.code, case.geometry.params, loads.ct, mp
-    )
-    return djmax, djeq, jmx, lrmx, g / loads.n
-
-
-def _criterion_value(case, loads, mp, end, a):
-    """Value of end criterion ``end`` under the history's peak load at crack size ``a``:
-    J_max (toughness), L_r (collapse), K_r (FAD), else the crack size."""
-    geo = case.geometry
-    dj, jmax, lr, jel, _, rho = K.peak_state(
-        loads.lmax, loads.i_peak, a, geo.code, geo.params, loads.ct, mp
-    )
-    name = END_NAMES[end]
-    if name == "toughness":
-        return float(jmax)
-    if name == "collapse":
-        return float(lr)
-    if name == "fad":
-        return float(math.sqrt(jel / mp[M.J_C]) + rho)
-    return float(a)
-
-
-def _end_values(case, loads, mp, reason, val, a_end, cycles):
-    geo = case.geometry
-    dj, jmax, lr, jel, _, _ = K.peak_state(
-        loads.lmax, loads.i_peak, a_end, geo.code, geo.params, loads.ct, mp
-    )
-    out = {
-        "a_mm": float(a_end),
-        "cycles": float(cycles),
-        "Jmax_at_peak_kJm2": float(jmax),
-        "Lr_at_peak": float(lr),
-    }
-    if reason == "toughness":
-        out.update(
-            J_max_kJm2=float(val),
-            J_c_kJm2=float(mp[M.J_C]),
-            curve="monotonic" if case.material.monotonic_curve else "cyclic",
-        )
-    elif reason == "collapse":
-        out.update(L_r=float(val), L_r_max=float(mp[M.LR_MAX]))
-    elif reason == "fad":
-        out.update(K_r=float(val), L_r=float(lr), curve=case.analysis.fad)
-    elif reason == "tearing":
-        out.update(
-            a_tearing_mm=float(mp[M.A_TEAR]),
-            J_R_curve=dict(
-                C1=case.material.resistance_curve.C1, C2=case.material.resistance_curve.C2
-            ),
-        )
-    elif reason == "size-limit" and mp[M.TWO_D] and not math.isfinite(mp[M.A_LIMIT]):
-        c = float(val)  # a surface crack: its half-length or aspect ratio left the range
-        if c >= mp[M.C_LIMIT]:
-            out.update(c_mm=c, limit_mm=float(mp[M.C_LIMIT]), limit="half-length c ≤ W/4")
-        else:
-            out.update(c_mm=c, a_over_c=float(a_end) / c, limit=f"a/c ≤ {mp[M.ASPECT_MAX]:g}")
-    elif reason == "size-limit":
-        out.update(limit_mm=float(mp[M.A_LIMIT]), limit=size_limit(case)[1])
-    elif reason == "max-cycles":
-        out.update(max_cycles=float(case.run.max_cycles))
-    elif reason == "no-growth":
-        out.update(
-            dJ_eff_max_kJm2=float(_peak_row(case, loads, mp, a_end)[0]),
-            threshold_kJm2=float(mp[M.DJ_TH]),
-        )
-    return out
-
-
-def _input_warnings(case, loads, mp, a0, a_crit):
-    geo, mat = case.geometry, case.material
-    w = []
-    lo, hi = geo.size_limits
-    if hi < math.inf and a0 > lo + 0.95 * (hi - lo):
-        w.append(f"initial crack {a0:g} mm is near the upper end of the K solution's range")
-    dj, jmax, lr, jel, _, _ = K.peak_state(
-        loads.lmax, loads.i_peak, a0, geo.code, geo.params, loads.ct, mp
-    )
-    if lr > 0.8 * mat.lr_max:
-        w.append(
-            f"L_r = {lr:.3g} at the first peak: close to plastic collapse "
-            f"(L_r,max = {mat.lr_max:.3g})"
-        )
-    if a_crit <= a0:
-        w.append("the initial crack is already critical under the history's peak load")
-    if case.analysis.j_method == "reference-stress" and jel > 0:
-        if jmax > 3 * jel:
-            w.append(
-                "the plastic part of J at peak load is large (J_max > 3·J_el): check "
-                "the cyclic and monotonic curves"
-            )
-    if loads.channel_slots and case.fields.residual is not None:
-        from cycj.fields.channels import table_value
-
-        nch = int(mp[M.CH_N])
-        kres = table_value(loads.ct, nch, a0, geo.dims.get("half_length", 0.0), mp)
-        kp = np.sqrt(jel * mp[M.E_PRIME]) - kres
-        if abs(kres) > abs(kp):
-            w.append(
-                f"the residual stress dominates: K_res = {kres / 31.6228:.3g} MPa√m vs "
-                f"K_primary = {kp / 31.6228:.3g} MPa√m at the first peak (R and closure "
-                "are then set by the residual stress; check its magnitude and relaxation)"
-            )
-    if mat.monotonic_curve is None:
-        w.append("J_max at peak load uses the cyclic curve (no monotonic_curve given)")
-    return w
 
 
 def _step_references() -> list[str]:

@@ -31,7 +31,7 @@ from cycj.end_criteria import (
 )
 from cycj.fe.lookup import fe_ratio
 from cycj.fields.channels import channel_k
-from cycj.fields.notch import neuber_masing_stress_range_scalar, notch_delta_j_scalar
+from cycj.fields.notch import notch_delta_j_scalar
 from cycj.fields.residual import r6_rho_scalar
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
 from cycj.growth import opening_fraction, paris_rate_from_power
@@ -44,7 +44,7 @@ from cycj.jintegral import (
     j_peak_scalar,
     plastic_fraction_scalar,
     reference_stress_delta_j_scalar,
-    small_crack_delta_j_scalar,
+    shape_small_crack_delta_j_scalar,
 )
 from cycj.kernel_slots import (
     A_CRIT,
@@ -96,11 +96,15 @@ N_REC = 9
 
 
 @jit
-def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
+def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=1.0):
     """ΔJ_eff, J_max, L_r, J_el at peak [kJ/m²] and the clip flag for one cycle from the
     crack-front point's K_max, K_min [MPa√mm] (secondary stresses included), the primary
-    L_r at the peak and over the range, and the nominal stress range ``ds`` [MPa] (used only by
-    the small-crack estimate)."""
+    L_r at the peak and over the range, and the nominal stress range ``ds`` [MPa] (the loop of
+    the small-crack and notch estimates).
+
+    ``g_long`` = (K/S)(a + D)/(K/S)(a) and ``l_long`` = S_L(a)/S_L(a + D) carry the long crack
+    of a notch of depth D (:func:`notch_long_factors`; 1 otherwise).  With j_method "notch",
+    J_max, J_el and L_r use the K of the estimate that sets ΔJ and the notched section's L_r."""
     dk = kmax - kmin
     if kmax <= 0.0 or dk <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
@@ -116,39 +120,57 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp):
     u = 1.0 - x
     dj_el = dk * dk / mp[E_PRIME]
     jm = int(mp[J_METHOD])
+    k_used = kmax
+    lr = lr_max
     if jm == REFERENCE_STRESS:
         dj = reference_stress_delta_j_scalar(
             dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
         )
     elif jm == SMALL_CRACK:
-        dj = small_crack_delta_j_scalar(a, ds, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
+        dj = shape_small_crack_delta_j_scalar(dk, ds, mp[E_PRIME], mp[K_CYC], mp[N_CYC], u)
     elif jm == NOTCH:
-        if mp[NOTCH_OWN_LONG] > 0.5:  # the shape's K already holds the notch (crack at a hole)
-            dsig = neuber_masing_stress_range_scalar(
-                mp[NOTCH_KT], ds, mp[E_MOD], mp[K_CYC], mp[N_CYC]
-            )
-            root = small_crack_delta_j_scalar(a, dsig, mp[E_MOD], mp[K_CYC], mp[N_CYC], u)
-            far = reference_stress_delta_j_scalar(
-                dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
-            )
-            dj = min(root, far)
-        else:
-            dj = notch_delta_j_scalar(
-                a, ds, mp[NOTCH_KT], mp[NOTCH_DEPTH], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
-            )
+        dj, r = notch_delta_j_scalar(
+            dk,
+            ds,
+            g_long,
+            l_long,
+            lr_range,
+            mp[NOTCH_KT],
+            mp[NOTCH_OWN_LONG],
+            mp[E_MOD],
+            mp[E_PRIME],
+            mp[SIGMA_Y],
+            mp[K_CYC],
+            mp[N_CYC],
+            u,
+        )
+        k_used = kmax * r
+        lr = lr_max * l_long
     elif jm == FINITE_ELEMENT:  # the J table's ΔJ/ΔJ_el; closure as for the reference stress
         g = fe_ratio(mp, a, lr_range, 0)
         dj = dj_el * (u * u + plastic_fraction_scalar(u, mp[N_CYC]) * (g - 1.0))
     else:
         dj = u * u * dj_el
-    j_el_max = kmax * kmax / mp[E_PRIME]
+    j_el_max = k_used * k_used / mp[E_PRIME]
     if jm == ELASTIC:  # the LEFM comparison: J_max = K_max²/E'
         jmax = j_el_max
     elif jm == FINITE_ELEMENT:
         jmax = j_el_max * fe_ratio(mp, a, lr_max, 1)
     else:
-        jmax = j_peak_scalar(j_el_max, lr_max, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
-    return dj, jmax, lr_max, j_el_max, clipped
+        jmax = j_peak_scalar(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+    return dj, jmax, lr, j_el_max, clipped
+
+
+@jit
+def notch_long_factors(code, a, gp, mp):
+    """(K/S)(a + D)/(K/S)(a) and S_L(a)/S_L(a + D) of the long crack at a notch of depth D
+    (j_method "notch" on a shape that does not hold the notch itself); (1, 1) otherwise."""
+    if int(mp[J_METHOD]) != NOTCH or mp[NOTCH_OWN_LONG] > 0.5 or mp[NOTCH_DEPTH] <= 0.0:
+        return 1.0, 1.0
+    a2 = a + mp[NOTCH_DEPTH]
+    g = k_over_s(code, a2, gp) / k_over_s(code, a, gp)
+    sy = mp[SIGMA_Y]
+    return g, limit_stress(code, a, gp, sy) / limit_stress(code, a2, gp, sy)
 
 
 @jit
@@ -173,7 +195,8 @@ def cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp):
     """:func:`k_driving_force` of cycle ``i`` at crack size ``a`` [mm], and the plasticity
     interaction ρ of a secondary stress for the FAD."""
     kmax, kmin, lr_max, lr_range, ds, kres = cycle_k(lmax, lmin, i, a, gp[5], code, gp, ct, mp)
-    dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp)
+    gl, ll = notch_long_factors(code, a, gp, mp)
+    dj, jmax, lr, jel, clipped = k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll)
     return dj, jmax, lr, jel, clipped, r6_rho_scalar(kres, kmax - kres, lr)
 
 
@@ -196,7 +219,7 @@ def rate_from_power(dj, djm, jmax, mp):
 
 
 @jit
-def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
+def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st, gl=1.0, ll=1.0):
     """Apply the sequence model to one cycle; returns (rate factor, ΔJ_eff) and updates the
     overload state in ``st`` (a_OL, zone size, K_OL)."""
     if kmax <= 0.0:
@@ -218,7 +241,15 @@ def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st):
                 dk = kmax - kmin
                 scale = (kmax_e - kmin_e) / dk
                 dj = k_driving_force(
-                    kmax_e, kmin_e, lr_max * kmax_e / kmax, lr_range * scale, ds * scale, a, mp
+                    kmax_e,
+                    kmin_e,
+                    lr_max * kmax_e / kmax,
+                    lr_range * scale,
+                    ds * scale,
+                    a,
+                    mp,
+                    gl,
+                    ll,
                 )[0]
     if a + r >= st[ST_A_OL] + st[ST_Z_OL]:
         st[ST_A_OL] = a
@@ -297,8 +328,9 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     s0 = lmin[i, 0]
                     kmax, kmin, kres = s1 * kos, s0 * kos, 0.0
                     lr_max, lr_range, ds = s1 / sl, (s1 - s0) / sl, s1 - s0
+                gl, ll = notch_long_factors(code, a, gp, mp)
                 dj, jmax, lr, jel, clipped = k_driving_force(
-                    kmax, kmin, lr_max, lr_range, ds, a, mp
+                    kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll
                 )
                 n_clipped += clipped
                 if kmax > 0.0:
@@ -311,7 +343,7 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                 factor = 1.0
                 if sequence:
                     factor, dj = sequence_step(
-                        kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st
+                        kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st, gl, ll
                     )
                 djm = dj**m if dj > 0.0 else 0.0
                 da = rate_from_power(dj, djm, jmax, mp) * factor
@@ -321,7 +353,7 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     else:
                         kos_c = k_over_s_surface(code, a, gp)
                         k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
-                    dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp)[0]
+                    dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp, gl, ll)[0]
                     c += cycle_rate(dj_c, jmax, mp) * factor
                 if da > 0.0:
                     grew = True

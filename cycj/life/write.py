@@ -17,11 +17,21 @@ END_WORDS = {
 
 
 def answer_sentence(s: dict) -> str:
-    """One sentence: the end, after how many cycles (blocks, hours), at what crack size."""
-    parts = [
+    """One sentence: the end, after how many cycles (blocks, hours), at what crack size; led
+    by a warning when the initial crack is already critical under the history's peak load, and
+    naming every criterion tripped together (with its value and limit)."""
+    parts = []
+    if s.get("initially_critical"):
+        first = s.get("initial_criteria_tripped") or []
+        why = "; ".join(_tripped_words(r) for r in first)
+        parts.append(
+            f"The initial crack ({s['a_initial_mm']:.4g} mm) is already critical under the "
+            f"history's peak load" + (f" ({why})" if why else "") + ". "
+        )
+    parts.append(
         f"End by {END_WORDS.get(s['end_reason'], s['end_reason'])} after "
         f"{s['cycles_to_end']:.4g} cycles"
-    ]
+    )
     extra = []
     if s.get("cycles_per_block", 1) > 1:
         extra.append(f"{s['blocks_to_end']:.4g} blocks")
@@ -31,9 +41,31 @@ def answer_sentence(s: dict) -> str:
         parts.append(" (" + ", ".join(extra) + ")")
     parts.append(
         f" at a = {s['a_end_mm']:.4g} mm (from {s['a_initial_mm']:.4g} mm; critical "
-        f"size at peak load {s['critical_crack_length_mm']:.4g} mm)."
+        f"size at peak load {s['critical_crack_length_mm']:.4g} mm)"
     )
+    tripped = s.get("end_criteria_tripped") or []
+    others = [r for r in tripped if r["criterion"] != s["end_reason"]]
+    at_start = s.get("initially_critical") and s["cycles_to_end"] == 0
+    if len(tripped) > 1 and others and not at_start:
+        parts.append(
+            "; tripped in the same cycle: " + "; ".join(_tripped_words(r) for r in tripped)
+        )
+    parts.append(".")
     return "".join(parts)
+
+
+_QUANTITY_WORDS = {"L_r": "L_r", "a_mm": "a", "J_max_kJm2": "J_max", "K_r": "K_r"}
+_UNITS = {"a_mm": " mm", "J_max_kJm2": " kJ/m²"}
+
+
+def _tripped_words(r: dict) -> str:
+    """'collapse: L_r = 91.6 ≥ 1.25' for one row of ``end_criteria_tripped``."""
+    q = r.get("quantity", "value")
+    unit = _UNITS.get(q, "")
+    text = f"{r['criterion']}: {_QUANTITY_WORDS.get(q, q)} = {r['value']:.4g}{unit}"
+    if "limit" in r:
+        text += f" ≥ {r['limit']:.4g}{unit}"
+    return text
 
 
 def run_and_write(case, out: Path, *, method=None, force=False, plots=True, progress=None):

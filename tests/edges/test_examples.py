@@ -21,13 +21,20 @@ LIFE_EXAMPLES = [
 @pytest.mark.parametrize("name", LIFE_EXAMPLES)
 def test_example_block_agrees_with_cycle_stepper(name):
     case = load_case(EXAMPLES / name)
-    c = predict_life(case, method="cycle").summary
+    cres = predict_life(case, method="cycle")
+    c = cres.summary
     b = predict_life(case, method="block").summary
     assert c["end_reason"] == b["end_reason"]
     assert_references_match(case, c)
     assert_references_match(case, b)
     assert b["cycles_to_end"] == pytest.approx(c["cycles_to_end"], rel=5e-3)
-    assert b["a_end_mm"] == pytest.approx(c["a_end_mm"], rel=5e-3)
+    # the end is resolved to within the last block: where one block grows the crack by more
+    # than 0.5 % (a steep end near collapse, thick_section_startstop), a_end agrees to that
+    # block's growth; elsewhere to 0.5 %
+    h = cres.history
+    a_block_before = np.interp(c["cycles_to_end"] - c["cycles_per_block"], h["cycle"], h["a_mm"])
+    tol = max(5e-3 * c["a_end_mm"], c["a_end_mm"] - a_block_before)
+    assert abs(b["a_end_mm"] - c["a_end_mm"]) <= tol
 
 
 @pytest.mark.parametrize("seed", [1, 2, 3])

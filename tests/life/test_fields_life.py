@@ -1,6 +1,8 @@
 """Stress fields in the life engine: weight-function K of a profile, several load channels,
 residual stress (issue: real stress fields)."""
 
+import math
+
 import numpy as np
 import pytest
 
@@ -127,8 +129,11 @@ def _hole_case(jm):
 def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
     # Dowling (1979): a short crack at a notch sees the notch-root loop (Neuber 1961 on the
     # Masing branch) until the long-crack ΔJ is the smaller; far from the hole the notch
-    # estimate equals the plain long-crack (reference-stress) value
-    from cycj.fields.notch import notch_root_delta_j
+    # estimate equals the plain long-crack (reference-stress) value.  At the hole the shape's
+    # K holds K_t = 3, so the short crack's K is the shape's own K scaled by Δσ_N/(K_t·ΔS),
+    # its plastic part (5.0/1.6)·(K/S/K_t)²·Δσ_NΔε_p/(1+n') (Dowling 1977 scaled), by hand.
+    from scipy.optimize import brentq
+
     from cycj.life import block_loads, model_array
     from cycj.life import stepper as K
 
@@ -143,10 +148,95 @@ def test_notch_short_crack_uses_neuber_loop_and_tends_to_long_crack():
         ]
 
     assert dj(mp_n, 12.0) == pytest.approx(dj(mp_p, 12.0), rel=1e-12)
-    a = 0.02
-    root = float(notch_root_delta_j(a, 440.0, 3.0, notch.material))
-    assert dj(mp_n, a) == pytest.approx(min(root, dj(mp_p, a)), rel=1e-9)
+    a, e, kp, n, ds = 0.02, 200e3, 900.0, 0.15, 440.0
+    dsig = brentq(
+        lambda x: x * (x / e + 2 * (x / (2 * kp)) ** (1 / n)) - (3 * ds) ** 2 / e, 1.0, 3 * ds
+    )
+    dep = 2 * (dsig / (2 * kp)) ** (1 / n)
+    sh = a / (a + 5.0)  # two cracks (default), Tada's fit of Bowie's F2(s), ÷ K_t = 3
+    kos = math.sqrt(math.pi * a) * 0.5 * (3 - sh) * (1 + 1.243 * (1 - sh) ** 3) / 3
+    root = (kos * dsig) ** 2 / (e / 0.91) + 5.0 / 1.6 * kos**2 * dsig * dep / (1 + n)
+    assert dj(mp_n, a) == pytest.approx(min(root, dj(mp_p, a)), rel=1e-6)
     assert dj(mp_n, a) <= dj(mp_p, a)
+
+
+def _hole_near_elastic(jm):
+    from tests.helpers import make_case
+
+    return make_case(
+        geometry={"shape": "crack-at-hole", "hole_radius": "5 mm", "crack_length": "0.2 mm"},
+        loading={"constant": {"max": "120 MPa", "min": "0 MPa"}},
+        analysis={"j_method": jm},
+        run={"criteria": ["size-limit"], "crack_length_limit": "5 mm"},
+    )
+
+
+def test_notch_at_a_hole_near_elastic_matches_lefm_with_the_shapes_own_k():
+    # near-elastic (K_t·S_max = 360 MPa, σ'_y = 354 MPa, loop range 360 < 2σ'_y): the notch
+    # estimate must give the LEFM life of the shape's own K (Bowie/Tada) within 10 %
+    lefm = predict_life(_hole_near_elastic("elastic")).summary["cycles_to_end"]
+    notch = predict_life(_hole_near_elastic("notch")).summary["cycles_to_end"]
+    assert notch == pytest.approx(lefm, rel=0.10)
+
+
+def _edge(jm, notch=True):
+    from tests.helpers import make_case
+
+    geo = {"shape": "edge-crack-plate", "width": "100 mm", "thickness": "10 mm"}
+    geo["crack_length"] = "1 mm"
+    if notch:
+        geo["notch"] = {"kt": 2.2, "depth": "10 mm", "root_radius": "20 mm"}
+    return make_case(
+        geometry=geo,
+        loading={"constant": {"max": "120 MPa", "min": "0 MPa"}},
+        analysis={"j_method": jm},
+        run={"criteria": ["toughness", "size-limit"], "crack_length_limit": "30 mm"},
+    )
+
+
+def test_a_notch_never_lengthens_life():
+    # the same file with j_method reference-stress (the notch is then ignored) against notch:
+    # the notch adds K_t at the root and its depth to the long crack (Dowling 1979)
+    plain = predict_life(_edge("reference-stress")).summary["cycles_to_end"]
+    notch = predict_life(_edge("notch")).summary["cycles_to_end"]
+    assert notch < plain
+    # and the driving force at every crack size is at least the plain one
+    from cycj.jintegral import delta_j
+
+    case = _edge("notch")
+    a = np.geomspace(0.05, 30.0, 40)
+    m, g = case.material, case.geometry
+    assert np.all(delta_j(g, m, a, 120.0, method="notch") >= delta_j(g, m, a, 120.0) * (1 - 1e-12))
+
+
+def test_notch_j_max_uses_the_same_k_as_delta_j():
+    # short crack at the root: K_max = F·K_t·S_max√(πa)-like (shape's K × Δσ_N/ΔS), so
+    # J_el at peak = (K_max·Δσ_N/ΔS)²/E'; long crack: the shape's K at a + D (Tada's SE(T)
+    # factor evaluated here by hand)
+    from scipy.optimize import brentq
+
+    from cycj.life import block_loads, model_array
+    from cycj.life import stepper as K
+
+    case = _edge("notch")
+    loads = block_loads(case)
+    mp = model_array(case, loads=loads)
+    g = case.geometry
+    e, kp, n, ep = 200e3, 900.0, 0.15, 200e3 / 0.91
+
+    def tada(a, w=100.0):
+        x = math.pi * a / (2 * w)
+        al = a / w
+        f = math.sqrt(math.tan(x) / x) * (0.752 + 2.02 * al + 0.37 * (1 - math.sin(x)) ** 3)
+        return math.sqrt(math.pi * a) * f / math.cos(x)
+
+    out = K.cycle_driving_force(loads.lmax, loads.lmin, 0, 0.05, g.code, g.params, loads.ct, mp)
+    dsig = brentq(
+        lambda x: x * (x / e + 2 * (x / (2 * kp)) ** (1 / n)) - (2.2 * 120) ** 2 / e, 1.0, 264.0
+    )
+    assert out[3] == pytest.approx((120 * tada(0.05) * dsig / 120) ** 2 / ep, rel=1e-9)
+    out = K.cycle_driving_force(loads.lmax, loads.lmin, 0, 15.0, g.code, g.params, loads.ct, mp)
+    assert out[3] == pytest.approx((120 * tada(25.0)) ** 2 / ep, rel=1e-9)
 
 
 def _surface(geometry=None, **kw):

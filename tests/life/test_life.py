@@ -277,3 +277,91 @@ def test_growth_curve_from_another_start():
     assert np.all(np.diff(a) > 0)
     c_k = 1.648e-8 / math.sqrt(1000) ** 3
     assert n2[-1] == pytest.approx(paris_closed_form(c_k, 3.0, 100.0, 4.0, 10.0), rel=5e-3)
+
+
+def test_criteria_tripped_together_are_all_named_collapse_first():
+    # centre crack in an infinite plate: S_L = σ_y, so L_r = S_max/σ_y = 1000/350 = 2.857 by
+    # hand, above L_r,max = (350 + 500)/(2·350) = 1.214 (R6 / BS 7910); J_max ≫ J_c as well
+    from cycj.life.write import answer_sentence
+    from tests.helpers import make_case
+
+    case = make_case(
+        loading={"constant": {"max": "1000 MPa", "min": "0 MPa"}},
+        analysis={"j_method": "reference-stress"},
+        run={"criteria": ["toughness", "collapse", "size-limit"], "crack_length_limit": "10 mm"},
+    )
+    s = predict_life(case).summary
+    assert s["end_reason"] == "collapse"
+    names = [r["criterion"] for r in s["end_criteria_tripped"]]
+    assert names[:2] == ["collapse", "toughness"]
+    first = s["end_criteria_tripped"][0]
+    assert first["value"] == pytest.approx(1000 / 350, rel=1e-12)
+    assert first["limit"] == pytest.approx(850 / 700, rel=1e-12)
+    assert s["end_criteria_tripped"][1]["limit"] == pytest.approx(200.0)
+    assert s["initially_critical"] is True
+    text = answer_sentence(s)
+    assert text.startswith("The initial crack (1 mm) is already critical")
+    assert "collapse: L_r = 2.857 ≥ 1.214" in text and "toughness: J_max" in text
+
+
+def test_single_criterion_headline_unchanged():
+    from cycj.life.write import answer_sentence
+    from tests.helpers import make_case
+
+    s = predict_life(make_case()).summary
+    assert s["end_reason"] == "size-limit" and not s["initially_critical"]
+    assert [r["criterion"] for r in s["end_criteria_tripped"]] == ["size-limit"]
+    assert answer_sentence(s).startswith("End by the crack size limit")
+
+
+def test_newman_constraint_factor_is_stated_in_the_resolved_inputs():
+    # Newman (1984): α = 3 in plane strain, 1 in plane stress unless the case gives α
+    from tests.helpers import make_case
+
+    g = {"shape": "center-crack-plate", "width": "100 mm", "thickness": "10 mm"}
+    law = {"growth": {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}}
+    for constraint, alpha in (("plane-strain", 3.0), ("plane-stress", 1.0)):
+        case = make_case(
+            geometry={**g, "constraint": constraint},
+            loading={"closure": {"model": "newman"}},
+            material=law,
+        )
+        closure = case.resolved()["loading"]["closure"]
+        assert closure["constraint_factor_used"] == alpha
+        assert "default" in closure["constraint_factor_basis"]
+    case = make_case(
+        geometry=g,
+        loading={"closure": {"model": "newman", "constraint_factor": 2.0}},
+        material=law,
+    )
+    assert case.resolved()["loading"]["closure"]["constraint_factor_used"] == 2.0
+
+
+def test_stepper_j_max_uses_the_monotonic_curve():
+    # Ainsworth (1984) at peak load with the monotonic curve (proof stress = σ_y = 350 MPa),
+    # not the softer cyclic one (K' = 700): centre crack in an infinite plate, S_L = σ_y
+    import math
+
+    from cycj.life import block_loads, model_array
+    from cycj.life import stepper as K
+    from tests.helpers import make_case
+
+    mono_k = 350.0 / 0.002**0.1
+    case = make_case(
+        material={
+            "cyclic_curve": {"strength_coefficient": "700 MPa", "hardening_exponent": 0.15},
+            "monotonic_curve": {"strength_coefficient": f"{mono_k} MPa", "hardening_exponent": 0.1},
+        },
+        loading={"constant": {"max": "330 MPa", "min": "0 MPa"}},
+        analysis={"j_method": "reference-stress"},
+    )
+    loads = block_loads(case)
+    mp = model_array(case, loads=loads)
+    g = case.geometry
+    out = K.cycle_driving_force(loads.lmax, loads.lmin, 0, 2.0, g.code, g.params, loads.ct, mp)
+    j_el = (330.0 * math.sqrt(math.pi * 2.0)) ** 2 / (200e3 / 0.91)
+    e_ref = 330.0 / 200e3 + (330.0 / mono_k) ** 10
+    lr = 330.0 / 350.0
+    hand = j_el * (200e3 * e_ref / 330.0 + 0.5 * lr**2 * 330.0 / (200e3 * e_ref))
+    assert out[1] == pytest.approx(hand, rel=1e-9)
+    assert out[3] == pytest.approx(j_el, rel=1e-12)

@@ -77,3 +77,24 @@ def test_bad_field_input_one_line(tmp_path, capsys, name, old, new, msg):
     assert code == 2, err
     assert len(lines) == 1 and msg in lines[0]
     assert not (tmp_path / "o").exists()
+
+
+def test_notch_deeper_than_the_k_solution_allows_is_refused():
+    # the long crack of j_method "notch" is a + D; SE(T) holds to a/W = 0.9
+    from cycj.case import case_from_dict
+    from cycj.errors import CycjInputError
+    from tests.helpers import case_dict
+
+    d = case_dict(
+        geometry={
+            "shape": "edge-crack-plate",
+            "width": "50 mm",
+            "thickness": "10 mm",
+            "crack_length": "10 mm",
+            "notch": {"kt": 2.0, "depth": "40 mm"},
+        },
+        analysis={"j_method": "notch"},
+        run={"criteria": ["size-limit"], "crack_length_limit": "20 mm"},
+    )
+    with pytest.raises(CycjInputError, match="notch depth"):
+        case_from_dict(d)

@@ -155,3 +155,132 @@ def test_fit_cyclic_curve_recovers_parameters():
     curve, info = fit_cyclic_curve(sa, ea, e)
     assert curve.strength_coefficient == pytest.approx(k, rel=1e-8)
     assert curve.hardening_exponent == pytest.approx(n, rel=1e-8)
+
+
+def test_small_crack_uses_the_shapes_factor():
+    # Dowling (1977): ΔJ = a(3.2ΔW_e + 5.0ΔW_p) holds for a small semicircular surface crack
+    # ((K/S)² = 1.6a); on a straight-fronted edge crack the shape's own factor 1.1215√(πa)
+    # (Tada) replaces it: ΔJ = (FΔS)²πa/E' + (5.0/1.6)·F²πa·ΔSΔε_p/(1+n'), by hand
+    g = make_geometry("edge-crack-semi-infinite", 1.0)
+    m = mat(k=700.0)
+    a, ds = 1.0, 500.0
+    dep = 2 * (ds / 1400.0) ** (1 / 0.15)
+    f2pa = 1.1215**2 * math.pi * a
+    hand = f2pa * ds**2 / (200e3 / 0.91) + 5.0 / 1.6 * f2pa * ds * dep / 1.15
+    assert J.delta_j(g, m, a, ds, method="small-crack") == pytest.approx(hand, rel=1e-9)
+    # with (K/S)² = 1.6a and E' = E it is Dowling's own form
+    dk = ds * math.sqrt(1.6 * a)
+    assert J.shape_small_crack_delta_j(dk, ds, m, 200e3) == pytest.approx(
+        a * (3.2 * ds**2 / 400e3 + 5.0 * ds * dep / 1.15), rel=1e-12
+    )
+
+
+def _ainsworth_cyclic_by_hand(dj_el, ds, e, kp, n, u=1.0):
+    """The published cyclic reference stress estimate evaluated term by term (Ainsworth 1984
+    on the Masing branch): U²ΔJ_el[1 + ½L_r,cyc²Δσ/(EΔε)] + f_pl·ΔJ_el·EΔε_p/Δσ with
+    L_r,cyc = Δσ/(2K'·0.002^n') and f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U."""
+    dep = 2 * (ds / (2 * kp)) ** (1 / n)
+    de = ds / e + dep
+    lr = ds / (2 * kp * 0.002**n)
+    x = 1 - u
+    f_pl = 1 - (1 + n) * x + n * x ** (1 + 1 / n)
+    return u * u * dj_el * (1 + 0.5 * lr * lr * ds / (e * de)) + f_pl * dj_el * e * dep / ds
+
+
+def test_reference_stress_delta_j_by_hand_with_every_term_significant():
+    # Δσ_ref = 600 MPa on K' = 900, n' = 0.15: L_r,cyc = 0.85, ½L_r²Δσ/(EΔε) ≈ 0.25 and
+    # EΔε_p/Δσ ≈ 0.43 — a halved plastic part or L_r,cyc = Δσ/σ'_y would move ΔJ by > 10 %
+    m = mat()
+    for ds, u in ((600.0, 1.0), (600.0, 0.7), (450.0, 0.55), (800.0, 1.0)):
+        hand = _ainsworth_cyclic_by_hand(10.0, ds, 200e3, 900.0, 0.15, u)
+        assert J.reference_stress_delta_j(10.0, ds, m, u) == pytest.approx(hand, rel=1e-12)
+    dep = 2 * (600 / 1800) ** (1 / 0.15)
+    lr = 600 / (2 * 900 * 0.002**0.15)
+    bracket = 0.5 * lr * lr * 600 / (200e3 * (600 / 200e3 + dep))
+    assert bracket > 0.2 and 200e3 * dep / 600 > 0.3
+    assert J.lr_cyclic(600.0, m.cyclic_curve) == pytest.approx(lr, rel=1e-14)
+
+
+def test_delta_j_reference_stress_on_a_shape_by_hand():
+    # M(T): K = S√(πa)·[1 − 0.025λ² + 0.06λ⁴]√sec(πλ/2), λ = 2a/W (Tada 1973), and
+    # S_L = σ_y(1 − 2a/W) in plane stress (EPRI NP-1931)
+    g = make_geometry(
+        "center-crack-plate", 10.0, width=100, thickness=10, constraint="plane-stress"
+    )
+    m = mat()
+    ds = 300.0
+    lam = 0.2
+    kos = math.sqrt(math.pi * 10) * (1 - 0.025 * lam**2 + 0.06 * lam**4)
+    kos *= math.sqrt(1 / math.cos(math.pi * lam / 2))
+    dj_el = (ds * kos) ** 2 / 200e3
+    dsig_ref = ds / (1 - 20 / 100)
+    hand = _ainsworth_cyclic_by_hand(dj_el, dsig_ref, 200e3, 900.0, 0.15)
+    assert J.delta_j(g, m, 10.0, ds) == pytest.approx(hand, rel=1e-6)
+    assert J.delta_j(g, m, 10.0, ds, method="elastic", u=0.6) == pytest.approx(
+        0.36 * dj_el, rel=1e-6
+    )
+
+
+def _ainsworth_peak_by_hand(j_el, s, sy, e, k, n):
+    """J at peak load by Ainsworth (1984): σ_ref = L_r·σ_y = S_max·σ_y/S_L,
+    ε_ref = σ_ref/E + (σ_ref/K)^(1/n), J/J_el = Eε_ref/σ_ref + ½L_r²σ_ref/(Eε_ref)."""
+    lr = s / sy
+    e_ref = s / e + (s / k) ** (1 / n)
+    return j_el * (e * e_ref / s + 0.5 * lr * lr * s / (e * e_ref))
+
+
+def test_j_max_uses_the_monotonic_curve_not_the_cyclic_one():
+    # a cyclically softening material: cyclic K' = 700 (σ'_y = 275 MPa) and a monotonic curve
+    # with proof stress σ_y = 350 MPa; at S_max = 330 MPa on an infinite plate (S_L = σ_y)
+    mono = StressStrainCurve(350.0 / 0.002**0.1, 0.1)
+    m = Material(200e3, 0.3, 350.0, 500.0, StressStrainCurve(700.0, 0.15), mono, 200.0)
+    g = make_geometry("center-crack-infinite-plate", 2.0)
+    s = 330.0
+    j_el = (s * math.sqrt(math.pi * 2.0)) ** 2 / (200e3 / 0.91)
+    hand = _ainsworth_peak_by_hand(j_el, s, 350.0, 200e3, mono.strength_coefficient, 0.1)
+    cyclic = _ainsworth_peak_by_hand(j_el, s, 350.0, 200e3, 700.0, 0.15)
+    assert abs(cyclic / hand - 1) > 0.5
+    assert J.j_max(g, m, 2.0, s) == pytest.approx(hand, rel=1e-9)
+    # Option 2 is built from the same monotonic curve: f = (J_el/J)^½ at L_r = S/σ_y
+    assert J.fad_option2(s / 350.0, m) == pytest.approx(math.sqrt(j_el / hand), rel=1e-9)
+    # without a monotonic curve, the cyclic one
+    m2 = Material(200e3, 0.3, 350.0, 500.0, StressStrainCurve(700.0, 0.15), None, 200.0)
+    assert J.j_max(g, m2, 2.0, s) == pytest.approx(cyclic, rel=1e-9)
+
+
+def test_option1_curve_by_hand_and_cut_off():
+    # (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), R6 Rev. 3 / BS 7910:1999 level 2A (from memory)
+    for lr in (0.2, 0.8, 1.1):
+        hand = (1 - 0.14 * lr**2) * (0.3 + 0.7 * math.exp(-0.65 * lr**6))
+        assert J.fad_option1(lr, lr_max=1.15) == pytest.approx(hand, rel=1e-14)
+    assert J.fad_option1(1.15, lr_max=1.15) > 0.0
+    assert J.fad_option1(1.1501, lr_max=1.15) == 0.0
+
+
+def test_plastic_fraction_near_full_opening_by_hand():
+    # f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U, just below U = 1 and just above U = 0
+    for u in (0.9995, 0.99, 0.0005):
+        x = 1 - u
+        hand = 1 - 1.15 * x + 0.15 * x ** (1 + 1 / 0.15)
+        assert J.plastic_fraction(u, 0.15) == pytest.approx(hand, rel=1e-12, abs=1e-300)
+
+
+def test_shape_small_crack_without_a_primary_range_is_elastic():
+    # a K range with no nominal loop (e.g. a secondary stress only): U²ΔK²/E' (Rice 1968)
+    m = mat()
+    assert J.shape_small_crack_delta_j(50.0, 0.0, m, 210e3, 0.6) == pytest.approx(
+        0.36 * 2500 / 210e3, rel=1e-14
+    )
+
+
+def test_option2_curve_is_cut_off_just_beyond_lr_max():
+    # R6 / BS 7910: f(L_r) = 0 only for L_r > L_r,max; at L_r,max it is the curve's value
+    mono = StressStrainCurve(350.0 / 0.002**0.1, 0.1)
+    m = Material(200e3, 0.3, 350.0, 500.0, StressStrainCurve(700.0, 0.15), mono, 200.0)
+    lr = m.lr_max
+    s = lr * 350.0
+    er = s / 200e3 + (s / mono.strength_coefficient) ** 10
+    hand = (200e3 * er / s + 0.5 * lr**2 * s / (200e3 * er)) ** -0.5
+    assert J.fad_option2(lr, m) == pytest.approx(hand, rel=1e-12)
+    assert J.fad_option2(lr * (1 + 1e-9), m) == 0.0
+    assert J.fad_option2(0.0, m) == 1.0
