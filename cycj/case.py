@@ -278,6 +278,19 @@ def case_from_dict(
                 source=source,
                 key="run.criteria",
             )
+        if (
+            crit == "fad"
+            and analysis.fad == "option-1-2013"
+            and not (
+                material.tensile_strength and material.tensile_strength > material.yield_strength
+            )
+        ):
+            raise CycjInputError(
+                "the 2013 Option 1 curve needs a tensile strength above the yield strength",
+                source=source,
+                key="analysis.fad",
+                expected="material.tensile_strength > material.yield_strength",
+            )
         if crit == "fad" and material.J_c is None:
             raise CycjInputError(
                 "criterion 'fad' needs a toughness (J_c or K_c)", source=source, key="run.criteria"

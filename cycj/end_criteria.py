@@ -19,7 +19,14 @@ from __future__ import annotations
 import math
 
 from cycj._jit import jit
-from cycj.jintegral import FAD_OPTION_2, fad_option1_scalar, fad_option2_scalar
+from cycj.fad import (
+    FAD_OPTION_1,
+    FAD_OPTION_1_2013,
+    FAD_OPTION_2,
+    fad_option1_2013_scalar,
+    fad_option1_scalar,
+    fad_option2_scalar,
+)
 from cycj.kernel_slots import (
     A_LIMIT,
     A_TEAR,
@@ -28,6 +35,7 @@ from cycj.kernel_slots import (
     CHECK_TOUGH,
     E_MOD,
     FAD_CURVE,
+    FLOW_RATIO,
     J_C,
     K_PEAK,
     LR_MAX,
@@ -132,15 +140,30 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
         return END_TOUGHNESS, jmax
     if mp[CHECK_FAD] > 0.5:
         kr = math.sqrt(j_el_max / mp[J_C]) + rho
-        if int(mp[FAD_CURVE]) == FAD_OPTION_2:
-            f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
-        else:
-            f = fad_option1_scalar(lr, mp[LR_MAX])
+        f = fad_value(lr, mp)
         if kr >= f:
             return END_FAD, kr
     if a >= mp[A_LIMIT]:
         return END_SIZE, a
     return RUNNING, 0.0
+
+
+@jit
+def fad_value(lr, mp):
+    """The failure assessment curve f(L_r) the case chose (its record's code in FAD_CURVE);
+    an unknown code is an error."""
+    code = int(mp[FAD_CURVE])
+    if code == FAD_OPTION_2:
+        return fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+    if code == FAD_OPTION_1_2013:
+        sy = mp[SIGMA_Y]
+        su = sy * (2.0 * mp[FLOW_RATIO] - 1.0)  # σ_flow = (σ_y + σ_u)/2
+        return fad_option1_2013_scalar(
+            lr, mp[LR_MAX], min(0.001 * mp[E_MOD] / sy, 0.6), 0.3 * (1.0 - sy / su)
+        )
+    if code == FAD_OPTION_1:
+        return fad_option1_scalar(lr, mp[LR_MAX])
+    raise ValueError("unknown FAD curve code")
 
 
 #: the order in which criteria tripped in the same cycle are named (the first is end_reason)
@@ -160,10 +183,7 @@ def tripped_criteria(a, jmax, lr, j_el_max, rho, mp) -> list[dict]:
         out.append(_row("toughness", "J_max_kJm2", jmax, mp[J_C]))
     if mp[CHECK_FAD] > 0.5:
         kr = math.sqrt(j_el_max / mp[J_C]) + rho
-        if int(mp[FAD_CURVE]) == FAD_OPTION_2:
-            f = fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
-        else:
-            f = fad_option1_scalar(lr, mp[LR_MAX])
+        f = fad_value(lr, mp)
         if kr >= f:
             out.append(_row("fad", "K_r", kr, f))
     if a >= mp[A_LIMIT]:

@@ -24,8 +24,6 @@ References
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
 from cycj._jit import jit, ufunc
@@ -123,35 +121,6 @@ FINITE_ELEMENT = register(
         _MASING,
     ),
 ).code
-_FAD_SOURCE = "R6 Rev. 4 / BS 7910:2013+A1:2015: failure assessment diagram and L_r,max"
-#: the Option 1 curve as coded, (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), is the form of R6
-#: Rev. 3 and the BS 7910:1999 level 2A curve (from memory); later editions keep it for
-#: Option 1
-FAD_OPTION_1_SOURCE = (
-    "R6 Rev. 3 (Milne, Ainsworth, Dowling & Stewart, Int. J. Pres. Ves. & Piping 32 (1988) "
-    "3–104) and BS 7910:1999 level 2A: f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), "
-    "the same form as Option 1 of R6 Rev. 4 / BS 7910:2013 (from memory)"
-)
-FAD_OPTION_1 = register(
-    "fad",
-    "option-1",
-    1,
-    slots=("LR_MAX",),
-    validity="0 ≤ L_r ≤ L_r,max",
-    citation=(FAD_OPTION_1_SOURCE, _FAD_SOURCE),
-).code
-FAD_OPTION_2 = register(
-    "fad",
-    "option-2",
-    2,
-    slots=("LR_MAX", "SIGMA_Y", "E_MOD", "K_PEAK", "N_PEAK"),
-    validity="0 ≤ L_r ≤ L_r,max; needs the material's monotonic curve",
-    citation=(
-        _FAD_SOURCE,
-        "Ainsworth, R. A., Eng. Fract. Mech. 19 (1984) 633–642: "
-        "K_r = (J_e/J)^½ from the material's own curve",
-    ),
-).code
 J_METHODS = {
     "elastic": ELASTIC,
     "reference-stress": REFERENCE_STRESS,
@@ -245,34 +214,12 @@ def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
     return j_el * (e_mod * e_ref / s_ref + 0.5 * lr * lr * s_ref / (e_mod * e_ref))
 
 
-@jit
-def fad_option1_scalar(lr, lr_max):
-    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)), 0 beyond L_r,max
-    (the R6 Rev. 3 / BS 7910:1999 level 2A form, from memory)."""
-    if lr > lr_max:
-        return 0.0
-    return (1.0 - 0.14 * lr * lr) * (0.3 + 0.7 * math.exp(-0.65 * lr**6))
-
-
-@jit
-def fad_option2_scalar(lr, lr_max, sigma_y, e_mod, k, n):
-    """Option 2 curve from the material's own curve,
-    f(L_r) = [Eε_ref/(L_rσ_y) + L_r³σ_y/(2Eε_ref)]^(−1/2); 1 at L_r = 0, 0 beyond L_r,max."""
-    if lr > lr_max:
-        return 0.0
-    if lr <= 0.0:
-        return 1.0
-    return 1.0 / math.sqrt(j_peak_scalar(1.0, lr, sigma_y, e_mod, k, n))
-
-
 # --------------------------------------------------------------------------- vectorised API
 _plastic_fraction = ufunc(plastic_fraction_scalar)
 _ref_stress_dj = ufunc(reference_stress_delta_j_scalar)
 _small_crack_dj = ufunc(small_crack_delta_j_scalar)
 _shape_small_dj = ufunc(shape_small_crack_delta_j_scalar)
 _j_peak = ufunc(j_peak_scalar)
-_fad1 = ufunc(fad_option1_scalar)
-_fad2 = ufunc(fad_option2_scalar)
 
 
 def _nonneg(name, x):
@@ -512,34 +459,6 @@ def j_max(geometry, material, a, s_max):
     )
 
 
-def fad_option1(lr, lr_max=np.inf):
-    """Option 1 curve f(L_r) = (1 − 0.14L_r²)(0.3 + 0.7e^(−0.65L_r⁶)) (0 beyond ``lr_max``).
-
-    References
-    ----------
-    .. [1] R6 Rev. 3 and BS 7910:1999 level 2A (the form coded; from memory), kept as Option 1
-       in R6 Rev. 4 and BS 7910:2013+A1:2015.
-    """
-    return _fad1(_nonneg("L_r", lr), float(lr_max))
-
-
-def fad_option2(lr, material):
-    """Option 2 curve from the material's own curve (monotonic if given, else cyclic)."""
-    curve = material.peak_curve
-    if curve is None:
-        raise ValidityRangeError("Option 2 needs a stress–strain curve")
-    return _fad2(
-        _nonneg("L_r", lr),
-        material.lr_max,
-        material.yield_strength,
-        material.elastic_modulus,
-        curve.strength_coefficient,
-        curve.hardening_exponent,
-    )
-
-
-# Shih (1981) D_n = d_n/(αε_0)^(1/n) at αε_0 = 0.002, computed from the HRR field
-# (docs/references.md R15)
 _SHIH_N = np.array([3.0, 5.0, 10.0, 13.0])
 _SHIH_DN = {
     True: np.array([1.326, 1.085, 0.931, 0.898]),

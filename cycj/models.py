@@ -28,7 +28,7 @@ KINDS = {
     "growth_law": ("cycj.growth", "[material] growth.law"),
     "retardation": ("cycj.retardation", "[loading] sequence"),
     "j_method": ("cycj.jintegral", "[analysis] j_method"),
-    "fad": ("cycj.jintegral", "[analysis] fad"),
+    "fad": ("cycj.fad", "[analysis] fad"),
     "end_criterion": ("cycj.end_criteria", "[run] criteria"),
     "geometry": ("cycj.geometry", "[geometry] shape"),
     "pod": ("cycj.plan.pod", "[inspection] pod model"),

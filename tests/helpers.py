@@ -65,7 +65,10 @@ def expected_models(case, summary) -> list[tuple[str, str]]:
     ]
     used += [("end_criterion", c) for c in case.run.criteria]
     if "fad" in case.run.criteria:
-        used.append(("fad", case.analysis.fad if case.material.peak_curve else "option-1"))
+        fad = case.analysis.fad
+        used.append(
+            ("fad", "option-1" if fad == "option-2" and not case.material.peak_curve else fad)
+        )
     methods = []
     if case.growth.converted_from:
         methods.append("delta-k-conversion")

@@ -58,7 +58,9 @@ def choose_models(case: Case, mp: np.ndarray, cited: Citations) -> None:
     mp[M.SEQ_MODEL] = cited.choose("retardation", ld.sequence)
     for name in crit:
         cited.choose("end_criterion", name)
-    fad = case.analysis.fad if case.material.peak_curve else "option-1"
+    fad = case.analysis.fad
+    if fad == "option-2" and not case.material.peak_curve:
+        fad = "option-1"  # Option 2 needs a curve; without one the Option 1 curve is used
     mp[M.FAD_CURVE] = cited.choose("fad", fad) if "fad" in crit else models.code("fad", fad)
 
 

@@ -114,14 +114,15 @@ def criterion_figure(result):
     mat = case.material
     fig, ax = plt.subplots(figsize=(6.0, 4.2))
     if "fad" in case.run.criteria and mat.J_c:
-        from cycj.jintegral import fad_option1, fad_option2
+        from cycj.fad import fad_option1, fad_option1_2013, fad_option2
 
         lr = np.linspace(0, mat.lr_max, 200)
-        f = (
-            fad_option2(lr, mat)
-            if case.analysis.fad == "option-2" and mat.peak_curve
-            else fad_option1(lr, mat.lr_max)
-        )
+        if case.analysis.fad == "option-2" and mat.peak_curve:
+            f = fad_option2(lr, mat)
+        elif case.analysis.fad == "option-1-2013":
+            f = fad_option1_2013(lr, mat)
+        else:
+            f = fad_option1(lr, mat.lr_max)
         ax.plot(lr, f, color="k", label=f"FAD {case.analysis.fad}")
         ax.vlines(mat.lr_max, 0, f[-1], color="k")
         a = np.clip(h["a_mm"].to_numpy(), *case.geometry.size_limits)

@@ -242,7 +242,7 @@ def test_history_is_sparse_and_monotone():
 def test_fad_end_point_lies_on_the_curve():
     # the assessment point at the end of a FAD-ended run sits on the Option 1 curve
     # (R6 / BS 7910), and the first one inside it
-    from cycj.jintegral import fad_option1
+    from cycj.fad import fad_option1
 
     geo = {
         "shape": "center-crack-plate",

@@ -17,7 +17,7 @@ from cycj.end_criteria import (
     end_check,
     tripped_criteria,
 )
-from cycj.jintegral import FAD_OPTION_1, FAD_OPTION_2
+from cycj.fad import FAD_OPTION_1, FAD_OPTION_2
 
 
 def _py(f):
