@@ -72,9 +72,7 @@ def iter_history_chunks(
         As ``read_history``, raised when the chunk holding the bad value is read (a history of
         fewer than two samples: when the file is exhausted).
     """
-    for values, _ in iter_history_chunks_with_time(
-        path, column, unit_factor, scale, chunk_samples
-    ):
+    for values, _ in iter_history_chunks_with_time(path, column, unit_factor, scale, chunk_samples):
         yield values
 
 
