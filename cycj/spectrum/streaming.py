@@ -47,56 +47,68 @@ def turning_points_chunk(x, gate, st, out_v, out_i):
         st[TP_IHI] = st[TP_ILO] = off
         st[TP_PHASE] = PHASE_LEAD
         j0 = 1
-    for j in range(j0, n):
+    j = j0
+    while j < n and st[TP_PHASE] == PHASE_LEAD:
         v = x[j]
         gi = off + j
-        if st[TP_PHASE] == PHASE_LEAD:
-            if v > st[TP_HI]:
-                st[TP_HI] = v
-                st[TP_IHI] = gi
-            elif v < st[TP_LO]:
-                st[TP_LO] = v
-                st[TP_ILO] = gi
-            span = st[TP_HI] - st[TP_LO]
-            if span > 0.0 and span >= gate:
-                st[TP_PHASE] = PHASE_ACTIVE
-                if st[TP_IHI] > st[TP_ILO]:
-                    st[TP_DIR] = 1.0
-                    out_v[k] = st[TP_LO]
-                    out_i[k] = st[TP_ILO]
-                    st[TP_CAND] = st[TP_HI]
-                    st[TP_ICAND] = st[TP_IHI]
-                else:
-                    st[TP_DIR] = -1.0
-                    out_v[k] = st[TP_HI]
-                    out_i[k] = st[TP_IHI]
-                    st[TP_CAND] = st[TP_LO]
-                    st[TP_ICAND] = st[TP_ILO]
-                k += 1
-            continue
-        cand = st[TP_CAND]
-        if st[TP_DIR] > 0.0:
+        if v > st[TP_HI]:
+            st[TP_HI] = v
+            st[TP_IHI] = gi
+        elif v < st[TP_LO]:
+            st[TP_LO] = v
+            st[TP_ILO] = gi
+        span = st[TP_HI] - st[TP_LO]
+        if span > 0.0 and span >= gate:
+            st[TP_PHASE] = PHASE_ACTIVE
+            if st[TP_IHI] > st[TP_ILO]:
+                st[TP_DIR] = 1.0
+                out_v[k] = st[TP_LO]
+                out_i[k] = st[TP_ILO]
+                st[TP_CAND] = st[TP_HI]
+                st[TP_ICAND] = st[TP_IHI]
+            else:
+                st[TP_DIR] = -1.0
+                out_v[k] = st[TP_HI]
+                out_i[k] = st[TP_IHI]
+                st[TP_CAND] = st[TP_LO]
+                st[TP_ICAND] = st[TP_ILO]
+            k += 1
+        j += 1
+    if st[TP_PHASE] != PHASE_ACTIVE:
+        st[TP_OFFSET] = off + n
+        return k
+    # the active phase with its state in locals (one pass, nothing stored per sample)
+    cand = st[TP_CAND]
+    icand = int(st[TP_ICAND])
+    up = st[TP_DIR] > 0.0
+    base = int(off)
+    for jj in range(j, n):
+        v = x[jj]
+        if up:
             if v > cand:
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                cand = v
+                icand = base + jj
             elif cand - v > 0.0 and cand - v >= gate:
                 out_v[k] = cand
-                out_i[k] = st[TP_ICAND]
+                out_i[k] = icand
                 k += 1
-                st[TP_DIR] = -1.0
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                up = False
+                cand = v
+                icand = base + jj
         else:
             if v < cand:
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                cand = v
+                icand = base + jj
             elif v - cand > 0.0 and v - cand >= gate:
                 out_v[k] = cand
-                out_i[k] = st[TP_ICAND]
+                out_i[k] = icand
                 k += 1
-                st[TP_DIR] = 1.0
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                up = True
+                cand = v
+                icand = base + jj
+    st[TP_CAND] = cand
+    st[TP_ICAND] = icand
+    st[TP_DIR] = 1.0 if up else -1.0
     st[TP_OFFSET] = off + n
     return k
 

@@ -189,7 +189,6 @@ def write_count_files(
         The first samples of the history [``unit``] and their times [s] (or None) for the plot.
     Other parameters as :func:`write_count_outputs`.
     """
-    import pandas as pd
 
     from cycj.spectrum import plots as P
 
@@ -203,9 +202,9 @@ def write_count_files(
     fmt = "%.10g"
     with _TableWriter(od.path("cycles" + ext), fmt_out, fmt) as tw:
         for p in parts.parts(CYCLE_COLUMNS):
-            tw.write(pd.DataFrame(p, copy=False))
+            tw.write(p)
         if tw.empty:
-            tw.write(pd.DataFrame({c: cycles_dtype(c) for c in CYCLE_COLUMNS}))
+            tw.write({c: cycles_dtype(c) for c in CYCLE_COLUMNS})
     written = [od.path("cycles" + ext)]
     rm, r_edges, m_edges = parts.range_mean_matrix(bins)
     ft, edges = parts.from_to_matrix(bins, limits)
@@ -223,14 +222,14 @@ def write_count_files(
     cols = (f"range{suffix}", "cycles_exceeding")
     with _TableWriter(od.path("exceedance" + ext), fmt_out, fmt) as tw:
         for lv, cum in parts.exceedance_blocks():
-            tw.write(pd.DataFrame({cols[0]: lv, cols[1]: cum}))
+            tw.write({cols[0]: lv, cols[1]: cum})
             keep = (np.arange(row, row + lv.shape[0]) % stride) == 0
             keep[-1] = True
             shown_lv.append(lv[keep])
             shown_cum.append(cum[keep])
             row += lv.shape[0]
         if tw.empty:
-            tw.write(pd.DataFrame({cols[0]: np.empty(0), cols[1]: np.empty(0)}))
+            tw.write({cols[0]: np.empty(0), cols[1]: np.empty(0)})
     written.append(od.path("exceedance" + ext))
     if plots:
         P.plot_history(
@@ -259,8 +258,8 @@ def cycles_dtype(column: str) -> np.ndarray:
 
 
 class _TableWriter:
-    """A table written frame by frame as CSV (header once) or Parquet (one row group a
-    frame)."""
+    """A table written part by part (dicts of equal-length arrays) as CSV (header once) or
+    Parquet (one row group a part, no dictionary encoding)."""
 
     def __init__(self, path, fmt: str, float_format: str):
         self.path, self.fmt, self.float_format = Path(path), fmt, float_format
@@ -270,9 +269,11 @@ class _TableWriter:
     def __enter__(self):
         return self
 
-    def write(self, frame) -> None:
+    def write(self, columns: dict) -> None:
         if self.fmt == "csv":
-            frame.to_csv(
+            import pandas as pd
+
+            pd.DataFrame(columns, copy=False).to_csv(
                 self.path,
                 index=False,
                 float_format=self.float_format,
@@ -283,9 +284,9 @@ class _TableWriter:
             import pyarrow as pa
             import pyarrow.parquet as pq
 
-            table = pa.Table.from_pandas(frame, preserve_index=False)
+            table = pa.table(columns)
             if self._pq is None:
-                self._pq = pq.ParquetWriter(self.path, table.schema)
+                self._pq = pq.ParquetWriter(self.path, table.schema, use_dictionary=False)
             self._pq.write_table(table)
         self.empty = False
 
