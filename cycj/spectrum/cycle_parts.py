@@ -154,15 +154,16 @@ class CycleParts:
         """The range exceedance table in blocks of ``rows``: distinct ranges, largest first,
         and the cycles with a range ≥ each (as :func:`cycj.spectrum.statistics.
         range_exceedance`); memory one float64 a cycle while it runs."""
-        full, half = [], []
+        a = np.empty(self.full)  # ranges of full cycles, filled in place (no second copy)
+        b = np.empty(self.n - self.full)  # of half cycles
+        i = j = 0
         for p in self.parts(("range", "count")):
             one = p["count"] == 1.0
-            full.append(p["range"][one])
-            half.append(p["range"][~one])
-        a = np.concatenate(full) if full else np.empty(0)
-        del full
-        b = np.concatenate(half) if half else np.empty(0)
-        del half
+            r = p["range"]
+            k = int(np.count_nonzero(one))
+            a[i : i + k] = r[one]
+            b[j : j + r.shape[0] - k] = r[~one]
+            i, j = i + k, j + r.shape[0] - k
         a.sort()
         b.sort()
         state = np.array([a.shape[0], b.shape[0], 0.0])
