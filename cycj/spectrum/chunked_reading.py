@@ -15,6 +15,7 @@ from pathlib import Path
 
 import numpy as np
 
+from cycj.errors import CycjInputError
 from cycj.spectrum.csv_reading import (
     check_finite,
     check_length,
@@ -167,7 +168,12 @@ def _parquet_chunks(path: Path, column, time_column, chunk: int, src: str):
     name, t_name = parquet_channels(path, column, time_column, src)
     cols = [name] if t_name is None else [name, t_name]
     row0 = 0
-    for batch in pq.ParquetFile(path).iter_batches(batch_size=chunk, columns=cols):
+    try:
+        batches = pq.ParquetFile(path).iter_batches(batch_size=chunk, columns=cols)
+        first = next(batches, None)
+    except Exception as exc:  # noqa: BLE001 - any corrupt-file error is reported the same way
+        raise CycjInputError(f"not a readable Parquet file ({exc})", source=src) from None
+    for batch in _with_first(first, batches, src):
         values = parquet_to_float(batch.column(0))
         times = None if t_name is None else parquet_to_float(batch.column(1))
         check_finite(values, name, src, _offset_lines(row0))
@@ -175,6 +181,19 @@ def _parquet_chunks(path: Path, column, time_column, chunk: int, src: str):
             check_finite(times, t_name, src, _offset_lines(row0))
         row0 += values.shape[0]
         yield values, times, row_lines
+
+
+def _with_first(first, batches, src):
+    """The batches of a Parquet file, a corrupt later batch reported as an input error."""
+    import pyarrow as pa
+
+    if first is None:
+        return
+    yield first
+    try:
+        yield from batches
+    except (pa.ArrowException, OSError) as exc:
+        raise CycjInputError(f"not a readable Parquet file ({exc})", source=src) from None
 
 
 def _text_chunks(path: Path, column, time_column, chunk: int, src: str):

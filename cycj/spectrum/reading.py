@@ -238,7 +238,10 @@ def parquet_channels(path: Path, column, time_column, src):
     names = list(schema.names)
     if not names:
         raise CycjInputError("the Parquet file has no columns", source=src, line=1)
-    empty = schema.empty_table().to_pandas()
+    try:
+        empty = schema.empty_table().to_pandas()
+    except Exception as exc:  # noqa: BLE001 - column types pandas cannot hold
+        raise CycjInputError(f"not a readable Parquet file ({exc})", source=src) from None
     numeric = [
         pd.api.types.is_numeric_dtype(empty[n]) and not pd.api.types.is_bool_dtype(empty[n])
         for n in names
