@@ -134,8 +134,7 @@ class CycleParts:
         ml = None if self.n == 0 else (self.mean_min, self.mean_max)
         total, r_edges, m_edges = range_mean_matrix([], [], [], bins, bins, rl, ml)
         for p in self.parts(("range", "mean", "count")):
-            mat, _, _ = range_mean_matrix(p["range"], p["mean"], p["count"], bins, bins, rl, ml)
-            total += mat
+            histogram2d_add(p["range"], p["mean"], p["count"], r_edges, m_edges, total)
         return total, r_edges, m_edges
 
     def from_to_matrix(self, bins: int, limits):
@@ -146,8 +145,7 @@ class CycleParts:
         edges = _edges(np.asarray(limits, dtype=np.float64), bins, limits)
         total = np.zeros((int(bins), int(bins)))
         for p in self.parts(("from", "to", "count")):
-            mat, _, _ = np.histogram2d(p["from"], p["to"], bins=(edges, edges), weights=p["count"])
-            total += mat
+            histogram2d_add(p["from"], p["to"], p["count"], edges, edges, total)
         return total, edges
 
     def exceedance_blocks(self, rows: int = READ_ROWS):
@@ -173,6 +171,38 @@ class CycleParts:
             if k == 0:
                 return
             yield lv[:k].copy(), cum[:k].copy()
+
+
+@jit
+def _bin_right(edges, v):
+    """Edges ≤ ``v`` (``numpy.searchsorted(edges, v, side="right")``; 0 for NaN)."""
+    lo = 0
+    hi = edges.shape[0]
+    while lo < hi:
+        mid = (lo + hi) // 2
+        if edges[mid] <= v:
+            lo = mid + 1
+        else:
+            hi = mid
+    return lo
+
+
+@jit
+def histogram2d_add(x, y, w, ex, ey, out):
+    """Add the weights ``w`` of the points (``x``, ``y``) to their bins of ``out`` (shape
+    ``len(ex) - 1`` × ``len(ey) - 1``), with the bins of :func:`numpy.histogram2d`: half-open
+    ``[e_i, e_i+1)``, the last closed; points outside (or NaN) are left out."""
+    nx = ex.shape[0] - 1
+    ny = ey.shape[0] - 1
+    for k in range(x.shape[0]):
+        i = _bin_right(ex, x[k])
+        if x[k] == ex[nx]:
+            i -= 1
+        j = _bin_right(ey, y[k])
+        if y[k] == ey[ny]:
+            j -= 1
+        if 1 <= i <= nx and 1 <= j <= ny:
+            out[i - 1, j - 1] += w[k]
 
 
 @jit

@@ -203,3 +203,24 @@ def test_stream_with_repeat_is_refused(tmp_path, capsys):
         main(["count", str(p), "--stream", "--repeat"])
     assert exc.value.code == 2
     assert "--stream" in capsys.readouterr().err
+
+
+@settings(max_examples=80, deadline=None, derandomize=True)
+@given(
+    st.lists(st.integers(-6, 6), min_size=0, max_size=60),
+    st.lists(st.integers(-6, 6), min_size=60, max_size=60),
+    st.integers(1, 7),
+)
+def test_compiled_histogram_bins_as_numpy(xs, ys, bins):
+    """Points on edges, on the last edge and outside land as in numpy.histogram2d."""
+    from cycj.spectrum.cycle_parts import histogram2d_add
+
+    x = np.asarray(xs, float) * 0.5
+    y = np.asarray(ys[: x.size], float) * 0.5
+    w = np.where(np.arange(x.size) % 3 == 0, 0.5, 1.0)
+    ex = np.linspace(-2.0, 2.0, bins + 1)
+    ey = np.linspace(-1.5, 2.5, bins + 1)
+    ref, _, _ = np.histogram2d(x, y, bins=(ex, ey), weights=w)
+    got = np.zeros((bins, bins))
+    histogram2d_add(x, y, w, ex, ey, got)
+    np.testing.assert_array_equal(got, ref)
