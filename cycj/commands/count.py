@@ -45,19 +45,43 @@ from cycj.errors import CycjInputError
     help="Folder for cycles.csv, the matrices and the plots.",
 )
 @click.option("--force", is_flag=True, help="Replace an --out folder cycj wrote before.")
+@click.option(
+    "--stream",
+    is_flag=True,
+    help="Read and count the history in chunks (memory bounded by the cycle table); "
+    "automatic beyond 5e6 samples or 100 MB.",
+)
+@click.option(
+    "--cycles-format",
+    type=click.Choice(["auto", "csv", "parquet"]),
+    default="auto",
+    show_default=True,
+    help="Format of the cycle and exceedance tables (auto: Parquet beyond 1e7 cycles).",
+)
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_plots, as_json):
+def count(
+    history,
+    column,
+    gate,
+    unit,
+    scale,
+    repeat,
+    bins,
+    out_dir,
+    force,
+    stream,
+    cycles_format,
+    no_plots,
+    as_json,
+):
     """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
-    from cycj.outputs import OutputDir, dumps, record_provenance
-    from cycj.spectrum.rainflow import rainflow_cycles
-    from cycj.spectrum.reading import history_unit, read_history_with_time
-    from cycj.spectrum.write import (
-        CAPTIONS,
-        count_summary,
-        write_count_outputs,
-        write_count_report,
-    )
+    import contextlib
+    import tempfile
+
+    from cycj.outputs import OutputDir, dumps
+    from cycj.spectrum.reading import history_unit
+    from cycj.spectrum.stream_count import wants_streaming
 
     factor, internal, kind = history_unit(unit, key="--unit")
     if not math.isfinite(scale) or scale == 0:
@@ -65,14 +89,107 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
             "the scale must be a finite non-zero number", key="--scale", found=scale
         )
     gate_value = _gate(gate, factor * scale, kind)
+    if stream and repeat:
+        raise CycjInputError(
+            "a repeating block is counted in memory: drop --stream or --repeat", key="--stream"
+        )
     od = OutputDir(out_dir, force=force, inputs=[history]) if out_dir is not None else None
+    streamed = stream or (not repeat and wants_streaming(history))
+    spill = contextlib.ExitStack()
+    with spill:
+        if streamed:
+            folder = spill.enter_context(tempfile.TemporaryDirectory(prefix="cycj-count-"))
+            result, write = _streamed(history, column, factor, scale, gate_value, folder, internal)
+        else:
+            result, write = _in_memory(history, column, factor, scale, gate_value, repeat, internal)
+        summary = _finish(
+            od,
+            history,
+            column,
+            unit,
+            factor,
+            scale,
+            gate_value,
+            repeat,
+            bins,
+            internal,
+            result,
+            write,
+            streamed,
+            cycles_format,
+            no_plots,
+        )
+    if as_json:
+        click.echo(dumps(summary))
+        return
+    _print(summary, history, gate_value, repeat, internal, out_dir, no_plots)
+
+
+def _in_memory(history, column, factor, scale, gate_value, repeat, internal):
+    """Summary of the count of the whole history in memory, and its output writer."""
+    from cycj.spectrum.rainflow import rainflow_cycles
+    from cycj.spectrum.reading import read_history_with_time
+    from cycj.spectrum.write import count_summary, write_count_outputs
+
     values, times = read_history_with_time(history, column, factor, scale)
     cycles = rainflow_cycles(values, gate_value, repeat)
-    summary = {
-        "history": str(history),
-        "column": column,
-        **count_summary(values, cycles, gate_value, repeat, internal),
-    }
+    result = count_summary(values, cycles, gate_value, repeat, internal)
+
+    def write(od, bins, plots, cycles_format):
+        return write_count_outputs(
+            od, values, cycles, internal, times, bins, plots=plots, cycles_format=cycles_format
+        )
+
+    return result, write
+
+
+def _streamed(history, column, factor, scale, gate_value, folder, internal):
+    """Summary of the streaming count (cycle table spilled to ``folder``) and its writer."""
+    from cycj.spectrum.stream_count import count_file_streaming
+    from cycj.spectrum.write import summary_of_totals, write_count_files
+
+    sc = count_file_streaming(history, column, factor, scale, gate_value, folder)
+    p = sc.parts
+    result = summary_of_totals(
+        samples=sc.samples,
+        reversals=sc.reversals,
+        full=p.full,
+        half=p.half,
+        largest_range=p.range_max if p.n else 0.0,
+        vmax=sc.vmax,
+        vmin=sc.vmin,
+        irregularity=sc.irregularity,
+        gate=gate_value,
+        repeat=False,
+        unit=internal,
+    )
+
+    def write(od, bins, plots, cycles_format):
+        return write_count_files(
+            od,
+            p,
+            sc.samples,
+            (sc.vmin, sc.vmax),
+            sc.preview,
+            sc.preview_times,
+            internal,
+            bins,
+            plots,
+            cycles_format,
+        )
+
+    return result, write
+
+
+def _finish(
+    od, history, column, unit, factor, scale, gate_value, repeat, bins, internal,
+    result, write, streamed, cycles_format, no_plots,
+):  # fmt: skip
+    """The count's JSON summary, with its files written into ``od`` (if any)."""
+    from cycj.outputs import record_provenance
+    from cycj.spectrum.write import CAPTIONS, write_count_report
+
+    summary = {"history": str(history), "column": column, **result}
     summary["method"] = "rainflow (ASTM E1049-85 §5.4)" + (
         ", repeating block" if repeat else ", residue as half cycles"
     )
@@ -85,13 +202,13 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
         "repeat": repeat,
         "bins": bins,
         "internal_unit": internal,
+        "stream": bool(streamed),
+        "cycles_format": cycles_format,
     }
     record_provenance(summary, {"history": history}, method=summary["method"])
     if od is not None:
         with od:
-            files = write_count_outputs(
-                od, values, cycles, internal, times, bins, plots=not no_plots
-            )
+            files = write(od, bins, not no_plots, cycles_format)
             if not no_plots:
                 figs = [(CAPTIONS[p.name], p) for p in files if p.suffix == ".png"]
                 files.append(write_count_report(od, summary, figs))
@@ -99,9 +216,11 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
                 str(od.final_path("count.json"))
             ]
             od.write_json("count.json", summary)
-    if as_json:
-        click.echo(dumps(summary))
-        return
+    return summary
+
+
+def _print(summary, history, gate_value, repeat, internal, out_dir, no_plots):
+    """The plain-text summary."""
     u = f" {internal}" if internal else ""
     click.echo(f"history: {history}")
     click.echo(f"samples: {summary['samples']}")
@@ -117,8 +236,13 @@ def count(history, column, gate, unit, scale, repeat, bins, out_dir, force, no_p
         )
         click.echo(f"largest range: {summary['largest_range']:.6g}{u}")
     if out_dir is not None:
+        tables = (
+            "cycles.parquet"
+            if any(o.endswith(".parquet") for o in summary["outputs"])
+            else "cycles.csv"
+        )
         click.echo(
-            f"wrote {len(summary['outputs'])} files to {out_dir}/ (count.json, cycles.csv"
+            f"wrote {len(summary['outputs'])} files to {out_dir}/ (count.json, {tables}"
             + (", plots, report.html)" if not no_plots else ")")
         )
 

@@ -36,6 +36,7 @@ def plot_history(
     start: int = 0,
     max_samples: int = 5000,
     reversal_indices=None,
+    total: int | None = None,
 ):
     """Plot an excerpt of the history (``max_samples`` from ``start``) to a PNG file.
 
@@ -53,6 +54,9 @@ def plot_history(
         The excerpt.
     reversal_indices : array_like of int, optional
         Sample indices of reversals to mark.
+    total : int, optional
+        Samples in the whole history when ``values`` is only its beginning (the title says
+        "of ``total``"); default ``len(values)``.
 
     Returns
     -------
@@ -72,7 +76,7 @@ def plot_history(
         ax.legend(loc="upper right", fontsize=8)
     ax.set_xlabel("time [s]" if times is not None else "sample")
     ax.set_ylabel("load" + _unit(unit))
-    shown = f"samples {start}–{stop - 1} of {x.shape[0]}"
+    shown = f"samples {start}–{stop - 1} of {x.shape[0] if total is None else int(total)}"
     ax.set_title(f"Load history ({shown})", fontsize=10)
     ax.grid(True, alpha=0.3)
     return _save(fig, plt, path)

@@ -167,11 +167,67 @@ def from_to_matrix(values, starts, ends, counts, bins: int = 32, limits=None):
     return mat, edges
 
 
+#: samples per block of the blocked sum behind :func:`history_mean`
+MEAN_BLOCK = 1 << 16
+
+
+def _block_sums(x: np.ndarray):
+    """Sums of the full blocks of :data:`MEAN_BLOCK` samples, and the samples left over."""
+    k = x.shape[0] // MEAN_BLOCK
+    return x[: k * MEAN_BLOCK].reshape(k, MEAN_BLOCK).sum(axis=1), x[k * MEAN_BLOCK :]
+
+
+def history_mean(values) -> float:
+    """Mean of a load history, summed in blocks of :data:`MEAN_BLOCK` samples so that
+    :class:`RunningMean` fed the same samples in any chunks gives the same float.
+
+    Parameters
+    ----------
+    values : array_like of float, shape (n,)
+        Load history [any unit].
+
+    Returns
+    -------
+    float
+        The mean [unit of ``values``]; NaN for an empty history.
+    """
+    x = np.asarray(values, dtype=np.float64)
+    if x.shape[0] == 0:
+        return float("nan")
+    sums, tail = _block_sums(x)
+    return float(np.concatenate((sums, [tail.sum()])).sum() / x.shape[0])
+
+
+class RunningMean:
+    """:func:`history_mean` of a history fed in chunks (:meth:`feed`, then :meth:`mean`)."""
+
+    def __init__(self):
+        self._sums: list[np.ndarray] = []
+        self._pending = np.empty(0)
+        self.n = 0
+
+    def feed(self, chunk) -> None:
+        """Add the next samples [unit of the history]."""
+        x = np.asarray(chunk, dtype=np.float64)
+        self.n += x.shape[0]
+        buf = np.concatenate((self._pending, x)) if self._pending.size else x
+        sums, tail = _block_sums(buf)
+        if sums.size:
+            self._sums.append(sums)
+        self._pending = tail.copy()
+
+    def mean(self) -> float:
+        """The mean of everything fed [unit of the history]; NaN when nothing was."""
+        if self.n == 0:
+            return float("nan")
+        return float(np.concatenate((*self._sums, [self._pending.sum()])).sum() / self.n)
+
+
 def irregularity_factor(values, gate: float = 0.0) -> float:
     """Irregularity factor: mean up-crossings over peaks (1 for a narrow-band history).
 
-    The reference level is the mean of the history; peaks are the local maxima among the
-    (gated) reversals, the two ends excluded.
+    The reference level is the mean of the history (:func:`history_mean`); peaks are the
+    local maxima among the (gated) reversals, the two ends excluded.
 
     Parameters
     ----------
@@ -201,7 +257,7 @@ def irregularity_factor(values, gate: float = 0.0) -> float:
         return float("nan")
     inner = v[1:-1]
     peaks = int(np.count_nonzero(inner > v[:-2]))
-    level = float(x.mean())
+    level = history_mean(x)
     ups = int(np.count_nonzero((v[:-1] < level) & (v[1:] >= level)))
     return ups / peaks if peaks else float("nan")
 

@@ -47,67 +47,80 @@ def turning_points_chunk(x, gate, st, out_v, out_i):
         st[TP_IHI] = st[TP_ILO] = off
         st[TP_PHASE] = PHASE_LEAD
         j0 = 1
-    for j in range(j0, n):
+    j = j0
+    while j < n and st[TP_PHASE] == PHASE_LEAD:
         v = x[j]
         gi = off + j
-        if st[TP_PHASE] == PHASE_LEAD:
-            if v > st[TP_HI]:
-                st[TP_HI] = v
-                st[TP_IHI] = gi
-            elif v < st[TP_LO]:
-                st[TP_LO] = v
-                st[TP_ILO] = gi
-            span = st[TP_HI] - st[TP_LO]
-            if span > 0.0 and span >= gate:
-                st[TP_PHASE] = PHASE_ACTIVE
-                if st[TP_IHI] > st[TP_ILO]:
-                    st[TP_DIR] = 1.0
-                    out_v[k] = st[TP_LO]
-                    out_i[k] = st[TP_ILO]
-                    st[TP_CAND] = st[TP_HI]
-                    st[TP_ICAND] = st[TP_IHI]
-                else:
-                    st[TP_DIR] = -1.0
-                    out_v[k] = st[TP_HI]
-                    out_i[k] = st[TP_IHI]
-                    st[TP_CAND] = st[TP_LO]
-                    st[TP_ICAND] = st[TP_ILO]
-                k += 1
-            continue
-        cand = st[TP_CAND]
-        if st[TP_DIR] > 0.0:
+        if v > st[TP_HI]:
+            st[TP_HI] = v
+            st[TP_IHI] = gi
+        elif v < st[TP_LO]:
+            st[TP_LO] = v
+            st[TP_ILO] = gi
+        span = st[TP_HI] - st[TP_LO]
+        if span > 0.0 and span >= gate:
+            st[TP_PHASE] = PHASE_ACTIVE
+            if st[TP_IHI] > st[TP_ILO]:
+                st[TP_DIR] = 1.0
+                out_v[k] = st[TP_LO]
+                out_i[k] = st[TP_ILO]
+                st[TP_CAND] = st[TP_HI]
+                st[TP_ICAND] = st[TP_IHI]
+            else:
+                st[TP_DIR] = -1.0
+                out_v[k] = st[TP_HI]
+                out_i[k] = st[TP_IHI]
+                st[TP_CAND] = st[TP_LO]
+                st[TP_ICAND] = st[TP_ILO]
+            k += 1
+        j += 1
+    if st[TP_PHASE] != PHASE_ACTIVE:
+        st[TP_OFFSET] = off + n
+        return k
+    # the active phase with its state in locals (one pass, nothing stored per sample)
+    cand = st[TP_CAND]
+    icand = int(st[TP_ICAND])
+    up = st[TP_DIR] > 0.0
+    base = int(off)
+    for jj in range(j, n):
+        v = x[jj]
+        if up:
             if v > cand:
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                cand = v
+                icand = base + jj
             elif cand - v > 0.0 and cand - v >= gate:
                 out_v[k] = cand
-                out_i[k] = st[TP_ICAND]
+                out_i[k] = icand
                 k += 1
-                st[TP_DIR] = -1.0
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                up = False
+                cand = v
+                icand = base + jj
         else:
             if v < cand:
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                cand = v
+                icand = base + jj
             elif v - cand > 0.0 and v - cand >= gate:
                 out_v[k] = cand
-                out_i[k] = st[TP_ICAND]
+                out_i[k] = icand
                 k += 1
-                st[TP_DIR] = 1.0
-                st[TP_CAND] = v
-                st[TP_ICAND] = gi
+                up = True
+                cand = v
+                icand = base + jj
+    st[TP_CAND] = cand
+    st[TP_ICAND] = icand
+    st[TP_DIR] = 1.0 if up else -1.0
     st[TP_OFFSET] = off + n
     return k
 
 
 @jit
-def rainflow_chunk(rv, ri, stack_v, stack_i, sp_arr, rng, mean, cnt, start, end):
+def rainflow_chunk(rv, ri, stack_v, stack_i, sp_arr, frm, to, cnt, start, end):
     """Push the reversals (values ``rv``, sample indices ``ri``) onto the open rainflow stack
     (``stack_v``, ``stack_i`` with ``sp_arr[0]`` points, updated in place) and write the cycles
-    that close into the output arrays (length ≥ len(rv) + the stack's size); returns how
-    many.  Three-point rule of ASTM E1049-85 §5.4.4 with the start point kept until it is
-    counted as a half cycle."""
+    that close (the loads of their first and second point, count, sample indices) into the
+    output arrays (length ≥ len(rv) + the stack's size); returns how many.
+    Three-point rule of ASTM E1049-85 §5.4.4 with the start point kept until it is counted as
+    a half cycle."""
     sp = int(sp_arr[0])
     nc = 0
     for j in range(rv.shape[0]):
@@ -125,9 +138,8 @@ def rainflow_chunk(rv, ri, stack_v, stack_i, sp_arr, rng, mean, cnt, start, end)
             else:
                 a, b = sp - 3, sp - 2
                 c = 1.0
-            va, vb = stack_v[a], stack_v[b]
-            rng[nc] = abs(vb - va)
-            mean[nc] = 0.5 * (va + vb)
+            frm[nc] = stack_v[a]
+            to[nc] = stack_v[b]
             cnt[nc] = c
             start[nc] = stack_i[a]
             end[nc] = stack_i[b]
@@ -143,6 +155,25 @@ def rainflow_chunk(rv, ri, stack_v, stack_i, sp_arr, rng, mean, cnt, start, end)
     return nc
 
 
+#: columns of a part of the cycle table handed to a sink: the table's columns, then the loads of
+#: each cycle's first and second point (the from–to matrix)
+PART_COLUMNS = ("range", "mean", "count", "start", "end", "from", "to")
+
+
+def _part(frm, to, cnt, start, end) -> dict:
+    """A part of the cycle table; range and mean as :func:`~cycj.spectrum.rainflow.
+    rainflow_cycles` computes them (|to − from| and (from + to)/2)."""
+    return {
+        "range": np.abs(to - frm),
+        "mean": 0.5 * (frm + to),
+        "count": cnt,
+        "start": start,
+        "end": end,
+        "from": frm,
+        "to": to,
+    }
+
+
 class StreamingCount:
     """Rainflow count of a history fed in chunks (open cycles carried between chunks).
 
@@ -151,6 +182,14 @@ class StreamingCount:
     gate : float
         Smallest range kept [unit of the values], ≥ 0 (as in
         :func:`cycj.spectrum.reversals.reversals`).
+    level : float, optional
+        Reference level for the irregularity factor [unit of the values] (the history's mean,
+        :func:`cycj.spectrum.statistics.history_mean`); when given, mean up-crossings and
+        peaks of the reversals are tallied (:meth:`irregularity`).
+    sink : callable, optional
+        Called with each part of the cycle table as it closes (a dict of arrays,
+        :data:`PART_COLUMNS`) instead of keeping the table; :meth:`finish` then returns only
+        ``n_reversals``.
 
     Examples
     --------
@@ -161,7 +200,7 @@ class StreamingCount:
     4.0
     """
 
-    def __init__(self, gate: float = 0.0):
+    def __init__(self, gate: float = 0.0, level: float | None = None, sink=None):
         gate = float(gate)
         if not (gate >= 0.0 and np.isfinite(gate)):
             raise ValueError(f"the gate must be a finite number >= 0, got {gate}")
@@ -170,10 +209,26 @@ class StreamingCount:
         self._stack_v = np.empty(64)
         self._stack_i = np.empty(64, dtype=np.int64)
         self._sp = np.zeros(1, dtype=np.int64)
-        self._parts: list[tuple] = []
+        self._parts: list[dict] = []
+        self._keep = sink is None
+        self._sink = self._parts.append if sink is None else sink
         self.samples = 0
         self.n_reversals = 0
         self._first_value = 0.0
+        self.level = None if level is None else float(level)
+        self._prev = None  # last reversal seen (irregularity tally)
+        self.ups = 0
+        self.rising = 0
+        self._last_rising = False
+
+    def _tally(self, rv):
+        seq = rv if self._prev is None else np.concatenate(([self._prev], rv))
+        if seq.shape[0] >= 2:
+            a, b = seq[:-1], seq[1:]
+            self.ups += int(np.count_nonzero((a < self.level) & (b >= self.level)))
+            self.rising += int(np.count_nonzero(b > a))
+            self._last_rising = bool(b[-1] > a[-1])
+        self._prev = float(seq[-1])
 
     def _push(self, rv, ri):
         need = int(self._sp[0]) + rv.shape[0] + 1
@@ -185,8 +240,10 @@ class StreamingCount:
         out = (np.empty(m), np.empty(m), np.empty(m), np.empty(m, np.int64), np.empty(m, np.int64))
         nc = rainflow_chunk(rv, ri, self._stack_v, self._stack_i, self._sp, *out)
         if nc:
-            self._parts.append(tuple(a[:nc].copy() for a in out))
+            self._sink(_part(*(a[:nc].copy() for a in out)))
         self.n_reversals += rv.shape[0]
+        if self.level is not None:
+            self._tally(rv)
 
     def feed(self, chunk) -> None:
         """Count the next chunk of samples (finite values, in time order)."""
@@ -209,7 +266,8 @@ class StreamingCount:
 
     def finish(self) -> dict:
         """The cycle table of everything fed (dict of arrays ``range, mean, count, start,
-        end`` and ``n_reversals``), the residue counted as half cycles."""
+        end``, ``from, to``, and ``n_reversals``), the residue counted as half cycles; with a
+        sink only ``n_reversals``."""
         st = self._tp
         if st[TP_PHASE] == PHASE_ACTIVE:  # the last candidate extreme is the last reversal
             self._push(np.array([st[TP_CAND]]), np.array([int(st[TP_ICAND])], dtype=np.int64))
@@ -219,25 +277,31 @@ class StreamingCount:
         sp = int(self._sp[0])
         sv, si = self._stack_v[:sp], self._stack_i[:sp]
         if sp > 1:
-            self._parts.append(
-                (
-                    np.abs(np.diff(sv)),
-                    0.5 * (sv[1:] + sv[:-1]),
+            self._sink(
+                _part(
+                    sv[:-1].copy(),
+                    sv[1:].copy(),
                     np.full(sp - 1, 0.5),
                     si[:-1].copy(),
                     si[1:].copy(),
                 )
             )
         self._sp[0] = 0
-        cols = ("range", "mean", "count", "start", "end")
-        dtypes = (float, float, float, np.int64, np.int64)
-        out = {
-            c: (
-                np.concatenate([p[k] for p in self._parts])
-                if self._parts
-                else np.empty(0, dtype=dt)
-            )
-            for k, (c, dt) in enumerate(zip(cols, dtypes, strict=True))
-        }
-        out["n_reversals"] = self.n_reversals
+        out = {"n_reversals": self.n_reversals}
+        if not self._keep:
+            return out
+        dtypes = (float, float, float, np.int64, np.int64, float, float)
+        for c, dt in zip(PART_COLUMNS, dtypes, strict=True):
+            out[c] = np.concatenate([p[c] for p in self._parts]) if self._parts else np.empty(0, dt)
         return out
+
+    def irregularity(self) -> float:
+        """Irregularity factor of everything fed (after :meth:`finish`): mean up-crossings of
+        the reversals over their peaks, the two ends excluded, as
+        :func:`cycj.spectrum.statistics.irregularity_factor`; NaN without a peak."""
+        if self.level is None:
+            raise ValueError("no level was given")
+        if self.n_reversals < 3:
+            return float("nan")
+        peaks = self.rising - int(self._last_rising)
+        return self.ups / peaks if peaks else float("nan")

@@ -7,17 +7,13 @@ from pathlib import Path
 import numpy as np
 
 from cycj.spectrum.rainflow import CYCLE_COLUMNS
-from cycj.spectrum.statistics import (
-    from_to_matrix,
-    irregularity_factor,
-    matrix_frame,
-    range_exceedance,
-    range_mean_matrix,
-)
+from cycj.spectrum.statistics import irregularity_factor, matrix_frame
 
 #: files written by :func:`write_count_outputs`
 OUTPUT_FILES = (
     "cycles.csv",
+    "cycles.parquet",
+    "exceedance.parquet",
     "range_mean_matrix.csv",
     "from_to_matrix.csv",
     "exceedance.csv",
@@ -54,19 +50,38 @@ def count_summary(
         irregularity_factor, gate, repeat, unit``.
     """
     count = cycles["count"]
-    full = int(np.count_nonzero(count == 1.0))
-    half = int(np.count_nonzero(count == 0.5))
     n = int(values.shape[0])
-    irr = irregularity_factor(values, gate) if n else float("nan")
+    return summary_of_totals(
+        samples=n,
+        reversals=int(cycles["n_reversals"]),
+        full=int(np.count_nonzero(count == 1.0)),
+        half=int(np.count_nonzero(count == 0.5)),
+        largest_range=float(cycles["range"].max()) if count.size else 0.0,
+        vmax=float(values.max()) if n else None,
+        vmin=float(values.min()) if n else None,
+        irregularity=irregularity_factor(values, gate) if n else float("nan"),
+        gate=gate,
+        repeat=repeat,
+        unit=unit,
+    )
+
+
+def summary_of_totals(
+    samples, reversals, full, half, largest_range, vmax, vmin, irregularity, gate, repeat, unit
+) -> dict:
+    """The summary of :func:`count_summary` from running totals (the streaming count's):
+    sample and reversal numbers, full and half cycles, the largest range, the history's max and
+    min [``unit``] and its irregularity factor (NaN: none)."""
+    irr = irregularity
     return {
-        "samples": n,
-        "reversals": int(cycles["n_reversals"]),
-        "full_cycles": full,
-        "half_cycles": half,
+        "samples": int(samples),
+        "reversals": int(reversals),
+        "full_cycles": int(full),
+        "half_cycles": int(half),
         "cycles": full + 0.5 * half,
-        "largest_range": float(cycles["range"].max()) if count.size else 0.0,
-        "max": float(values.max()) if n else None,
-        "min": float(values.min()) if n else None,
+        "largest_range": float(largest_range),
+        "max": vmax,
+        "min": vmin,
         "irregularity_factor": None if np.isnan(irr) else round(float(irr), 6),
         "gate": float(gate),
         "repeat": bool(repeat),
@@ -100,6 +115,7 @@ def write_count_outputs(
     times=None,
     bins: int = 32,
     plots: bool = True,
+    cycles_format: str = "auto",
 ) -> list[Path]:
     """Write the cycle table, the rainflow matrices, the exceedance table and three PNGs.
 
@@ -122,25 +138,76 @@ def write_count_outputs(
         Bins on each axis of the matrices.
     plots : bool
         Write the three PNG plots.
+    cycles_format : {"auto", "csv", "parquet"}
+        Format of the cycle and exceedance tables; ``"auto"``: Parquet beyond
+        :data:`CYCLES_PARQUET_ROWS` cycles.
 
     Returns
     -------
     list of pathlib.Path
         The files written (temporary paths; same names in the final folder).
     """
-    import pandas as pd
+    from cycj.spectrum.cycle_parts import PREVIEW_SAMPLES, CycleParts, part_from_cycles
+
+    parts = CycleParts()
+    parts.add(part_from_cycles(values, cycles))
+    n = int(values.shape[0])
+    limits = (float(values.min()), float(values.max())) if n else (0.0, 1.0)
+    preview_t = None if times is None else np.asarray(times)[:PREVIEW_SAMPLES]
+    return write_count_files(
+        od,
+        parts,
+        n,
+        limits,
+        values[:PREVIEW_SAMPLES],
+        preview_t,
+        unit,
+        bins,
+        plots,
+        cycles_format,
+    )
+
+
+#: cycles beyond which ``cycles_format="auto"`` writes the per-cycle tables as Parquet
+CYCLES_PARQUET_ROWS = 10_000_000
+
+
+def write_count_files(
+    od, parts, samples, limits, preview, preview_times, unit, bins, plots, cycles_format="auto"
+) -> list[Path]:
+    """The count's files from a :class:`cycj.spectrum.cycle_parts.CycleParts` (in memory or
+    spilled), part by part: what :func:`write_count_outputs` writes, for the in-memory and the
+    streaming count alike.
+
+    Parameters
+    ----------
+    samples : int
+        Samples in the history.
+    limits : (float, float)
+        The history's minimum and maximum [``unit``] (the from–to bins).
+    preview, preview_times : numpy.ndarray
+        The first samples of the history [``unit``] and their times [s] (or None) for the plot.
+    Other parameters as :func:`write_count_outputs`.
+    """
 
     from cycj.spectrum import plots as P
 
+    if cycles_format not in ("auto", "csv", "parquet"):
+        raise ValueError(f"unknown cycles format {cycles_format!r}")
+    fmt_out = cycles_format
+    if fmt_out == "auto":
+        fmt_out = "parquet" if parts.n > CYCLES_PARQUET_ROWS else "csv"
     suffix = f"_{unit}" if unit else ""
-    table = pd.DataFrame({k: cycles[k] for k in CYCLE_COLUMNS})
-    rm, r_edges, m_edges = range_mean_matrix(
-        cycles["range"], cycles["mean"], cycles["count"], bins, bins
-    )
-    ft, edges = from_to_matrix(values, cycles["start"], cycles["end"], cycles["count"], bins)
-    levels, cum = range_exceedance(cycles["range"], cycles["count"])
+    ext = "." + fmt_out
     fmt = "%.10g"
-    written = [od.write_csv("cycles.csv", table, float_format=fmt)]
+    with _TableWriter(od.path("cycles" + ext), fmt_out, fmt) as tw:
+        for p in parts.parts(CYCLE_COLUMNS):
+            tw.write(p)
+        if tw.empty:
+            tw.write({c: cycles_dtype(c) for c in CYCLE_COLUMNS})
+    written = [od.path("cycles" + ext)]
+    rm, r_edges, m_edges = parts.range_mean_matrix(bins)
+    ft, edges = parts.from_to_matrix(bins, limits)
     for name, frame in (
         (
             "range_mean_matrix.csv",
@@ -150,22 +217,83 @@ def write_count_outputs(
     ):
         frame.to_csv(od.path(name), float_format=fmt)
         written.append(od.path(name))
-    written.append(
-        od.write_csv(
-            "exceedance.csv",
-            pd.DataFrame({f"range{suffix}": levels, "cycles_exceeding": cum}),
-            float_format=fmt,
-        )
-    )
+    stride = max(1, -(-parts.n // EXCEEDANCE_PLOT_POINTS))
+    shown_lv, shown_cum, row = [], [], 0
+    cols = (f"range{suffix}", "cycles_exceeding")
+    with _TableWriter(od.path("exceedance" + ext), fmt_out, fmt) as tw:
+        for lv, cum in parts.exceedance_blocks():
+            tw.write({cols[0]: lv, cols[1]: cum})
+            keep = (np.arange(row, row + lv.shape[0]) % stride) == 0
+            keep[-1] = True
+            shown_lv.append(lv[keep])
+            shown_cum.append(cum[keep])
+            row += lv.shape[0]
+        if tw.empty:
+            tw.write({cols[0]: np.empty(0), cols[1]: np.empty(0)})
+    written.append(od.path("exceedance" + ext))
     if plots:
-        rev_idx = np.unique(np.concatenate((cycles["start"], cycles["end"])) % max(len(values), 1))
         P.plot_history(
-            values, od.path("history.png"), times=times, unit=unit, reversal_indices=rev_idx
+            preview,
+            od.path("history.png"),
+            times=preview_times,
+            unit=unit,
+            reversal_indices=parts.reversal_marks(),
+            total=samples,
         )
+        levels = np.concatenate(shown_lv) if shown_lv else np.empty(0)
+        cum = np.concatenate(shown_cum) if shown_cum else np.empty(0)
         P.plot_exceedance(levels, cum, od.path("exceedance.png"), unit=unit, kind="range")
         P.plot_rainflow_matrix(rm, r_edges, m_edges, od.path("rainflow_matrix.png"), unit=unit)
         written += [od.path(n) for n in ("history.png", "exceedance.png", "rainflow_matrix.png")]
     return written
+
+
+#: exceedance points kept for the plot (every k-th row, and each block's last)
+EXCEEDANCE_PLOT_POINTS = 20_000
+
+
+def cycles_dtype(column: str) -> np.ndarray:
+    """An empty column of the cycle table with its dtype."""
+    return np.empty(0, dtype=np.int64 if column in ("start", "end") else np.float64)
+
+
+class _TableWriter:
+    """A table written part by part (dicts of equal-length arrays) as CSV (header once) or
+    Parquet (one row group a part, no dictionary encoding)."""
+
+    def __init__(self, path, fmt: str, float_format: str):
+        self.path, self.fmt, self.float_format = Path(path), fmt, float_format
+        self.empty = True
+        self._pq = None
+
+    def __enter__(self):
+        return self
+
+    def write(self, columns: dict) -> None:
+        if self.fmt == "csv":
+            import pandas as pd
+
+            pd.DataFrame(columns, copy=False).to_csv(
+                self.path,
+                index=False,
+                float_format=self.float_format,
+                mode="w" if self.empty else "a",
+                header=self.empty,
+            )
+        else:
+            import pyarrow as pa
+            import pyarrow.parquet as pq
+
+            table = pa.table(columns)
+            if self._pq is None:
+                self._pq = pq.ParquetWriter(self.path, table.schema, use_dictionary=False)
+            self._pq.write_table(table)
+        self.empty = False
+
+    def __exit__(self, *exc):
+        if self._pq is not None:
+            self._pq.close()
+        return False
 
 
 def count_answer(summary: dict) -> str:
