@@ -322,6 +322,7 @@ def _parse(text: str, kind: str, key: str, source: str | None) -> float:
         return fast
     try:
         number, unit = split_quantity(text)
+        spelled = normalize_unit(unit) if unit else ""
     except _UnitSyntax as exc:
         raise CycjInputError(
             f"cannot read the quantity ({exc}): give one number and one unit",
@@ -336,16 +337,6 @@ def _parse(text: str, kind: str, key: str, source: str | None) -> float:
         )
     if not unit:
         return number
-    try:
-        spelled = normalize_unit(unit)
-    except _UnitSyntax as exc:
-        raise CycjInputError(
-            f"cannot read the quantity ({exc}): give one number and one unit",
-            source=source,
-            key=key,
-            expected=human,
-            found=text,
-        ) from None
     return number * _pint_factor(spelled, kind, key, source, text)
 
 
