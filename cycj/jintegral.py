@@ -163,9 +163,8 @@ def reference_stress_delta_j_scalar(dj_el, dsig_ref, e_mod, k_prime, n_prime, u)
 
 @jit
 def reference_stress_delta_j_hoisted(dj_el, dsig_ref, e_mod, k_prime, n_prime, u, sy_cyc, inv_n):
-    """:func:`reference_stress_delta_j_scalar` with the loop invariants of the cyclic curve
-    given: ``sy_cyc`` = K'·0.002^n' [MPa] and ``inv_n`` = 1/n' (the stepper holds them in its
-    model array)."""
+    """:func:`reference_stress_delta_j_scalar` given the loop invariants ``sy_cyc`` = K'·0.002^n'
+    [MPa] and ``inv_n`` = 1/n' (held in the stepper's model array)."""
     if dsig_ref <= 0.0:
         return u * u * dj_el
     dep = 2.0 * (0.5 * dsig_ref / k_prime) ** inv_n  # masing_plastic_strain_range
@@ -173,13 +172,7 @@ def reference_stress_delta_j_hoisted(dj_el, dsig_ref, e_mod, k_prime, n_prime, u
     lr_cyc = dsig_ref / (2.0 * sy_cyc)
     elastic_part = dj_el * (1.0 + 0.5 * lr_cyc * lr_cyc * dsig_ref / (e_mod * de_ref))
     plastic_part = dj_el * e_mod * dep / dsig_ref
-    x = 1.0 - u  # plastic_fraction_scalar with 1/n' given
-    f_pl = (
-        1.0
-        if x <= 0.0
-        else (0.0 if x >= 1.0 else 1.0 - (1.0 + n_prime) * x + n_prime * x ** (1.0 + inv_n))
-    )
-    return u * u * elastic_part + f_pl * plastic_part
+    return u * u * elastic_part + plastic_fraction_scalar(u, n_prime) * plastic_part
 
 
 @jit
