@@ -107,7 +107,7 @@ def stepper_vs_c(n_block=200_000, blocks=10):
     print(
         f"plain C (gcc -O2): {t_c:.3f} s = {n / t_c / 1e6:.2f} M cycles/s; a = {float(c_a):.9f} mm"
     )
-    print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.8)")
+    print(f"throughput ratio cycj/C = {t_c / t_py:.2f} (target ≥ 0.9)")
     for name, code in (("Wheeler", 1), ("Willenborg", 2)):
         mp_s = mp.copy()
         mp_s[M.SEQ_MODEL], mp_s[M.SEQ_EXPONENT], mp_s[M.SEQ_SHUT_OFF] = code, 1.3, 3.0

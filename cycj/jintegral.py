@@ -156,11 +156,19 @@ def reference_stress_delta_j_scalar(dj_el, dsig_ref, e_mod, k_prime, n_prime, u)
     ΔJ_eff = U²·ΔJ_el·[1 + ½L_r,cyc²·Δσ_ref/(EΔε_ref)] + f_pl·ΔJ_el·EΔε_p,ref/Δσ_ref,
     Δε_ref = Δσ_ref/E + 2(Δσ_ref/2K')^(1/n'), L_r,cyc = Δσ_ref/(2σ'_y), σ'_y = K'·0.002^n'.
     """
+    return reference_stress_delta_j_hoisted(
+        dj_el, dsig_ref, e_mod, k_prime, n_prime, u, k_prime * 0.002**n_prime, 1.0 / n_prime
+    )
+
+
+@jit
+def reference_stress_delta_j_hoisted(dj_el, dsig_ref, e_mod, k_prime, n_prime, u, sy_cyc, inv_n):
+    """:func:`reference_stress_delta_j_scalar` given the loop invariants ``sy_cyc`` = K'·0.002^n'
+    [MPa] and ``inv_n`` = 1/n' (held in the stepper's model array)."""
     if dsig_ref <= 0.0:
         return u * u * dj_el
-    dep = masing_plastic_strain_range(dsig_ref, k_prime, n_prime)
+    dep = 2.0 * (0.5 * dsig_ref / k_prime) ** inv_n  # masing_plastic_strain_range
     de_ref = dsig_ref / e_mod + dep
-    sy_cyc = k_prime * 0.002**n_prime
     lr_cyc = dsig_ref / (2.0 * sy_cyc)
     elastic_part = dj_el * (1.0 + 0.5 * lr_cyc * lr_cyc * dsig_ref / (e_mod * de_ref))
     plastic_part = dj_el * e_mod * dep / dsig_ref

@@ -61,7 +61,11 @@ CH_SECONDARY = CH_PB + MAX_CHANNELS
 #: criterion (``inf`` and END_SIZE when unknown)
 A_CRIT = CH_SECONDARY + MAX_CHANNELS
 CRIT_CODE = A_CRIT + 1
-N_MP = CRIT_CODE + 1
+#: loop invariants of the cyclic curve, filled once by cycj.life.model_array: the cyclic yield
+#: K'·0.002^n' [MPa] and 1/n'
+SY_CYC = CRIT_CODE + 1
+INV_N_CYC = SY_CYC + 1
+N_MP = INV_N_CYC + 1
 #: finite-element J table (j_method "finite-element", cycj.fe.lookup): number of crack sizes,
 #: levels per size, then the table itself; cycj.life.model_array appends them (from FE_NA on)
 #: only for that method, so they lie beyond the base length N_MP

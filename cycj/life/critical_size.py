@@ -66,13 +66,14 @@ def tearing_margin_kernel(lmax, i_peak, a, a_hi, c1, c2, code, gp, ct, mp, n_poi
     span = a_hi - a
     if span <= 0.0:
         return -np.inf
-    zeros = 0.0 * lmax
+    row = lmax[i_peak : i_peak + 1]  # the peak cycle only, loaded from zero
+    zeros = 0.0 * row
     best = -np.inf
     lo = np.log(1e-4)
     step = (np.log(span) - lo) / (n_points - 1) if span > 1e-4 else 0.0
     for k in range(n_points):
         da = np.exp(lo + step * k) if step > 0.0 else span
-        jmax = cycle_driving_force(lmax, zeros, i_peak, min(a + da, a_hi), code, gp, ct, mp)[1]
+        jmax = cycle_driving_force(row, zeros, 0, min(a + da, a_hi), code, gp, ct, mp)[1]
         best = max(best, c1 * da**c2 - jmax)
     return best
 

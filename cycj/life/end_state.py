@@ -19,12 +19,21 @@ from cycj.life.model import size_limit
 from cycj.material import curve_consistency_warnings
 
 
+def block_pass(case, loads, mp, a):
+    """:func:`stepper.block_growth` at crack size ``a``: one pass over the whole block."""
+    geo = case.geometry
+    return K.block_growth(loads.lmax, loads.lmin, a, geo.code, geo.params, loads.ct, mp)
+
+
+def row_of(res, loads):
+    """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) from a :func:`block_pass` result."""
+    g, djeq, jmx, lrmx, djmax = res
+    return djmax, djeq, jmx, lrmx, g / loads.n
+
+
 def peak_row(case, loads, mp, a):
     """(largest ΔJ_eff, ΔJ_eq, J_max, L_r, mean da/dN) of the block at crack size a, frozen."""
-    g, djeq, jmx, lrmx, djmax = K.block_growth(
-        loads.lmax, loads.lmin, a, case.geometry.code, case.geometry.params, loads.ct, mp
-    )
-    return djmax, djeq, jmx, lrmx, g / loads.n
+    return row_of(block_pass(case, loads, mp, a), loads)
 
 
 def peak(case, loads, mp, a):
@@ -63,7 +72,9 @@ def tripped(case, loads, mp, reason, val, a):
     return rows
 
 
-def end_values(case, loads, mp, reason, val, a_end, cycles):
+def end_values(case, loads, mp, reason, val, a_end, cycles, last_pass=None):
+    """End values of the run; ``last_pass``: :func:`block_pass` at ``a_end`` if already
+    computed (the history's last row)."""
     geo = case.geometry
     dj, jmax, lr, jel, _, _ = K.peak_state(
         loads.lmax, loads.i_peak, a_end, geo.code, geo.params, loads.ct, mp
@@ -103,7 +114,9 @@ def end_values(case, loads, mp, reason, val, a_end, cycles):
         out.update(max_cycles=float(case.run.max_cycles))
     elif reason == "no-growth":
         out.update(
-            dJ_eff_max_kJm2=float(peak_row(case, loads, mp, a_end)[0]),
+            dJ_eff_max_kJm2=float(
+                (row_of(last_pass, loads) if last_pass else peak_row(case, loads, mp, a_end))[0]
+            ),
             threshold_kJm2=float(mp[M.DJ_TH]),
         )
     return out

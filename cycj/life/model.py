@@ -82,6 +82,8 @@ def model_array(
     mp[M.K_CYC], mp[M.N_CYC] = (
         (cyc.strength_coefficient, cyc.hardening_exponent) if cyc else (1.0, 0.5)
     )
+    mp[M.SY_CYC] = mp[M.K_CYC] * 0.002 ** mp[M.N_CYC]  # hoisted out of the stepper's loop
+    mp[M.INV_N_CYC] = 1.0 / mp[M.N_CYC]
     peak = mat.peak_curve
     # without any curve J_max is taken elastic: an enormous K makes the plastic term vanish
     mp[M.K_PEAK], mp[M.N_PEAK] = (

@@ -91,8 +91,9 @@ class LifeResult:
 
 
 # ------------------------------------------------------------------------------ running
-def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, str]:
-    """'cycle' or 'block' and why."""
+def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit, first=None) -> tuple[str, str]:
+    """'cycle' or 'block' and why.  ``first``: :func:`stepper.block_growth` at ``a0`` (the
+    block's first history row), computed once by the caller."""
     requested = case.run.method
     if case.geometry.two_d:
         if requested == "block":
@@ -116,14 +117,18 @@ def _choose_method(case: Case, loads: BlockLoads, mp, a0, a_crit) -> tuple[str, 
         return "cycle", "a sequence model needs the cycle stepper"
     if requested != "auto":
         return requested, "requested"
-    g0 = K.block_growth(
-        loads.lmax, loads.lmin, a0, case.geometry.code, case.geometry.params, loads.ct, mp
-    )[0]
+    g0 = first[0]
     if g0 <= 0:
         return "cycle", "no growth in the first block"
     if g0 < 0.002 * (a_crit - a0) and g0 < 1e-3 * a0:
         return "block", "each block grows the crack by less than 0.1 % of its size"
     return "cycle", "a block grows the crack noticeably"
+
+
+def _block_possible(case: Case) -> bool:
+    """Whether block mode may be used (else the first block pass is needed only for the
+    history's first row, computed then)."""
+    return not case.geometry.two_d and case.loading.sequence == "none"
 
 
 def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
@@ -210,7 +215,9 @@ def predict_life(
         mp[M.A_CRIT] = a_crit
         mp[M.CRIT_CODE] = END_CODES[crit_reason]
     warnings = ES.input_warnings(case, loads, mp, a0, a_crit)
-    used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001))
+    # the whole block at a0, passed over once: method choice, block table and first row
+    first_pass = ES.block_pass(case, loads, mp, a0) if _block_possible(case) else None
+    used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001), first_pass)
     max_cycles = float(case.run.max_cycles)
     rec_da = max((a_crit - a0) / history_rows, 1e-9)
     rows = []
@@ -220,7 +227,7 @@ def predict_life(
     if used == "block" and a_crit > a0:
         cited.cite("block-integration")
         state[M.ST_A], state[M.ST_BLOCKS], rows = block_phase(
-            case, loads, mp, a0, a_crit, max_cycles
+            case, loads, mp, a0, a_crit, max_cycles, first_pass
         )
         state[M.ST_CYCLES] = state[M.ST_BLOCKS] * loads.n
         rows = [(*r, state[M.ST_C]) for r in rows]
@@ -233,8 +240,11 @@ def predict_life(
             f"closure model range: R or S_max/σ_flow was clipped in {clipped:.3g} "
             "cycles (Elber −0.1 ≤ R ≤ 0.7; Newman R ≥ −1, S_max/σ_0 ≤ 0.8)"
         )
-    first = (0.0, 0.0, a0, *ES.peak_row(case, loads, mp, a0), geo.dims.get("half_length", 0.0))
-    last = (cycles, blocks, a_end, *ES.peak_row(case, loads, mp, a_end), state[M.ST_C])
+    if first_pass is None:
+        first_pass = ES.block_pass(case, loads, mp, a0)
+    last_pass = first_pass if a_end == a0 else ES.block_pass(case, loads, mp, a_end)
+    first = (0.0, 0.0, a0, *ES.row_of(first_pass, loads), geo.dims.get("half_length", 0.0))
+    last = (cycles, blocks, a_end, *ES.row_of(last_pass, loads), state[M.ST_C])
     hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)
     if not mp[M.TWO_D]:
         hist = hist.drop(columns="c_mm")
@@ -250,7 +260,7 @@ def predict_life(
         "title": case.title,
         "cycles_to_end": float(cycles),
         "end_reason": reason,
-        "end_values": ES.end_values(case, loads, mp, reason, val, a_end, cycles),
+        "end_values": ES.end_values(case, loads, mp, reason, val, a_end, cycles, last_pass),
         "end_criteria_tripped": tripped,
         "initially_critical": bool(a_crit <= a0),
         "initial_criteria_tripped": a_crit_first,

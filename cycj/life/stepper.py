@@ -43,7 +43,7 @@ from cycj.jintegral import (
     SMALL_CRACK,
     j_peak_scalar,
     plastic_fraction_scalar,
-    reference_stress_delta_j_scalar,
+    reference_stress_delta_j_hoisted,
     shape_small_crack_delta_j_scalar,
 )
 from cycj.kernel_slots import (
@@ -62,6 +62,7 @@ from cycj.kernel_slots import (
     E_PRIME,
     FLOW_RATIO,
     INCLUDE_COMP,
+    INV_N_CYC,
     J_C,
     J_METHOD,
     K_CYC,
@@ -85,6 +86,7 @@ from cycj.kernel_slots import (
     ST_CYCLES,
     ST_K_OL,
     ST_Z_OL,
+    SY_CYC,
     U_CONST,
     ZONE_BETA,
 )
@@ -123,8 +125,15 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=
     k_used = kmax
     lr = lr_max
     if jm == REFERENCE_STRESS:
-        dj = reference_stress_delta_j_scalar(
-            dj_el, lr_range * mp[SIGMA_Y], mp[E_MOD], mp[K_CYC], mp[N_CYC], u
+        dj = reference_stress_delta_j_hoisted(
+            dj_el,
+            lr_range * mp[SIGMA_Y],
+            mp[E_MOD],
+            mp[K_CYC],
+            mp[N_CYC],
+            u,
+            mp[SY_CYC],
+            mp[INV_N_CYC],
         )
     elif jm == SMALL_CRACK:
         dj = shape_small_crack_delta_j_scalar(dk, ds, mp[E_PRIME], mp[K_CYC], mp[N_CYC], u)
@@ -460,18 +469,21 @@ def block_growth_table(lmax, lmin, a_grid, code, gp, ct, mp, out):
 @jit
 def peak_state(lmax, i_peak, a, code, gp, ct, mp):
     """ΔJ, J_max, L_r, J_el at peak and clip flag under the block's peak cycle ``i_peak``
-    loaded from zero (the history's peak load) at crack size ``a``."""
-    return cycle_driving_force(lmax, 0.0 * lmax, i_peak, a, code, gp, ct, mp)
+    loaded from zero (the history's peak load) at crack size ``a``.  Only the peak row is
+    copied (a zero array of one row, not of the whole block)."""
+    row = lmax[i_peak : i_peak + 1]
+    return cycle_driving_force(row, 0.0 * row, 0, a, code, gp, ct, mp)
 
 
 @jit
 def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
     """Index of the first crack size in ``a_grid`` at which an end criterion trips under the
     history's peak load (−1 if none), and its end code."""
-    zeros = 0.0 * lmax
+    row = lmax[i_peak : i_peak + 1]
+    zeros = 0.0 * row
     for k in range(a_grid.shape[0]):
         dj, jmax, lr, jel, clipped, rho = cycle_driving_force(
-            lmax, zeros, i_peak, a_grid[k], code, gp, ct, mp
+            row, zeros, 0, a_grid[k], code, gp, ct, mp
         )
         end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
         if end != RUNNING:

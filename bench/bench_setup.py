@@ -1,0 +1,95 @@
+"""Benchmark of the set-up of a life run on a long measured history (ratios measured in one
+run; not a test).
+
+A random history of 10⁷ cycles per block (stored as ``.npy`` in a temporary folder) on an edge
+crack: the wall time of ``predict_life`` with ``auto`` and with ``block`` against ``cycle`` on a
+life of a few blocks, and the wall time of ``auto`` on a life of about 10¹⁰ cycles (block mode).
+
+Run: python bench/bench_setup.py [cycles_per_block]
+"""
+
+import os
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE.parent))
+
+from cycj.case import case_from_dict  # noqa: E402
+from cycj.life import predict_life  # noqa: E402
+
+
+def make_case(folder: Path, n_cycles: int, growth_c: float):
+    """Edge-crack plate under a random history of ``n_cycles`` cycles (peaks 60–100 MPa,
+    valleys 0–30 MPa, alternating, so every cycle is a reversal pair)."""
+    rng = np.random.default_rng(7)
+    hist = np.empty(2 * n_cycles)
+    hist[0::2] = rng.uniform(60.0, 100.0, n_cycles)
+    hist[1::2] = rng.uniform(0.0, 30.0, n_cycles)
+    np.save(folder / "history.npy", hist)
+    return case_from_dict(
+        {
+            "material": {
+                "elastic_modulus": "200 GPa",
+                "yield_strength": "350 MPa",
+                "tensile_strength": "500 MPa",
+                "cyclic_curve": {"strength_coefficient": "900 MPa", "hardening_exponent": 0.15},
+                "growth": {"C": growth_c, "m": 1.6},
+            },
+            "geometry": {
+                "shape": "edge-crack-plate",
+                "width": "40 mm",
+                "thickness": "10 mm",
+                "crack_length": "2 mm",
+            },
+            "loading": {"history": "history.npy", "unit": "MPa"},
+            "run": {"criteria": ["collapse", "size-limit"], "max_cycles": 1e15},
+        },
+        base=folder,
+    )
+
+
+def timed(case, method):
+    t = time.perf_counter()
+    res = predict_life(case, method=method)
+    return time.perf_counter() - t, res.summary
+
+
+def main(n_cycles=10_000_000):
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        # C = 2e-5 gives a life of about 1.37e6 cycles: scale it to ~5 blocks and ~1e10 cycles
+        short = make_case(folder, n_cycles, 2e-5 * 1.37e6 / (5.0 * n_cycles))
+        predict_life(short, method="cycle")  # compile / load kernels, warm the file cache
+        t_cycle, s_cycle = timed(short, "cycle")
+        t_auto, s_auto = timed(short, "auto")
+        t_block, s_block = timed(short, "block")
+        print(
+            f"{n_cycles:.3g} cycles per block, life {s_cycle['blocks_to_end']:.3g} blocks "
+            f"({s_cycle['end_reason']}): cycle {t_cycle:.2f} s; auto ({s_auto['method']}) "
+            f"{t_auto:.2f} s; block {t_block:.2f} s"
+        )
+        print(
+            f"ratio auto/cycle = {t_auto / t_cycle:.2f} (target ≤ 1.2); "
+            f"block/cycle = {t_block / t_cycle:.2f} (target ≤ 2)"
+        )
+        print(
+            f"  a_end: cycle {s_cycle['a_end_mm']:.6g} mm, block {s_block['a_end_mm']:.6g} mm; "
+            f"cycles: cycle {s_cycle['cycles_to_end']:.6g}, block {s_block['cycles_to_end']:.6g}"
+        )
+        long = make_case(folder, n_cycles, 2e-5 * 1.37e6 / 1e10)
+        t_long, s_long = timed(long, "auto")
+        print(
+            f"auto on {s_long['cycles_to_end']:.3g} cycles ({s_long['blocks_to_end']:.3g} "
+            f"blocks, {s_long['method']}: {s_long['method_reason']}) in {t_long:.1f} s "
+            "(target < 60 s)"
+        )
+
+
+if __name__ == "__main__":
+    os.environ.setdefault("MPLBACKEND", "Agg")
+    main(int(float(sys.argv[1])) if len(sys.argv) > 1 else 10_000_000)
