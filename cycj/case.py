@@ -1,7 +1,7 @@
 """Case files (TOML) → validated, typed objects in internal units, with one-line errors.
 
-The keys are the contract of DESIGN.md; see ``examples/`` for complete cases.  Paths inside a
-case are relative to the case file.
+The keys are listed in README.md ("Case files"); see ``examples/`` for complete cases.
+Paths inside a case are relative to the case file.
 """
 
 from __future__ import annotations

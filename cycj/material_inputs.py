@@ -1,5 +1,5 @@
 """The ``[material]`` table of a case file → :class:`~cycj.material.Material` and the growth law,
-in internal units, with one-line errors (keys in README's key table and DESIGN.md)."""
+in internal units, with one-line errors (keys in README.md, "Case files")."""
 
 from __future__ import annotations
 

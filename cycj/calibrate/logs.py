@@ -1,6 +1,6 @@
 """Reading fatigue crack growth test logs (CSV) into plain arrays in internal units.
 
-Two layouts (DESIGN.md, "Test logs for calibration"):
+Two layouts (README.md, "Calibration from replicate tests"):
 
 * raw loops: ``cycle, load, displacement`` — every recorded cycle a run of samples round its
   loop (rows of one cycle are contiguous);

@@ -1,6 +1,6 @@
 """The specimen file of a fatigue crack growth test (TOML) → :class:`Specimen`.
 
-Keys (DESIGN.md, "Test logs for calibration"): shape, width, thickness, net_thickness,
+Keys (README.md, "Calibration from replicate tests"): shape, width, thickness, net_thickness,
 crack_length (initial), constraint, elastic_modulus, poisson_ratio, yield_strength, optional
 tensile_strength and cyclic_curve {strength_coefficient, hardening_exponent}, span (SE(B)),
 displacement_at, log_units {load, displacement, crack_length}.  Added here: final_crack_length

@@ -192,7 +192,7 @@ def predict_life(
 
     Returns
     -------
-    LifeResult with ``summary`` (dict, DESIGN.md contract) and ``history`` (DataFrame with
+    LifeResult with ``summary`` (dict, the output keys of README.md) and ``history`` (DataFrame with
     ``cycle, block, a_mm, dJ_kJm2, dJ_eq_kJm2, Jmax_kJm2, Lr, dadN_mm_per_cycle``).
     """
     import pandas as pd

@@ -1,5 +1,5 @@
 """Every bundled life example runs, and block integration agrees with the cycle stepper
-(DESIGN: block mode must agree with the stepper; tolerance 0.5 % as set in issue #4)."""
+(docs/references.md R34; tolerance 0.5 %, common practice)."""
 
 from pathlib import Path
 

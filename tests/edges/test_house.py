@@ -142,8 +142,8 @@ def test_wings_have_named_orchestrators_and_writers():
 
 def test_no_citation_of_documents_outside_the_repository():
     pattern = re.compile(
-        r"REFERENCE (item|§|\d)|REFERENCE\.md|\.\./shared|shared/(DESIGN|"
-        r"REFERENCE|STYLE)"
+        r"REFERENCE (item|§|\d)|REFERENCE\.md|DESIGN\.md|STYLE\.md|\bDESIGN\b|\.\./shared|"
+        r"shared/(DESIGN|REFERENCE|STYLE)"
     )
     bad = []
     for folder in ("cycj", "tests", "bench", "examples", "docs"):

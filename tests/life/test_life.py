@@ -84,7 +84,8 @@ def test_compact_tension_elastic_matches_independent_integration():
 
 
 def test_constant_closure_scales_life_by_u_power():
-    # elastic ΔJ: ΔJ_eff = U²ΔJ, so N ∝ U^(−2m) exactly (DESIGN closure rule)
+    # elastic ΔJ: ΔJ_eff = U²ΔJ, so N ∝ U^(−2m) exactly (Elber's effective range,
+    # docs/references.md R12)
     law = {"law": "paris", "C": 1e-4, "m": 1.6, "basis": "effective"}
     n1 = predict_life(make_case(material={"growth": law})).summary["cycles_to_end"]
     n2 = predict_life(

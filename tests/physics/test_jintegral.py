@@ -41,13 +41,15 @@ def test_small_crack_dowling_check_value():
 
 
 def test_small_crack_elastic_limit():
-    # DESIGN limit: with no plastic strain the estimate is its own elastic term 1.6·Δσ²·a/E
+    # Dowling 1977 limit (docs/references.md R9): with no plastic strain the estimate is its
+    # own elastic term 1.6·Δσ²·a/E
     m = Material(200e3, 0.3, 350.0, None, StressStrainCurve(1e9, 0.15))
     assert J.small_crack_delta_j(2.0, 300.0, m) == pytest.approx(1.6 * 300**2 * 2 / 200e3, rel=1e-9)
 
 
 def test_reference_stress_limits():
-    # DESIGN exact limits: vanishing plastic strain → ΔJ_el(1 + ½L_r,cyc²); load → 0 → ΔJ_el
+    # Ainsworth 1984 exact limits (docs/references.md R10): vanishing plastic strain →
+    # ΔJ_el(1 + ½L_r,cyc²); load → 0 → ΔJ_el
     m = Material(200e3, 0.3, 350.0, None, StressStrainCurve(1e12, 0.15))
     dsig = 300.0
     lr_cyc = J.lr_cyclic(dsig, m.cyclic_curve)
@@ -60,7 +62,8 @@ def test_reference_stress_limits():
 
 
 def test_plastic_fraction_limits_and_integral():
-    # f_pl(1) = 1, f_pl(0) = 0, f_pl → U² as n' → 1 (DESIGN); and equal to the numerical share
+    # f_pl(1) = 1, f_pl(0) = 0, f_pl → U² as n' → 1 (Masing branch, docs/references.md R18);
+    # and equal to the numerical share
     # of the Masing branch's plastic work ∫ (s − s_op) dε_p above the opening level (Dowling &
     # Begley 1976 measure the loop area above the opening load)
     assert J.plastic_fraction(1.0, 0.15) == 1.0
