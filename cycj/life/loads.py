@@ -277,13 +277,15 @@ def _channel_values(case, channels):
     return np.column_stack([c[:n] for c in cols]), n
 
 
-def cite_loads(case: Case, loads: BlockLoads, cited) -> None:
-    """Cite the methods that built the block: rainflow counting of a history; weight-function
-    K tables, the plate reference stress and residual stresses of load channels."""
+def cite_loads(case: Case, cited) -> None:
+    """Cite the methods that build the case's block: rainflow counting of a history;
+    weight-function K tables, the plate reference stress and residual stresses of load
+    channels (a case with stress fields always runs on load channels)."""
     ld = case.loading
-    if ld.history is not None or (loads.channel_slots and ld.constant is None):
+    channels = case.fields is not None
+    if ld.history is not None or (channels and ld.constant is None):
         cited.cite("rainflow")
-    if loads.channel_slots:
+    if channels:
         cited.cite("weight-functions")
         cited.cite("plate-reference-stress")
         if case.fields.residual is not None:

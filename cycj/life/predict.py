@@ -206,7 +206,7 @@ def predict_life(
     loads = block_loads(case, load_scale)
     cited = Citations()
     mp = model_array(case, loads=loads, cited=cited)
-    cite_loads(case, loads, cited)
+    cite_loads(case, cited)
     geo = case.geometry
     a0 = geo.crack_length if a_start_mm is None else float(a_start_mm)
     geo.check_crack(a0, "initial crack")

@@ -127,12 +127,15 @@ def critical_size(case):
 
 def references(case) -> list:
     """References of the life models the plan's growth curves use (chosen as in a run)."""
+    import numpy as np
+
+    from cycj import kernel_slots as M
     from cycj.citations import Citations
-    from cycj.life.loads import block_loads, cite_loads
-    from cycj.life.model import model_array
+    from cycj.life.loads import cite_loads
+    from cycj.life.model import choose_models
 
     cited = Citations()
-    loads = block_loads(planning_case(case))
-    model_array(planning_case(case), loads=loads, cited=cited)
-    cite_loads(case, loads, cited)
+    pc = planning_case(case)
+    choose_models(pc, np.zeros(M.N_MP), cited)  # the choices only: no loads read, no search
+    cite_loads(pc, cited)
     return cited.references
