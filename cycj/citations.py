@@ -28,11 +28,6 @@ class Citations:
         """Record a method the run used without choosing it by name (kind ``method``)."""
         self.choose("method", name)
 
-    def merge(self, other: Citations) -> None:
-        """Add the models of another run (e.g. a continuation phase)."""
-        for kind, name in other.chosen:
-            self.choose(kind, name)
-
     @property
     def chosen(self) -> list[tuple[str, str]]:
         """(kind, name) of every model used, in the order chosen."""

@@ -63,8 +63,8 @@ NEWMAN = register(
     validity="−1 ≤ R < 1, S_max/σ_0 ≤ 0.8 (clipped and counted), 1 ≤ α ≤ 3",
     citation=("Newman, J. C., Jr., Int. J. Fract. 24 (1984) R131–R135: crack-opening function",),
 ).code
-#: closure name → kernel code (from the records)
-CLOSURE_CODES = {"none": NONE, "constant": CONSTANT, "elber": ELBER, "newman": NEWMAN}
+#: codes of the closure models opening_fraction evaluates itself
+BUILT_IN_CLOSURES = (NONE, CONSTANT, ELBER, NEWMAN)
 
 # growth laws
 PARIS = register(
@@ -133,7 +133,7 @@ def _chain_of_openings(added):
 
 #: closure models registered (before this module is imported) with their own opening kernel
 _extension_opening = _chain_of_openings(
-    [r for r in records("closure") if r.kernel is not None and r.code not in CLOSURE_CODES.values()]
+    [r for r in records("closure") if r.kernel is not None and r.code not in BUILT_IN_CLOSURES]
 )
 
 

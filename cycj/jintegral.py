@@ -121,13 +121,8 @@ FINITE_ELEMENT = register(
         _MASING,
     ),
 ).code
-J_METHODS = {
-    "elastic": ELASTIC,
-    "reference-stress": REFERENCE_STRESS,
-    "small-crack": SMALL_CRACK,
-    "notch": NOTCH,
-    "finite-element": FINITE_ELEMENT,
-}
+#: the j_methods :func:`delta_j` evaluates by formula ("finite-element" needs a J table)
+FORMULA_METHODS = ("elastic", "reference-stress", "small-crack", "notch")
 
 
 # --------------------------------------------------------------------------- compiled scalars
@@ -406,7 +401,10 @@ def delta_j(geometry, material, a, delta_s, u=1.0, method="reference-stress"):
     if method == "reference-stress":
         dsig_ref = ds * material.yield_strength / geometry.limit_stress(a, material.yield_strength)
         return reference_stress_delta_j(dj_el, dsig_ref, material, u)
-    raise ValueError(f"unknown j_method {method!r}; expected one of {', '.join(J_METHODS)}")
+    raise ValueError(
+        f"unknown j_method {method!r}; expected one of {', '.join(FORMULA_METHODS)} "
+        "(finite-element: cycj.j_table)"
+    )
 
 
 def _notch_delta_j(geometry, material, a, ds, u, e_prime):

@@ -86,11 +86,6 @@ def register(
     return rec
 
 
-def unregister(kind: str, name: str) -> None:
-    """Remove a model (for tests of the mechanism; built-in models stay)."""
-    _RECORDS[kind].pop(name, None)
-
-
 #: environment variable listing extension modules (comma-separated) that register models
 EXTENSIONS_VARIABLE = "CYCJ_EXTENSIONS"
 

@@ -50,7 +50,6 @@ WILLENBORG = register(
         "Irwin, G. R. (1960): plastic zone size r_p = (K/σ_y)²/(βπ)",
     ),
 ).code
-SEQUENCE_CODES = {"none": NONE, "wheeler": WHEELER, "willenborg": WILLENBORG}
 
 
 @jit
