@@ -33,9 +33,11 @@ def _extension_sources() -> bytes:
     imported): their models are compiled into the kernels, so they key the cache too."""
     import importlib.util
 
-    raw = os.environ.get("CYCJ_EXTENSIONS", "")
-    out = raw.encode()
-    for name in (m.strip() for m in raw.split(",") if m.strip()):
+    from cycj.models import extension_modules
+
+    names = extension_modules()
+    out = ",".join(names).encode()
+    for name in names:
         try:
             spec = importlib.util.find_spec(name)
         except (ImportError, ValueError):
