@@ -103,15 +103,16 @@ def _substream(seed, k: int):
 
 
 def _per_inspection(rng, m: int, n: int) -> np.ndarray:
-    """(n, m) uniforms drawn inspection by inspection (rows of an (m, n) draw), so the first
-    m' < m inspections get the same numbers whatever m a run needs."""
-    return np.ascontiguousarray(rng.random((m, n)).T)
+    """(m, n) uniforms, one row per inspection, so the first m' < m inspections get the same
+    numbers whatever m a run needs."""
+    return rng.random((m, n))
 
 
 def draw_chunk(spec: McSpec, index: int, seed, n_insp: int | None = None) -> dict:
     """The samples of one chunk: ln a0, C-factor, load row/weight, φ at failure, replacement
-    sizes and detection uniforms (arrays of length n, or (n, n_insp), n_insp ≤ n_max: the
-    inspections the run needs; the uniforms of inspection j do not depend on n_insp)."""
+    sizes and detection uniforms (arrays of length n, or (n_insp, n), n_insp ≤ n_max: the
+    inspections the run needs, one row each; the uniforms of inspection j do not depend on
+    n_insp)."""
     rng = np.random.default_rng(seed)
     n = spec.chunk_n(index)
     w_is = np.ones(n)
@@ -128,9 +129,9 @@ def draw_chunk(spec: McSpec, index: int, seed, n_insp: int | None = None) -> dic
     ini = spec.scatter.initial_crack
     if spec.repair == "renew" and ini.scatters:
         u_rep = _per_inspection(_substream(seed, 2), m, n)
-        la_repl = np.maximum(np.log(ini.ppf(u_rep)), tab.la0)
+        la_repl = np.maximum(ini.log_ppf(u_rep), tab.la0)
     else:  # not used (remove) or one size
-        la_repl = np.full((n, m), max(math.log(ini.median), tab.la0))
+        la_repl = np.full((m, n), max(math.log(ini.median), tab.la0))
     k, w = tab.load_position(d["load_factor"])
     lac = tab.critical_log_size(k, w, d["toughness_factor"])
     return {
@@ -149,24 +150,24 @@ def draw_chunk(spec: McSpec, index: int, seed, n_insp: int | None = None) -> dic
     }
 
 
-def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed):
-    """Simulate one chunk under each schedule: the draws, the sample weights, failure times
-    and bins and detections (n_sched, n), and the horizon [cycles]."""
+def _chunk_start(spec: McSpec, n_insp, index: int, seed):
+    """A chunk's draws, sample weights (importance sampling × findings), ln size at the
+    start of the simulated horizon and the horizon [cycles]."""
     from cycj.plan.findings import apply_findings
 
     dr = draw_chunk(spec, index, seed, int(np.max(n_insp, initial=0)))
-    tab = spec.table
     weights = dr["w_is"]
     la_start = dr["la0"]
-    t_start = spec.start
     if spec.findings:
-        wf, la_start = apply_findings(dr, tab, spec.findings)
+        wf, la_start = apply_findings(dr, spec.table, spec.findings)
         weights = weights * wf
-    horizon = spec.design_life - t_start
-    n_sched = schedules.shape[0]
-    ft, fb, nd = kernels.empty_outputs(n_sched, la_start.size)
-    rel = np.ascontiguousarray(schedules - t_start)
-    kernels.simulate(
+    return dr, weights, la_start, spec.design_life - spec.start
+
+
+def _kernel_inputs(spec: McSpec, dr: dict, la_start, schedules, n_insp, horizon) -> tuple:
+    """The leading arguments of the simulation kernels (samples, schedules, curve table)."""
+    tab = spec.table
+    return (
         la_start,
         dr["xc"],
         dr["k"],
@@ -174,17 +175,22 @@ def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, in
         dr["phic"],
         dr["la_repl"],
         dr["la_thr"],
-        rel,
+        np.ascontiguousarray(schedules - spec.start),
         np.asarray(n_insp, np.int64),
         horizon,
         0 if spec.repair == "renew" else 1,
         tab.la0,
         tab.dla,
         tab.logphi,
-        ft,
-        fb,
-        nd,
     )
+
+
+def simulate_samples(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: int, seed):
+    """Simulate one chunk under each schedule: the draws, the sample weights, failure times
+    and bins and detections (n_sched, n), and the horizon [cycles]."""
+    dr, weights, la_start, horizon = _chunk_start(spec, n_insp, index, seed)
+    ft, fb, nd = kernels.empty_outputs(schedules.shape[0], la_start.size)
+    kernels.simulate(*_kernel_inputs(spec, dr, la_start, schedules, n_insp, horizon), ft, fb, nd)
     return dr, weights, ft, fb, nd, horizon
 
 
@@ -197,33 +203,32 @@ def run_chunk(spec: McSpec, schedules: np.ndarray, n_insp: np.ndarray, index: in
     ``hist`` (Σw·I per time bin of the horizon), ``hist_period`` (per reporting period) and
     ``bins`` (Σw·I per inspection interval).
     """
-    dr, weights, ft, fb, nd, horizon = simulate_samples(spec, schedules, n_insp, index, seed)
+    dr, weights, la_start, horizon = _chunk_start(spec, n_insp, index, seed)
     n_sched = schedules.shape[0]
-    fail = ft <= horizon
-    w2 = weights**2
-    edges = np.linspace(0.0, horizon, spec.n_bins + 1)
+    sums = np.zeros((n_sched, 4))
     hist = np.zeros((n_sched, spec.n_bins))
     bins = np.zeros((n_sched, spec.n_max + 1))
     pedges = np.concatenate([[0.0], np.asarray(spec.period_edges, float)])
-    n_per = max(pedges.size - 1, 1)
-    hper = np.zeros((n_sched, n_per))
-    for s in range(n_sched):
-        f = fail[s]
-        idx = np.clip(np.searchsorted(edges, ft[s, f], side="right") - 1, 0, spec.n_bins - 1)
-        hist[s] = np.bincount(idx, weights[f], minlength=spec.n_bins)
-        bins[s] = np.bincount(fb[s, f], weights[f], minlength=spec.n_max + 1)[: spec.n_max + 1]
-        if pedges.size > 1:
-            ip = np.clip(np.searchsorted(pedges, ft[s, f], side="right") - 1, 0, n_per - 1)
-            hper[s] = np.bincount(ip, weights[f], minlength=n_per)
+    hper = np.zeros((n_sched, max(pedges.size - 1, 1)))
+    kernels.simulate_sums(
+        *_kernel_inputs(spec, dr, la_start, schedules, n_insp, horizon),
+        weights,
+        np.linspace(0.0, horizon, spec.n_bins + 1),
+        pedges,
+        sums,
+        hist,
+        bins,
+        hper,
+    )
     return {
         "n": float(weights.size),
-        "nf": fail.sum(axis=1).astype(float),
+        "nf": sums[:, 0].copy(),
         "hist_period": hper,
         "sw": weights.sum(),
-        "sw2": w2.sum(),
-        "swf": (fail * weights).sum(axis=1),
-        "sw2f": (fail * w2).sum(axis=1),
-        "swd": (nd * weights).sum(axis=1),
+        "sw2": (weights**2).sum(),
+        "swf": sums[:, 1].copy(),
+        "sw2f": sums[:, 2].copy(),
+        "swd": sums[:, 3].copy(),
         "hist": hist,
         "bins": bins,
     }

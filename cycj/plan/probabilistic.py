@@ -306,7 +306,7 @@ def envelope(
     spec = make_spec(table, inp)
     dr = draw_chunk(spec, 0, spec.chunk_seed(0))
     m = min(n_samples, dr["la0"].size)
-    dr = {k: v[:m] for k, v in dr.items() if v is not None}
+    dr = {k: v[:m] for k, v in dr.items() if v is not None and np.ndim(v) == 1}
     weights = np.ones(m)
     la_start = dr["la0"]
     if spec.findings:

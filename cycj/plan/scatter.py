@@ -62,6 +62,14 @@ class Dist:
             return self.p1 + self.p2 * ndtri(lo + u * (1.0 - lo))
         raise ValueError(f"unknown distribution {self.kind!r}")
 
+    def log_ppf(self, u):
+        """ln of the inverse CDF at uniforms ``u`` (the log-normal's without exp and log)."""
+        from scipy.special import ndtri
+
+        if self.kind == "lognormal" and self.p2 > 0:
+            return self.p1 + self.p2 * ndtri(np.asarray(u, float))
+        return np.log(self.ppf(u))
+
     def from_normal(self, x):
         """The value whose CDF is Φ(x), for standard normal ``x`` (array): the same map as
         :meth:`ppf` at u = Φ(x), computed so that the upper tail keeps its precision."""

@@ -79,6 +79,62 @@ def size_at(phi, k, w, la0, dla, logphi):
 
 
 @jit
+def _thresholds(i, la_thr, k, w, la_grid0, dla, logphi, phi_thr):
+    """Life coordinate above which each inspection j detects sample i (+inf: never)."""
+    for j in range(phi_thr.shape[0]):
+        lt = la_thr[j, i]
+        phi_thr[j] = math.inf if lt == math.inf else phi_at(lt, k, w, la_grid0, dla, logphi)
+
+
+@jit
+def _one_schedule(
+    i,
+    s,
+    phi_first,
+    x,
+    pc,
+    k,
+    w,
+    phi_thr,
+    la_repl,
+    times,
+    n_insp,
+    horizon,
+    repair,
+    la_grid0,
+    dla,
+    logphi,
+):
+    """Sample i under schedule s: (failure time or inf, inspection interval, detections)."""
+    phi0 = phi_first
+    t0 = 0.0
+    nd = 0
+    for j in range(n_insp[s]):
+        tj = times[s, j]
+        tf = t0 + max(pc - phi0, 0.0) / x
+        if tf <= tj:
+            return max(tf, 0.0), j, nd
+        if phi0 + x * (tj - t0) > phi_thr[j]:
+            nd += 1
+            if repair == 1:
+                return math.inf, -1, nd
+            phi0 = phi_at(la_repl[j, i], k, w, la_grid0, dla, logphi)
+            t0 = tj
+    tf = t0 + max(pc - phi0, 0.0) / x
+    if tf <= horizon:
+        return max(tf, 0.0), n_insp[s], nd
+    return math.inf, -1, nd
+
+
+@jit
+def _max_inspections(n_insp):
+    n_max = 0
+    for s in range(n_insp.shape[0]):
+        n_max = max(n_max, n_insp[s])
+    return n_max
+
+
+@jit
 def simulate(
     la0_s,
     xc,
@@ -104,7 +160,7 @@ def simulate(
     ----------
     la0_s, xc, k_s, w_s, phic : (n,) arrays
         ln initial size, C-factor, load-scale row and weight, life coordinate at failure.
-    la_repl, la_thr : (n, n_max) arrays
+    la_repl, la_thr : (m, n) arrays, m ≥ max(n_insp) (one row per inspection)
         ln size of the crack that replaces a detected one at inspection j; ln of the size above
         which inspection j detects the crack (the POD inverted at the sample's detection
         uniform u: POD(a) > u ⇔ a > POD⁻¹(u); +inf when u ≥ the POD's ceiling), common to all
@@ -115,50 +171,118 @@ def simulate(
     fail_time, fail_bin, n_det : (n_sched, n) outputs: failure time (inf if none within the
         horizon), index of the inspection interval it fell in, number of detections.
     """
-    n = la0_s.shape[0]
-    n_sched = times.shape[0]
-    n_max = 0
-    for s in range(n_sched):
-        n_max = max(n_max, n_insp[s])
-    phi_thr = np.empty(max(n_max, 1))
-    for i in range(n):
+    phi_thr = np.empty(max(_max_inspections(n_insp), 1))
+    for i in range(la0_s.shape[0]):
         k = k_s[i]
         w = w_s[i]
-        x = xc[i]
-        pc = phic[i]
         phi_first = phi_at(la0_s[i], k, w, la_grid0, dla, logphi)
-        for j in range(n_max):
-            lt = la_thr[i, j]
-            phi_thr[j] = math.inf if lt == math.inf else phi_at(lt, k, w, la_grid0, dla, logphi)
-        for s in range(n_sched):
-            phi0 = phi_first
-            t0 = 0.0
-            ft = math.inf
-            fb = -1
-            nd = 0
-            removed = False
-            for j in range(n_insp[s]):
-                tj = times[s, j]
-                tf = t0 + max(pc - phi0, 0.0) / x
-                if tf <= tj:
-                    ft = tf
-                    fb = j
-                    break
-                if phi0 + x * (tj - t0) > phi_thr[j]:
-                    nd += 1
-                    if repair == 1:
-                        removed = True
-                        break
-                    phi0 = phi_at(la_repl[i, j], k, w, la_grid0, dla, logphi)
-                    t0 = tj
-            if not removed and fb < 0:
-                tf = t0 + max(pc - phi0, 0.0) / x
-                if tf <= horizon:
-                    ft = tf
-                    fb = n_insp[s]
-            fail_time[s, i] = max(ft, 0.0)
+        _thresholds(i, la_thr, k, w, la_grid0, dla, logphi, phi_thr)
+        for s in range(times.shape[0]):
+            ft, fb, nd = _one_schedule(
+                i,
+                s,
+                phi_first,
+                xc[i],
+                phic[i],
+                k,
+                w,
+                phi_thr,
+                la_repl,
+                times,
+                n_insp,
+                horizon,
+                repair,
+                la_grid0,
+                dla,
+                logphi,
+            )
+            fail_time[s, i] = ft
             fail_bin[s, i] = fb
             n_det[s, i] = nd
+
+
+@jit
+def _bin_index(edges, x):
+    """numpy.searchsorted(edges, x, "right") − 1, clipped to the bins 0 … len(edges) − 2."""
+    lo, hi = 0, edges.shape[0]
+    while lo < hi:
+        mid = (lo + hi) // 2
+        if edges[mid] <= x:
+            lo = mid + 1
+        else:
+            hi = mid
+    return min(max(lo - 1, 0), edges.shape[0] - 2)
+
+
+@jit
+def simulate_sums(
+    la0_s,
+    xc,
+    k_s,
+    w_s,
+    phic,
+    la_repl,
+    la_thr,
+    times,
+    n_insp,
+    horizon,
+    repair,
+    la_grid0,
+    dla,
+    logphi,
+    weights,
+    edges,
+    period_edges,
+    sums,
+    hist,
+    bins,
+    hist_period,
+):
+    """:func:`simulate` reduced to weighted sums as it goes (no per-sample outputs, so a
+    chunk's memory does not grow with the number of schedules, and one call holds no lock).
+
+    ``weights`` (n,) sample weights; ``edges`` the time bins of ``hist`` over the horizon,
+    ``period_edges`` those of ``hist_period`` (ignored with fewer than 2 edges).  Adds per
+    schedule s: ``sums[s]`` = (failing samples, Σw·I, Σw²·I, Σw·detections), ``hist[s, b]``
+    and ``hist_period[s, b]`` Σw·I by failure time bin, ``bins[s, j]`` Σw·I by inspection
+    interval.
+    """
+    phi_thr = np.empty(max(_max_inspections(n_insp), 1))
+    periods = period_edges.shape[0] > 1
+    for i in range(la0_s.shape[0]):
+        k = k_s[i]
+        w = w_s[i]
+        wi = weights[i]
+        phi_first = phi_at(la0_s[i], k, w, la_grid0, dla, logphi)
+        _thresholds(i, la_thr, k, w, la_grid0, dla, logphi, phi_thr)
+        for s in range(times.shape[0]):
+            ft, fb, nd = _one_schedule(
+                i,
+                s,
+                phi_first,
+                xc[i],
+                phic[i],
+                k,
+                w,
+                phi_thr,
+                la_repl,
+                times,
+                n_insp,
+                horizon,
+                repair,
+                la_grid0,
+                dla,
+                logphi,
+            )
+            sums[s, 3] += wi * nd
+            if ft <= horizon:
+                sums[s, 0] += 1.0
+                sums[s, 1] += wi
+                sums[s, 2] += wi * wi
+                hist[s, _bin_index(edges, ft)] += wi
+                bins[s, fb] += wi
+                if periods:
+                    hist_period[s, _bin_index(period_edges, ft)] += wi
 
 
 @jit
