@@ -167,10 +167,29 @@ def test_cli_plan_writes_outputs(case13, tmp_path):
         "pof_vs_interval.png",
         "cumulative_pof.png",
         "crack_envelope.png",
+        "pof_per_period.csv",
+        "pof_per_period.png",
+        "pod_used.png",
         "report.html",
     ):
         assert (out / f).is_file()
-    assert "not replace" in (out / "report.html").read_text()
+    report = (out / "report.html").read_text()
+    assert "not replace" in report
+    # the per-period table people plan with: the CSV holds plan.json's rows, the report a
+    # table of them, and the periods add up to the cumulative probability of failure
+    import pandas as pd
+
+    per = pd.read_csv(out / "pof_per_period.csv")
+    assert len(per) == len(plan["pof_per_period"]) > 1
+    assert plan["period"] == "week" and f"Probability of failure per {plan['period']}" in report
+    for col in ("no_inspection", "recommended"):
+        np.testing.assert_allclose(
+            np.cumsum(per[f"pof_in_period_{col}"]), per[f"cumulative_pof_{col}"], atol=1e-12
+        )
+    assert per["cumulative_pof_no_inspection"].iloc[-1] == pytest.approx(
+        plan["no_inspection"]["pof"]
+    )
+    assert per["end_hours"].iloc[-1] == pytest.approx(1e6 * 10 / 3600)
     again = _cli("plan", str(case13.path), "--out", str(out))
     assert again.returncode == 2 and "not empty" in again.stderr
 
