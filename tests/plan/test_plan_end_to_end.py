@@ -250,3 +250,26 @@ def test_cracks_below_threshold_are_raised_to_the_growing_size(tmp_path):
     p_fail = 1 - ndtr(math.log(a_star / 0.4) / 0.5)
     no = s["no_inspection"]
     assert no["pof"] == pytest.approx(p_fail, abs=4 * no["std_error"] + 2e-3)
+
+
+def test_budget_reached_is_said_in_headline_json_and_report(tmp_path):
+    # a target far below what 4000 samples resolve (96/p samples for ±20 % at 95 %): the
+    # headline, plan.json (flag and warning) and the report all say the budget ran out
+    from cycj.plan.write import answer_sentence, write_plan
+
+    text = CASE_13.replace("target_pof = 1.0e-2", "target_pof = 1.0e-3").replace(
+        "samples = 2000", 'samples = 2000\nmax_samples = 4000\nmethod = "monte-carlo"'
+    )
+    p = tmp_path / "budget.toml"
+    p.write_text(text)
+    case = load_case(p)
+    r = plan_inspections(case, workers=1)
+    s = r.summary
+    assert s["recommendation"]["budget_reached"] and not s["recommendation"]["converged"]
+    assert s["samples_used"] == 4000
+    assert "sample budget (4000) was reached" in answer_sentence(s)
+    assert any(w.startswith("sample budget reached") for w in s["warnings"])
+    write_plan(r, case, tmp_path / "out")
+    plan = json.loads((tmp_path / "out" / "plan.json").read_text())
+    assert plan["recommendation"]["budget_reached"] is True
+    assert "sample budget reached" in (tmp_path / "out" / "report.html").read_text()
