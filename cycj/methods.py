@@ -113,6 +113,10 @@ _METHODS = {
         "Rubinstein, R. Y., Kroese, D. P., The Cross-Entropy Method, Springer (2004), ch. 3: "
         "multi-level centre of the importance-sampling density",
     ),
+    "subset-simulation": (
+        "Au, S.-K., Beck, J. L., Probabilistic Engineering Mechanics 16 (2001) 263–277: "
+        "subset simulation (cross-check of the no-inspection probability of failure)",
+    ),
     "form": (
         "Hasofer, A. M., Lind, N. C., J. Eng. Mech. Div. ASCE 100 (1974) 111–121: "
         "reliability index",

@@ -123,6 +123,13 @@ def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
             f"only {rec['failures']} failing samples at the recommended interval: the "
             f"target {inp.target_pof:g} is not resolved by these samples"
         )
+    sus = prob.get("subset")
+    if sus and sus.get("available") and not sus["agrees"]:
+        warnings.append(
+            f"subset simulation gives {sus['pof']:.3g} ± {sus['std_error']:.2g} for the "
+            f"probability of failure without inspection, importance sampling "
+            f"{sus['compared_with']:.3g}: the two methods disagree (beyond 3 standard errors)"
+        )
     form = prob["form"]
     if form and form.get("available") and not form.get("converged"):
         warnings.append("the FORM design point did not converge: its estimate is unreliable")
@@ -151,6 +158,7 @@ def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
         "recommendation": _with_times(rec, hpc, inp),
         "method": prob["method"],
         "form": form,
+        "subset": sus,
         "importance_centre": prob["importance_centre"],
         "cross_entropy": prob["cross_entropy"],
         "samples_used": prob["samples_used"],
@@ -234,6 +242,8 @@ def _plan_references(inp, method="monte-carlo", with_form=False, with_ce=False) 
         cited.cite("cross-entropy")
     if with_form:
         cited.cite("form")
+    if method == "importance-sampling":
+        cited.cite("subset-simulation")
     return cited.references
 
 

@@ -1,7 +1,8 @@
 """Probabilistic plan: probability of failure per inspection interval, and the largest interval
 that meets the target, on one common random-number sample, resolved to a stated precision
 (:mod:`cycj.plan.search`); importance sampling around the FORM design point for small targets
-(:mod:`cycj.plan.reliability`).
+(:mod:`cycj.plan.reliability`), cross-checked on the no-inspection probability by subset
+simulation (:mod:`cycj.plan.subset`).
 
 References
 ----------
@@ -153,6 +154,7 @@ def probabilistic_plan(table, inp, scheduler=None, workers=None, periods=None) -
     r1 = summarise(srch.base_total, importance)
     fine, fr_res, j = srch.fine, conv["result"], conv["index"]
     p_none = float(r1["pof"][0])
+    subset = _subset_check(table, inp, horizon, p_none, r1["std_error"][0]) if importance else None
     recommended = None if j < 0 else float(fine[j])
     if not inspection_needed:  # the converged no-inspection estimate decides
         inspection_needed = p_none > inp.target_pof
@@ -239,6 +241,7 @@ def probabilistic_plan(table, inp, scheduler=None, workers=None, periods=None) -
         "chunk_size": spec.chunk_size,
         "method": method,
         "form": fr,
+        "subset": subset,
         "importance_centre": None if spec.shift is None else list(spec.shift),
         "cross_entropy": ce,
         "fine_points": FINE_POINTS,
@@ -285,6 +288,8 @@ def pof_without_inspection(table, inp, scheduler=None, workers=None) -> dict:
     r = conv["result"]
     p, se = float(r["pof"][0]), float(r["std_error"][0])
     evals = int(r["samples"]) + (fr["evaluations"] if fr and fr.get("available") else 0)
+    horizon = inp.design_life - start
+    subset = _subset_check(table, inp, horizon, p, se) if shift is not None else None
     return {
         "pof": p,
         "std_error": se,
@@ -294,8 +299,18 @@ def pof_without_inspection(table, inp, scheduler=None, workers=None) -> dict:
         "converged": conv["converged"],
         "method": "importance-sampling" if shift is not None else "monte-carlo",
         "form": fr,
+        "subset": subset,
         "life_evaluations": evals,
     }
+
+
+def _subset_check(table, inp, horizon, pof, std_error) -> dict:
+    """Subset simulation of the no-inspection probability beside the sampling estimate, with
+    ``agrees`` (within 3 combined standard errors)."""
+    from cycj.plan.subset import cross_check, subset_pof
+
+    sus = subset_pof(table, inp.scatter, horizon, inp.seed)
+    return cross_check({"pof": float(pof), "std_error": float(std_error)}, sus)
 
 
 def envelope(
