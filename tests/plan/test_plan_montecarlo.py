@@ -188,3 +188,25 @@ def test_not_found_lowers_the_probability_of_failure():
     # the prior probability of failing after 1e5 cycles, with nothing found at 1e5, is lower
     assert upd["no_inspection"]["pof"] < base["no_inspection"]["pof"]
     assert upd["effective_samples"] < 4000
+
+
+def test_one_inspection_detects_with_the_pod_at_the_crack_size_and_bins_the_failures():
+    # nothing scatters: every sample's crack is a(t) of the closed-form Paris law
+    # (plan_closed_form.py), so one inspection at t1 finds it with probability POD(a(t1))
+    # (MIL-HDBK-1823A: POD as a function of size; a50 = a(t1) gives 1/2); a found crack is
+    # removed, the others fail at N_f, after the inspection (interval 1 of the schedule)
+    s = sc.Scatter(growth_C=sc.fixed(1.0), initial_crack=sc.fixed(1.0))
+    tab = closed_table(s)
+    n_f = cf.cycles(1.0, cf.critical_size())
+    t1 = 0.5 * n_f
+    for a50, expect in ((cf.size_after(1.0, t1), 0.5), (cf.size_after(1.0, t1) / 1.3, None)):
+        pod = pod_from_a50("lognormal", a50, 0.4)
+        p_det = float(pod(cf.size_after(1.0, t1))) if expect is None else expect
+        spec = McSpec(tab, s, pod, 2 * n_f, 20000, 2, "remove", n_max=1, chunk_size=5000)
+        arr, n = pack_schedules([[], [t1]], 1)
+        res = summarise(Runner().run(spec, arr, n))
+        se = math.sqrt(p_det * (1 - p_det) / 20000)
+        assert res["detections_mean"][1] == pytest.approx(p_det, abs=3.5 * se)
+        assert res["pof"][0] == 1.0
+        assert res["pof"][1] == pytest.approx(1.0 - res["detections_mean"][1], abs=1e-12)
+        np.testing.assert_allclose(res["per_interval"][1][:2], [0.0, res["pof"][1]], atol=1e-12)
