@@ -12,8 +12,9 @@ number of worker threads running or runnable (read from ``/proc/self/task/*/stat
 2 ms: a thread waiting for the GIL sleeps, so this is ≈ 1 if the chunks were serialised by the
 GIL and ≈ the number of workers if not, whatever else the machine runs), the CPU-time ratio of
 the parallel and serial runs (> 1 would mean the threads slow each other: memory bandwidth,
-caches), the speed-up, an idle-machine estimate of it (runnable threads × serial CPU ÷
-parallel CPU), and the peak resident memory above the start of the run (flat in the number of
+caches), the speed-up, an idle-machine estimate of it (runnable threads ÷ the CPU ratio,
+taken as at least 1: CPU time measured on a busy machine varies by some 10 %), and the peak
+resident memory above the start of the run (flat in the number of
 samples: chunks are reduced to sums as they finish).  It asserts that every run gives
 bit-identical probabilities of failure.
 
@@ -136,7 +137,7 @@ def core_bench(args, spec, sched, n, interval):
         print(
             f"  {samples:.0e} samples: speed-up {one['wall'] / par['wall']:.2f} on "
             f"{args.workers} threads (idle-machine estimate "
-            f"{par['runnable'] * cpu[1] / cpu[args.workers]:.2f}; least CPU ratio "
+            f"{par['runnable'] / max(cpu[args.workers] / cpu[1], 1.0):.2f}; least CPU ratio "
             f"{cpu[args.workers] / cpu[1]:.2f}); identical answers: {same}; "
             f"PoF no inspection {one['pof'][0]:.4g} ± {one['se'][0]:.2g}, every "
             f"{interval:.4g} cycles {one['pof'][1]:.4g} ± {one['se'][1]:.2g}"
