@@ -153,12 +153,13 @@ def plan_bench(case, samples: int, workers: int):
         (f"{samples:.0e} samples fixed", replace(case, inspection=raw_i)),
         ("as written (converged search)", case),
     ):
-        t0 = time.perf_counter()
+        c0, t0 = time.process_time(), time.perf_counter()
         r = plan_inspections(c2, workers=workers)
-        t_plan = time.perf_counter() - t0
+        t_plan, cpu = time.perf_counter() - t0, time.process_time() - c0
         rec = r.summary["recommendation"]
         print(
-            f"whole plan_inspections, {label}, {workers} threads: {t_plan:.2f} s; "
+            f"whole plan_inspections, {label}, {workers} threads: {t_plan:.2f} s "
+            f"({cpu:.2f} s CPU, share {cpu / t_plan:.2f} core); "
             f"recommended {r.summary['recommended_interval_cycles']:.5g} cycles, PoF "
             f"{rec['pof_estimate']:.3g} ({rec['pof_ci'][0]:.3g} to {rec['pof_ci'][1]:.3g}), "
             f"{r.summary['samples_used']} samples"
