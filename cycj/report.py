@@ -55,12 +55,15 @@ def _table(frame, max_rows: int = 60) -> str:
 
 #: verification notes kept out of printed citations (their status belongs in docs/)
 _NOTE = re.compile(r"\s*[(\[]\s*(from memory|common practice)\s*[)\]]", re.I)
+_NOTE_IN = re.compile(
+    r"(;\s*(from memory|common practice)\b|\b(from memory|common practice)[;,]\s*)", re.I
+)
 
 
 def citation(ref) -> str:
-    """A reference as printed: without a trailing verification note such as "(from
-    memory)" (docs/references.md records which values are confirmed)."""
-    return _NOTE.sub("", str(ref)).strip()
+    """A reference as printed: without a verification note such as "(from memory)" or
+    "common practice; " (docs/references.md records which values are confirmed)."""
+    return _NOTE_IN.sub("", _NOTE.sub("", str(ref))).strip()
 
 
 def render_report(

@@ -146,7 +146,7 @@ def split_figure(result):
     a = h["a_mm"].to_numpy(float) * L
     el = h["dJ_el_kJm2"].to_numpy(float)
     pl = h["dJ_pl_kJm2"].to_numpy(float)
-    lefm = (h["dK_MPa_sqrt_m"].to_numpy(float) * MPA_SQRT_M) ** 2 / result.mp[E_PRIME]
+    lefm = (h["dK_MPa_sqrt_m"].to_numpy(float) * MPA_SQRT_M) ** 2 / result.model[E_PRIME]
     dot = "o" if h["a_mm"].nunique() < 3 else None
     fig, ax = plt.subplots(figsize=(6.4, 4.2))
     ax.plot(a, (el + pl) * J, "k-", lw=1.8, marker=dot, label="ΔJ_eff = elastic + plastic")
@@ -174,9 +174,10 @@ def tearing_figure(result, n: int = 120):
     jr = case.material.resistance_curve
     a_end = s["a_end_mm"]
     hi = case.geometry.size_limits[1]
-    span = max(min(hi - a_end, max(0.25 * a_end, 2.0)), 1e-3)
+    span = max(min(hi - a_end, max(1.0, 0.1 * a_end)), 1e-3)
     da = np.linspace(0.0, span, n)
-    jmax = np.array([ES.peak(case, result.loads, result.mp, min(a_end + d, hi))[0] for d in da])
+    jmax = np.array([ES.peak(case, result.loads, result.model, min(a_end + d, hi))[0] for d in da])
+    top = 1.4 * max(float(np.max(jr(da))), float(jmax[0]))
     L, J = u.factor("length"), u.factor("energy_per_area")
     fig, ax = plt.subplots(figsize=(6.4, 4.2))
     ax.plot(
@@ -190,9 +191,9 @@ def tearing_figure(result, n: int = 120):
     ax.set_xlabel(u.label("crack extension Δa", "length"))
     ax.set_ylabel(u.label("J", "energy_per_area"))
     ax.set_xlim(0, span * L)
-    ax.set_ylim(0, 1.15 * max(float(np.max(jr(da))), float(np.max(jmax))) * J)
+    ax.set_ylim(0, top * J)
     ax.grid(alpha=0.3)
-    ax.legend(fontsize=8, loc="lower right")
+    ax.legend(fontsize=8, loc="upper left")
     return fig
 
 

@@ -2,7 +2,18 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
+
+
+def _outside(ax, handles=None, labels=None):
+    """The legend beside the axes (it never covers data: the shaded band, the points)."""
+    kw = dict(fontsize=7, loc="upper left", bbox_to_anchor=(1.02, 1.0), borderaxespad=0.0)
+    if handles is not None:
+        ax.legend(handles, labels, **kw)
+    else:
+        ax.legend(**kw)
 
 
 def _fig(w=6.4, h=4.2):
@@ -58,7 +69,7 @@ def pof_vs_interval(summary: dict):
         ax.set_ylim(bottom=max(min(summary["target_pof"] / 10, p[p > 0].min() / 2), 1e-9))
     ax.set_xlabel("inspection interval [cycles]")
     ax.set_ylabel("probability of failure over the design life")
-    ax.legend(fontsize=8)
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
 
@@ -109,9 +120,17 @@ def envelope(curves: dict, summary: dict):
     ax.set_xlim(0, summary["design_life_cycles"])
     ax.set_xlabel("cycles")
     ax.set_ylabel("crack size a [mm]")
-    ax.legend(fontsize=7)
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
+
+
+def lower_bound_curve(c, a90_95):
+    """The POD curve of ``c``'s spread shifted so that it passes 0.9 at ``a90_95``: the lower
+    confidence bound on POD at every size (MIL-HDBK-1823A (2009) §4)."""
+    from cycj.plan.pod import PodCurve
+
+    return PodCurve(c.model, c.mu + math.log(a90_95 / c.a90), c.sigma, c.ceiling)
 
 
 def pod_plot(fit, a, y, kind: str):
@@ -140,11 +159,21 @@ def pod_plot(fit, a, y, kind: str):
         ax2.plot(grid, c(grid), "C1-", label="POD")
         ax2.set_ylabel("POD")
         ax2.set_ylim(0, 1.02)
+    pod_ax = ax if kind == "hit-miss" else ax2
+    if fit.a90_95 and math.isfinite(fit.a90_95):
+        lb = lower_bound_curve(c, fit.a90_95)
+        pod_ax.plot(grid, lb(grid), "C1--", label="lower confidence bound (through a90/95)")
     ax.axvline(c.a90, color="C2", ls=":", label=f"a90 = {c.a90:.3g} mm")
     ax.axvline(fit.a90_95, color="C2", ls="--", label=f"a90/95 = {fit.a90_95:.3g} mm")
     ax.set_xscale("log")
     ax.set_xlabel("crack size a [mm]")
-    ax.legend(fontsize=8, loc="center right")
+    h1, l1 = ax.get_legend_handles_labels()
+    if kind != "hit-miss":
+        h2, l2 = ax2.get_legend_handles_labels()
+        h1, l1 = h1 + h2, l1 + l2
+        ax2.yaxis.set_label_position("right")
+    fig.set_size_inches(7.6, 4.2)
+    ax.legend(h1, l1, fontsize=7, loc="upper left", bbox_to_anchor=(1.13, 1.0))
     ax.grid(True, which="both", alpha=0.3)
     return fig
 
@@ -195,8 +224,6 @@ def pof_per_period(summary: dict):
 def pod_used(summary: dict, lower_bound: bool = False):
     """The POD curve of the plan and, when asked, the curve of the same spread through the
     a90/95 size (a lower bound on POD at each size)."""
-    import math
-
     from cycj.plan.pod import PodCurve
 
     d = summary["pod"]
@@ -204,17 +231,22 @@ def pod_used(summary: dict, lower_bound: bool = False):
     fig, ax = _fig()
     top = max(c.a90 * 3, (c.a90_95 or 0) * 2)
     a = np.geomspace(c.a50 / 10, top, 300)
-    ax.plot(a, c(a), "C0-", label=f"POD used ({c.model}, a50 {c.a50:.3g} mm)")
+    ax.plot(a, c(a), "C0-", label=f"POD (mean curve, {c.model}, a50 {c.a50:.3g} mm)")
     ax.axvline(c.a90, color="C0", ls=":", lw=1, label=f"a90 = {c.a90:.3g} mm")
-    if lower_bound and c.a90_95:
-        lb = PodCurve(c.model, c.mu + math.log(c.a90_95 / c.a90), c.sigma, c.ceiling)
-        ax.plot(a, lb(a), "C1--", label=f"lower bound through a90/95 = {c.a90_95:.3g} mm")
+    if c.a90_95:
+        used = " — used in the plan" if lower_bound else ""
+        ax.plot(
+            a,
+            lower_bound_curve(c, c.a90_95)(a),
+            "C1--",
+            label=f"lower confidence bound through a90/95 = {c.a90_95:.3g} mm{used}",
+        )
     det = summary["deterministic"]["detectable_size_mm"]
     ax.axvline(det, color="0.4", ls="-.", lw=1, label=f"detectable size {det:.3g} mm")
     ax.set_xscale("log")
     ax.set_ylim(0, 1.02)
     ax.set_xlabel("crack size a [mm]")
     ax.set_ylabel("probability of detection")
-    ax.legend(fontsize=8, loc="lower right")
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
