@@ -96,15 +96,29 @@ def cumulative_pof(summary: dict):
 def envelope(curves: dict, summary: dict):
     """Crack size vs cycles: Monte Carlo quantiles without inspection, and the deterministic
     curve from the detectable size with the deterministic inspections marked."""
+    from cycj.display import units
+
+    u = units()
+    L = u.factor("length")
     fig, ax = _fig()
     env = curves["envelope"]
     n = np.asarray(env["cycles"])
     ax.fill_between(
-        n, env["a_p05_mm"], env["a_p95_mm"], alpha=0.25, label="5–95 % of samples (no inspection)"
+        n,
+        np.asarray(env["a_p05_mm"]) * L,
+        np.asarray(env["a_p95_mm"]) * L,
+        alpha=0.25,
+        label="5–95 % of samples (no inspection)",
     )
-    ax.plot(n, env["a_p50_mm"], lw=1.5, label="median sample")
+    ax.plot(n, np.asarray(env["a_p50_mm"]) * L, lw=1.5, label="median sample")
     det = curves["deterministic"]
-    ax.plot(det["cycles"], det["a_mm"], "k-", lw=1, label="deterministic, from detectable")
+    ax.plot(
+        det["cycles"],
+        np.asarray(det["a_mm"]) * L,
+        "k-",
+        lw=1,
+        label="deterministic, from detectable",
+    )
     d = summary["deterministic"]
     for i, row in enumerate(d["schedule"]):
         ax.axvline(
@@ -114,12 +128,12 @@ def envelope(curves: dict, summary: dict):
             ls=":",
             label="deterministic inspections" if i == 0 else None,
         )
-    ax.axhline(d["critical_crack_length_mm"], color="C3", ls="--", lw=1, label="critical")
-    ax.axhline(d["detectable_size_mm"], color="0.4", ls="-.", lw=1, label="detectable")
+    ax.axhline(d["critical_crack_length_mm"] * L, color="C3", ls="--", lw=1, label="critical")
+    ax.axhline(d["detectable_size_mm"] * L, color="0.4", ls="-.", lw=1, label="detectable")
     ax.set_yscale("log")
     ax.set_xlim(0, summary["design_life_cycles"])
     ax.set_xlabel("cycles")
-    ax.set_ylabel("crack size a [mm]")
+    ax.set_ylabel(u.label("crack size a", "length"))
     _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
@@ -228,24 +242,30 @@ def pod_used(summary: dict, lower_bound: bool = False):
 
     d = summary["pod"]
     c = PodCurve(d["model"], d["mu"], d["sigma"], d["ceiling"], d.get("a90_95_mm"))
+    from cycj.display import units
+
+    u = units()
+    L = u.factor("length")
     fig, ax = _fig()
     top = max(c.a90 * 3, (c.a90_95 or 0) * 2)
     a = np.geomspace(c.a50 / 10, top, 300)
-    ax.plot(a, c(a), "C0-", label=f"POD (mean curve, {c.model}, a50 {c.a50:.3g} mm)")
-    ax.axvline(c.a90, color="C0", ls=":", lw=1, label=f"a90 = {c.a90:.3g} mm")
+    ax.plot(a * L, c(a), "C0-", label=f"POD (mean curve, {c.model}, a50 {u.q(c.a50, 'length', 3)})")
+    ax.axvline(c.a90 * L, color="C0", ls=":", lw=1, label=f"a90 = {u.q(c.a90, 'length', 3)}")
     if c.a90_95:
         used = " — used in the plan" if lower_bound else ""
         ax.plot(
-            a,
+            a * L,
             lower_bound_curve(c, c.a90_95)(a),
             "C1--",
-            label=f"lower confidence bound through a90/95 = {c.a90_95:.3g} mm{used}",
+            label=f"lower confidence bound through a90/95 = {u.q(c.a90_95, 'length', 3)}{used}",
         )
     det = summary["deterministic"]["detectable_size_mm"]
-    ax.axvline(det, color="0.4", ls="-.", lw=1, label=f"detectable size {det:.3g} mm")
+    ax.axvline(
+        det * L, color="0.4", ls="-.", lw=1, label=f"detectable size {u.q(det, 'length', 3)}"
+    )
     ax.set_xscale("log")
     ax.set_ylim(0, 1.02)
-    ax.set_xlabel("crack size a [mm]")
+    ax.set_xlabel(u.label("crack size a", "length"))
     ax.set_ylabel("probability of detection")
     _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
