@@ -21,7 +21,7 @@ def rate_plot(result):
     """da/dN [mm/cycle] against ΔJ_eff [kJ/m²], log–log, by log, with the recommended line
     and the prediction band of the regression."""
     from cycj.calibrate.fits import prediction_band
-    from cycj.display import units
+    from cycj.display import num, units
 
     u = units()
     J, R = u.factor("energy_per_area"), u.factor("rate")
@@ -39,7 +39,7 @@ def rate_plot(result):
         x * J,
         s["C"] * x ** s["m"] * R,
         "k-",
-        label=f"{s['recommended_fit']}: C={s['C']:.3g}, m={s['m']:.3g}",
+        label=f"{s['recommended_fit']}: C = {num(s['C'], 3)}, m = {num(s['m'], 3)}",
     )
     reg = result.fits.get(meth)
     if reg is not None:
@@ -88,27 +88,31 @@ def crack_plot(result):
 
 def loop_plot(typical):
     """One recorded loop with its compliance line and opening load."""
+    from cycj.display import units
+
+    u = units()
+    F, L = u.factor("force"), u.factor("length")
     fig, ax = _figure()
-    p, v = typical["load"], typical["disp"]
-    ax.plot(v, p, ".-", ms=3, lw=0.6, label=f"cycle {typical['cycle']:.0f}")
+    p, v = np.asarray(typical["load"]), np.asarray(typical["disp"])
+    ax.plot(v * L, p * F, ".-", ms=3, lw=0.6, label=f"cycle {typical['cycle']:,.0f}")
     pmax = typical["p_max"]
     imax = int(np.argmax(p))
     pp = np.linspace(p.min(), pmax, 20)
     ax.plot(
-        v[imax] - typical["compliance"] * (pmax - pp),
-        pp,
+        (v[imax] - typical["compliance"] * (pmax - pp)) * L,
+        pp * F,
         "k--",
         lw=1,
         label="compliance line (upper unloading)",
     )
     ax.axhline(
-        typical["p_open"],
+        typical["p_open"] * F,
         color="r",
         lw=1,
-        label=f"opening load {typical['p_open']:.0f} N (this loop)",
+        label=f"opening load {u.q(typical['p_open'], 'force')} (this loop)",
     )
-    ax.set_xlabel("displacement [mm]")
-    ax.set_ylabel("load [N]")
+    ax.set_xlabel(u.label("displacement", "length"))
+    ax.set_ylabel(u.label("load", "force"))
     ax.grid(True, alpha=0.3)
     ax.legend(fontsize=8)
     return fig

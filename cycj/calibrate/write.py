@@ -32,6 +32,8 @@ def write_outputs(result, out_dir, *, logs=(), specimens=(), force=False, plots=
 
 
 def _plots_and_report(od, result, s, logs, specimens):
+    import html
+
     import pandas as pd
 
     from cycj.calibrate import plots
@@ -111,7 +113,6 @@ def _plots_and_report(od, result, s, logs, specimens):
                 "R ratios collapse in ΔJ_eff",
                 "not tested (one R ratio)" if collapse is None else collapse,
             ),
-            ("growth snippet", result.snippet.splitlines()[-1]),
         ],
         figures=figs,
         tables=[
@@ -129,6 +130,12 @@ def _plots_and_report(od, result, s, logs, specimens):
         ],
         warnings=[w for w in result.warnings if w != CAUTION],
         references=s["references"],
+        extra_html=(
+            "<h2>Growth law for a case file</h2><p>The line to paste into a case's "
+            "<code>[material]</code> table (growth_snippet.toml):</p><pre><code>"
+            + html.escape(result.snippet.rstrip().splitlines()[-1], quote=False)
+            + "</code></pre>"
+        ),
     )
 
 

@@ -63,7 +63,7 @@ def write_outputs(od, case, frame, info, plots: bool = True):
 
 
 def _report(od, case, frame, info, figs):
-    from cycj.display import units
+    from cycj.display import num, units
     from cycj.report import write_report
     from cycj.report_inputs import geometry_rows, material_rows
 
@@ -98,7 +98,7 @@ def _report(od, case, frame, info, figs):
                 "crack sizes tabulated",
                 f"{u.q(frame['a_mm'].min(), 'length')} to {u.q(frame['a_mm'].max(), 'length')}",
             ),
-            ("worst spread between domains", f"{100 * info['worst_domain_spread']:.2g} %"),
+            ("worst spread between domains", f"{num(100 * info['worst_domain_spread'], 2)} %"),
         ],
         warnings=warnings,
         references=[

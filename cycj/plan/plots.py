@@ -6,6 +6,8 @@ import math
 
 import numpy as np
 
+from cycj.display import count
+
 
 def _outside(ax, handles=None, labels=None):
     """The legend beside the axes (it never covers data: the shaded band, the points)."""
@@ -49,7 +51,7 @@ def pof_vs_interval(summary: dict):
     ax.axhline(summary["no_inspection"]["pof"], color="0.5", ls=":", label="no inspection")
     rec = summary["recommended_interval_cycles"]
     if rec is not None and summary.get("inspection_needed", True):
-        ax.axvline(rec, color="C2", ls="-.", label=f"recommended {rec:.3g}")
+        ax.axvline(rec, color="C2", ls="-.", label=f"recommended {count(rec)} cycles")
         r = summary.get("recommendation") or {}
         if r.get("pof_ci"):
             lo, hi = r["pof_ci"]

@@ -34,7 +34,7 @@ def test_closure_scales_the_elastic_part_by_u_squared_and_parts_add_up():
     # constant closure U: ΔJ_el = U²·ΔK²/E'; the reference-stress ΔJ adds a plastic part
     case = make_case(
         loading={
-            "constant": {"max": "300 MPa", "min": "0 MPa"},
+            "constant": {"max": "300 MPa", "min": "30 MPa"},
             "closure": {"model": "constant", "U": 0.8},
         },
         analysis={"j_method": "reference-stress"},
@@ -42,6 +42,8 @@ def test_closure_scales_the_elastic_part_by_u_squared_and_parts_add_up():
     )
     h = predict_life(case).history
     dk = h["dK_MPa_sqrt_m"].to_numpy() * math.sqrt(1000.0)
+    # the cycle's range, 270 MPa, on K = S·√(πa)
+    np.testing.assert_allclose(dk, 270.0 * np.sqrt(math.pi * h["a_mm"].to_numpy()), rtol=1e-12)
     np.testing.assert_allclose(h["dJ_el_kJm2"], 0.64 * dk**2 / _e_prime(case), rtol=1e-12)
     assert np.all(h["dJ_pl_kJm2"] > 0)
     np.testing.assert_allclose(h["dJ_el_kJm2"] + h["dJ_pl_kJm2"], h["dJ_kJm2"], rtol=1e-9)
