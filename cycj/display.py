@@ -27,6 +27,8 @@ from functools import cache
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
 #: shown for a value that does not exist (not computed, not applicable)
 MISSING = "—"
+#: "×" between a mantissa and its power of ten, with no-break spaces (never split in a table)
+TIMES = "\u00a0×\u00a0"
 #: hours in a year (365.25 days) for lives shown in years
 HOURS_PER_YEAR = 8766.0
 
@@ -73,7 +75,7 @@ def num(x, sig: int = 4) -> str:
         return sign + s
     mant = rounded / 10.0**exp
     m = f"{mant:.{sig - 1}f}".rstrip("0").rstrip(".")
-    return f"{sign}{m} × {power_of_ten(exp)}"
+    return f"{sign}{m}{TIMES}{power_of_ten(exp)}"
 
 
 def count(x) -> str:

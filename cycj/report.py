@@ -31,7 +31,8 @@ padding-bottom:.2em;margin-top:1.6em}
 .warn{color:#8a4b00}table{border-collapse:collapse;width:100%;font-size:.92em;
 display:block;overflow-x:auto}td,th{border:1px solid #ddd;padding:.25em .5em;text-align:left;
 vertical-align:top}th{background:#f3f3f3}figure{margin:1em 0}img{max-width:100%;height:auto}
-figcaption{font-size:.9em;color:#444}@media print{body{max-width:none}figure{break-inside:avoid}}
+figcaption{font-size:.9em;color:#444}pre{white-space:pre-wrap;overflow-wrap:anywhere;
+background:#f6f6f6;padding:.5em}@media print{body{max-width:none}figure{break-inside:avoid}}
 """
 
 

@@ -84,13 +84,17 @@ def cumulative_pof(summary: dict):
     for k, v in cum.items():
         if k == "cycles":
             continue
-        ax.plot(n, v, label=k.replace("_", " "))
+        words = k.replace("_", " ")
+        tail = words.rsplit(" ", 1)[-1]
+        if words.startswith("interval ") and tail.replace(".", "").isdigit():
+            words = f"interval {count(float(tail))} cycles"
+        ax.plot(n, v, label=words)
     ax.axhline(summary["target_pof"], color="C3", ls="--", lw=1, label="target")
     ax.set_yscale("symlog", linthresh=max(summary["target_pof"] / 10, 1e-8))
     ax.set_ylim(bottom=0.0)
     ax.set_xlabel("cycles")
     ax.set_ylabel("cumulative probability of failure")
-    ax.legend(fontsize=8)
+    _outside(ax)
     ax.grid(True, alpha=0.3)
     return fig
 
@@ -189,7 +193,8 @@ def pod_plot(fit, a, y, kind: str):
         h1, l1 = h1 + h2, l1 + l2
         ax2.yaxis.set_label_position("right")
     fig.set_size_inches(7.6, 4.2)
-    ax.legend(h1, l1, fontsize=7, loc="upper left", bbox_to_anchor=(1.13, 1.0))
+    right = 1.02 if kind == "hit-miss" else 1.13  # beside the second axis' labels
+    ax.legend(h1, l1, fontsize=7, loc="upper left", bbox_to_anchor=(right, 1.0))
     ax.grid(True, which="both", alpha=0.3)
     return fig
 
@@ -232,7 +237,7 @@ def pof_per_period(summary: dict):
     ax2.set_ylabel("cumulative probability of failure")
     h1, l1 = ax.get_legend_handles_labels()
     h2, l2 = ax2.get_legend_handles_labels()
-    ax.legend(h1 + h2, l1 + l2, fontsize=7, loc="upper left")
+    ax.legend(h1 + h2, l1 + l2, fontsize=7, loc="upper left", bbox_to_anchor=(1.16, 1.0))
     ax.grid(True, alpha=0.3)
     return fig
 
