@@ -213,31 +213,40 @@ def using(system):
 
 
 # ------------------------------------------------------------------------------- axes
-def _log_label(value, _pos=None) -> str:
-    if value <= 0 or not math.isfinite(value):
-        return ""
-    e = math.log10(value)
-    if abs(e - round(e)) < 1e-9:
-        n = int(round(e))
-        return {0: "1", 1: "10", 2: "100"}.get(n, power_of_ten(n))
-    return num(value, 2)
+def _log_labeller(lo: float, hi: float):
+    """Tick labels of a log axis shown over [lo, hi]: every decade as a plain number when the
+    axis stays within 0.01 … 1000, else every decade as ``10ⁿ`` (never a mix)."""
+    plain = lo >= 0.00999 and hi <= 1000.1
+
+    def label(value, _pos=None) -> str:
+        if value <= 0 or not math.isfinite(value):
+            return ""
+        e = math.log10(value)
+        if abs(e - round(e)) < 1e-9:
+            return num(value, 1) if plain else power_of_ten(int(round(e)))
+        return num(value, 2)
+
+    return label
 
 
 def log_axis(ax, which: str = "y") -> None:
-    """Label a log axis cleanly: decades as ``10ⁿ``; when the shown span is under two
-    decades, also 2 and 5 of each decade as plain numbers; no label on the other minor
-    ticks (so labels never run into each other)."""
+    """Label a log axis cleanly: decades (as ``10ⁿ``, or plain numbers on an axis within
+    0.01 … 1000); when the shown span is under two decades also 2 and 5 of each decade,
+    under one decade every integer multiple; no label on the other minor ticks (so labels
+    never run into each other)."""
     from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
 
     axes = {"x": [ax.xaxis], "y": [ax.yaxis], "both": [ax.xaxis, ax.yaxis]}[which]
     for axis in axes:
         lo, hi = sorted(axis.get_view_interval())
         span = math.log10(hi / lo) if lo > 0 and hi > 0 else 10.0
-        if span < 2.0:
+        if span < 1.0:  # within a decade: every integer multiple labelled
+            axis.set_major_locator(LogLocator(base=10, subs=tuple(float(k) for k in range(1, 10))))
+        elif span < 2.0:
             axis.set_major_locator(LogLocator(base=10, subs=(1.0, 2.0, 5.0)))
         else:
             axis.set_major_locator(LogLocator(base=10, subs=(1.0,), numticks=12))
-        axis.set_major_formatter(FuncFormatter(_log_label))
+        axis.set_major_formatter(FuncFormatter(_log_labeller(lo, hi)))
         axis.set_minor_locator(LogLocator(base=10, subs=tuple(range(2, 10)), numticks=12))
         axis.set_minor_formatter(NullFormatter())
 
