@@ -364,8 +364,8 @@ def write_count_report(od, summary: dict, figures) -> Path:
             f"{_load(summary['max'], unit)}, {_load(summary['min'], unit)}",
         ),
         (
-            "irregularity factor (peaks per zero up-crossing)",
-            num(irr, 3) if irr is not None else "not defined (no zero up-crossing)",
+            "irregularity factor (mean up-crossings per peak)",
+            num(irr, 3) if irr is not None else "not defined (no peak)",
         ),
     ]
     warnings = []
