@@ -25,7 +25,7 @@ LIFE = sorted(
 )
 COMMANDS = {
     **{f"run-{n[:-5]}": ["run", f"{EX}/{n}"] for n in LIFE},
-    "run-US": ["run", f"{EX}/lab_compact_tension.toml", "--units", "US"],
+    "run-US": ["run", f"{EX}/welded_joint_residual.toml", "--units", "US"],
     "plan": ["plan", f"{EX}/plate_inspection.toml"],
     "fit": [
         "fit",
