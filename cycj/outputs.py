@@ -328,7 +328,10 @@ class OutputDir:
     def savefig(self, name: str, fig, dpi: int = 110) -> Path:
         import matplotlib.pyplot as plt
 
+        from cycj.display import tidy
+
         p = self.path(name)
+        tidy(fig)
         fig.savefig(p, dpi=dpi, bbox_inches="tight")
         plt.close(fig)
         return p

@@ -1,14 +1,19 @@
 """The self-contained HTML report every command writes (plots embedded, no external links).
 
 Readable on a phone and in print: what was asked, the inputs, the answer in one sentence, the
-plots, validity warnings, the references the run used, and the caution.
+plots, the validity of the answer (the ranges used, extrapolation, warnings), the references the
+run used, and the caution.  Every value is shown through :mod:`cycj.display` (engineering
+numbers, no programming-language literal); an empty table says "none".
 """
 
 from __future__ import annotations
 
 import base64
 import html
+import re
 from pathlib import Path
+
+from cycj.display import frame_text, text
 
 CAUTION = (
     "Caution: these results are estimates for engineering judgement. They depend on the "
@@ -26,7 +31,8 @@ padding-bottom:.2em;margin-top:1.6em}
 .warn{color:#8a4b00}table{border-collapse:collapse;width:100%;font-size:.92em;
 display:block;overflow-x:auto}td,th{border:1px solid #ddd;padding:.25em .5em;text-align:left;
 vertical-align:top}th{background:#f3f3f3}figure{margin:1em 0}img{max-width:100%;height:auto}
-figcaption{font-size:.9em;color:#444}@media print{body{max-width:none}figure{break-inside:avoid}}
+figcaption{font-size:.9em;color:#444}pre{white-space:pre-wrap;overflow-wrap:anywhere;
+background:#f6f6f6;padding:.5em}@media print{body{max-width:none}figure{break-inside:avoid}}
 """
 
 
@@ -39,9 +45,26 @@ def _table(frame, max_rows: int = 60) -> str:
     import pandas as pd
 
     df = frame if isinstance(frame, pd.DataFrame) else pd.DataFrame(frame)
+    if df.empty:
+        return "<p>none</p>"
+    note = ""
     if len(df) > max_rows:
+        note = f"<p><small>first and last {max_rows // 2} of {len(df):,} rows</small></p>"
         df = pd.concat([df.head(max_rows // 2), df.tail(max_rows // 2)])
-    return df.to_html(index=False, border=0, float_format=lambda x: f"{x:.6g}", escape=True)
+    return frame_text(df).to_html(index=False, border=0, escape=True, na_rep="—") + note
+
+
+#: verification notes kept out of printed citations (their status belongs in docs/)
+_NOTE = re.compile(r"\s*[(\[]\s*(from memory|common practice)\s*[)\]]", re.I)
+_NOTE_IN = re.compile(
+    r"(;\s*(from memory|common practice)\b|\b(from memory|common practice)[;,]\s*)", re.I
+)
+
+
+def citation(ref) -> str:
+    """A reference as printed: without a verification note such as "(from memory)" or
+    "common practice; " (docs/references.md records which values are confirmed)."""
+    return _NOTE_IN.sub("", _NOTE.sub("", str(ref))).strip()
 
 
 def render_report(
@@ -55,8 +78,13 @@ def render_report(
     warnings=(),
     references=(),
     extra_html: str = "",
+    validity=(),
 ) -> str:
-    """The report as one HTML string (images embedded as base64 PNG)."""
+    """The report as one HTML string (images embedded as base64 PNG).
+
+    ``inputs`` and ``validity`` are (item, value) rows; values go through
+    :func:`cycj.display.text`.  The validity section is always there: its rows (ranges used,
+    extrapolation) and the ``warnings``, or "no validity warnings"."""
 
     def e(text):
         return html.escape(text, quote=False)
@@ -70,13 +98,20 @@ def render_report(
         f"<h2>What was asked</h2><p>{e(question)}</p>",
         f"<h2>Answer</h2><p class='answer'>{e(answer)}</p>",
     ]
+    parts.append("<h2>Validity</h2>")
+    if validity:
+        parts.append("<table><tr><th>check</th><th>value</th></tr>")
+        parts += [f"<tr><td>{e(text(k))}</td><td>{e(text(v))}</td></tr>" for k, v in validity]
+        parts.append("</table>")
     if warnings:
-        parts.append("<h2>Validity warnings</h2><ul>")
-        parts += [f"<li class='warn'>{e(str(w))}</li>" for w in warnings]
+        parts.append("<ul>")
+        parts += [f"<li class='warn'>{e(text(w))}</li>" for w in warnings]
         parts.append("</ul>")
+    else:
+        parts.append("<p>No validity warnings.</p>")
     if inputs:
         parts.append("<h2>Inputs</h2><table><tr><th>item</th><th>value</th></tr>")
-        parts += [f"<tr><td>{e(str(k))}</td><td>{e(str(v))}</td></tr>" for k, v in inputs]
+        parts += [f"<tr><td>{e(text(k))}</td><td>{e(text(v))}</td></tr>" for k, v in inputs]
         parts.append("</table>")
     if figures:
         parts.append("<h2>Plots</h2>")
@@ -90,7 +125,7 @@ def render_report(
     parts.append(extra_html)
     if references:
         parts.append("<h2>References used</h2><ol>")
-        parts += [f"<li>{e(str(r))}</li>" for r in references]
+        parts += [f"<li>{e(citation(r))}</li>" for r in references]
         parts.append("</ol>")
     from cycj._version import __version__
 

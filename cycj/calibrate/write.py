@@ -32,6 +32,8 @@ def write_outputs(result, out_dir, *, logs=(), specimens=(), force=False, plots=
 
 
 def _plots_and_report(od, result, s, logs, specimens):
+    import html
+
     import pandas as pd
 
     from cycj.calibrate import plots
@@ -74,11 +76,18 @@ def _plots_and_report(od, result, s, logs, specimens):
         ]
     )
     skipped = pd.DataFrame(result.skipped, columns=["log", "cycle", "reason"])
+    from cycj.display import num, units
+
+    u = units()
+    lo_dj, hi_dj = s["dJ_range_kJm2"]
     answer = (
-        f"da/dN = {s['C']:.4g}·ΔJ^{s['m']:.4g} mm/cycle (ΔJ in kJ/m², basis "
-        f"{s['basis']}, {s['recommended_fit']} fit), valid for ΔJ "
-        f"{s['dJ_range_kJm2'][0]:.3g}–{s['dJ_range_kJm2'][1]:.3g} kJ/m²."
+        f"da/dN = {num(s['C'])}·ΔJ^{num(s['m'])} mm/cycle (ΔJ in kJ/m², on the "
+        f"{s['basis']} range, {s['recommended_fit']} fit), valid for ΔJ "
+        f"{u.q(lo_dj, 'energy_per_area', 3)} to {u.q(hi_dj, 'energy_per_area', 3)}."
     )
+    b = s["between_specimen"]
+    thr = s["threshold_kJm2"]
+    collapse = s["r_ratio_collapse"].get("collapses")
     write_report(
         od.path("report.html"),
         title="Growth constants in ΔJ from test logs",
@@ -91,16 +100,19 @@ def _plots_and_report(od, result, s, logs, specimens):
             ("recommended fit", f"{s['recommended_fit']}: {s['recommended_reason']}"),
             ("closure", s["closure"]),
             ("intervals", f"{s['interval_method']}: {s['interval_note']}"),
-            ("within-test rate scatter sigma_ln (not for planning)", s["sigma_ln"]),
+            ("within-test rate scatter σ of ln(da/dN) (not for planning)", num(s["sigma_ln"], 3)),
             (
-                "between-specimen scatter sigma_ln_C (for planning)",
-                s["between_specimen"].get("sigma_ln_C")
-                if s["between_specimen"].get("sigma_ln_C") is not None
-                else s["between_specimen"].get("note"),
+                "between-specimen scatter σ of ln C (for planning)",
+                num(b.get("sigma_ln_C"), 3) if b.get("sigma_ln_C") is not None else b.get("note"),
             ),
-            ("threshold [kJ/m²]", s["threshold_kJm2"]),
-            ("R ratios collapse in ΔJ_eff", s["r_ratio_collapse"].get("collapses")),
-            ("growth snippet", result.snippet.splitlines()[-1]),
+            (
+                "threshold ΔJ_th (ASTM E647 operational)",
+                u.q(thr, "energy_per_area", 3) if thr else "not reached by these data",
+            ),
+            (
+                "R ratios collapse in ΔJ_eff",
+                "not tested (one R ratio)" if collapse is None else collapse,
+            ),
         ],
         figures=figs,
         tables=[
@@ -108,8 +120,22 @@ def _plots_and_report(od, result, s, logs, specimens):
             ("Per specimen (m fixed)", _per_specimen_frame(s)),
             ("Skipped readings", skipped.head(200)),
         ],
-        warnings=[*result.warnings, CAUTION],
+        validity=[
+            (
+                "ΔJ range of the data behind the fit",
+                f"{u.q(lo_dj, 'energy_per_area', 3)} to {u.q(hi_dj, 'energy_per_area', 3)} "
+                "(a run outside it is warned as extrapolated)",
+            ),
+            ("readings skipped", f"{len(result.skipped):,}"),
+        ],
+        warnings=[w for w in result.warnings if w != CAUTION],
         references=s["references"],
+        extra_html=(
+            "<h2>Growth law for a case file</h2><p>The line to paste into a case's "
+            "<code>[material]</code> table (growth_snippet.toml):</p><pre><code>"
+            + html.escape(result.snippet.rstrip().splitlines()[-1], quote=False)
+            + "</code></pre>"
+        ),
     )
 
 

@@ -6,6 +6,7 @@ import math
 
 import click
 
+from cycj.commands.options import units_option
 from cycj.errors import CycjInputError
 
 
@@ -60,6 +61,7 @@ from cycj.errors import CycjInputError
 )
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
+@units_option
 def count(
     history,
     column,
@@ -74,6 +76,7 @@ def count(
     cycles_format,
     no_plots,
     as_json,
+    units_system,
 ):
     """Rainflow-count the load history in HISTORY (CSV/TSV, Parquet or .npy)."""
     import contextlib
@@ -95,8 +98,10 @@ def count(
         )
     od = OutputDir(out_dir, force=force, inputs=[history]) if out_dir is not None else None
     streamed = stream or (not repeat and wants_streaming(history))
+    from cycj.display import using
+
     spill = contextlib.ExitStack()
-    with spill:
+    with spill, using(units_system or "SI"):
         if streamed:
             folder = spill.enter_context(tempfile.TemporaryDirectory(prefix="cycj-count-"))
             result, write = _streamed(history, column, factor, scale, gate_value, folder, internal)

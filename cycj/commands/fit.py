@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import click
 
+from cycj.commands.options import units_option
+
 
 @click.command()
 @click.argument("logs", nargs=-1, required=True, type=click.Path(dir_okay=False))
@@ -63,6 +65,7 @@ import click
 @click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print fit.json to stdout.")
+@units_option
 def fit(
     logs,
     specimens,
@@ -77,6 +80,7 @@ def fit(
     force,
     no_plots,
     as_json,
+    units_system,
 ):
     """Fit da/dN = C·ΔJ^m to fatigue crack growth LOGS (raw loops or crack lengths; a
     ``specimen`` column holds many tests in one file)."""
@@ -97,7 +101,12 @@ def fit(
         dJ_at=list(rate_at) or None,
         free_start=free_start,
     )
-    write_outputs(result, out_dir, logs=logs, specimens=specimens, force=force, plots=not no_plots)
+    from cycj.display import using
+
+    with using(units_system or "SI"):
+        write_outputs(
+            result, out_dir, logs=logs, specimens=specimens, force=force, plots=not no_plots
+        )
     if as_json:
         click.echo(dumps(result.summary))
         return

@@ -6,6 +6,8 @@ from pathlib import Path
 
 import click
 
+from cycj.commands.options import units_option
+
 
 @click.command("j-table")
 @click.argument("case_file", type=click.Path(dir_okay=False))
@@ -31,7 +33,8 @@ import click
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json):
+@units_option
+def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json, units_system):
     """Tabulate J at peak load and ΔJ for a load range by 2-D finite elements for CASE_FILE.
 
     Writes jtable.csv, jtable.json, plots and report.html to the output folder.
@@ -50,7 +53,9 @@ def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json):
             click.echo(f"  a = {a:.4g} mm done", err=True)
 
     frame, info = compute(case, sizes, loads, progress)
-    with od:
+    from cycj.display import using
+
+    with od, using(units_system or getattr(case, "report_units", None) or "SI"):
         data = write_outputs(od, case, frame, info, plots=not no_plots)
     if as_json:
         click.echo(dumps(data))

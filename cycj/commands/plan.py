@@ -6,6 +6,8 @@ from pathlib import Path
 
 import click
 
+from cycj.commands.options import units_option
+
 
 @click.command()
 @click.argument("case_file", type=click.Path(dir_okay=False))
@@ -29,7 +31,8 @@ import click
 @click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--json", "as_json", is_flag=True, help="Print plan.json to stdout.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
-def plan(case_file, out_dir, scheduler, workers, force, as_json, no_plots):
+@units_option
+def plan(case_file, out_dir, scheduler, workers, force, as_json, no_plots, units_system):
     """Plan inspections for CASE_FILE (its [inspection] table): the interval from detectable
     to critical size, and the probability of failure for each inspection interval.
 
@@ -44,11 +47,16 @@ def plan(case_file, out_dir, scheduler, workers, force, as_json, no_plots):
     out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-plan")
     OutputDir(out, force=force, inputs=[case.path])  # refuse early, before the long run
     result = plan_inspections(case, scheduler=scheduler, workers=workers)
-    summary = write_plan(result, case, out, force=force, plots=not no_plots)
+    summary = write_plan(
+        result, case, out, force=force, plots=not no_plots, units_system=units_system
+    )
     if as_json:
         click.echo(dumps(summary))
         return
-    click.echo(answer_sentence(summary))
+    from cycj.display import using
+
+    with using(units_system or getattr(case, "report_units", None) or "SI"):
+        click.echo(answer_sentence(summary))
     click.echo(result.what_if.to_string(index=False))
     click.echo(
         f"outputs: {out}/ (plan.json, what_if.csv, schedule.csv"

@@ -8,6 +8,8 @@ from pathlib import Path
 
 import click
 
+from cycj.commands.options import units_option
+
 
 class _Progress:
     """A one-line progress display on stderr (cycles and crack size), for long runs."""
@@ -50,7 +52,8 @@ class _Progress:
     default=None,
     help="Dask scheduler address (tcp://HOST:PORT) to run a fleet of cases.",
 )
-def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
+@units_option
+def run(case_files, out_dir, method, force, as_json, no_plots, scheduler, units_system):
     """Predict the remaining life of CASE_FILES (cycles to a J-based instability).
 
     Writes summary.json, history.csv, plots and report.html to the output folder.
@@ -59,9 +62,11 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
     from cycj.outputs import dumps
 
     if len(case_files) > 1 or scheduler:
+        from cycj.display import using
         from cycj.life.fleet import run_fleet
 
-        table = run_fleet(case_files, out_dir, method=method, force=force, scheduler=scheduler)
+        with using(units_system or "SI"):
+            table = run_fleet(case_files, out_dir, method=method, force=force, scheduler=scheduler)
         click.echo(table.to_string(index=False))
         return
     case_file = case_files[0]
@@ -72,14 +77,23 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler):
 
     try:
         summary = run_and_write(
-            case, out, method=method, force=force, plots=not no_plots, progress=progress
+            case,
+            out,
+            method=method,
+            force=force,
+            plots=not no_plots,
+            progress=progress,
+            units_system=units_system,
         )
     finally:
         progress.close()
     if as_json:
         click.echo(dumps(summary))
         return
-    click.echo(answer_sentence(summary))
+    from cycj.display import using
+
+    with using(units_system or getattr(case, "report_units", None) or "SI"):
+        click.echo(answer_sentence(summary))
     click.echo(
         f"outputs: {out}/ (summary.json, history.csv"
         + (", plots, report.html)" if not no_plots else ")")

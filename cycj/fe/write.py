@@ -12,11 +12,13 @@ CAPTIONS = {
 
 
 def answer(info: dict, frame) -> str:
+    from cycj.display import count, num
+
     return (
-        f"{len(frame)} rows ({frame['a_mm'].nunique()} crack sizes) of J and ΔJ for the "
-        f"{info['shape']} ({info['constraint']}); largest model {info['dofs_max']} degrees of "
-        f"freedom; worst spread between the {info['domains']} domains "
-        f"{100 * info['worst_domain_spread']:.3g} %; {info['seconds']:.1f} s."
+        f"{count(len(frame))} rows ({frame['a_mm'].nunique()} crack sizes) of J and ΔJ for the "
+        f"{info['shape']} ({info['constraint']}); largest model {count(info['dofs_max'])} "
+        f"degrees of freedom; worst spread between the {info['domains']} domains "
+        f"{num(100 * info['worst_domain_spread'], 3)} %; {num(info['seconds'], 3)} s."
     )
 
 
@@ -61,14 +63,17 @@ def write_outputs(od, case, frame, info, plots: bool = True):
 
 
 def _report(od, case, frame, info, figs):
+    from cycj.display import num, units
     from cycj.report import write_report
+    from cycj.report_inputs import geometry_rows, material_rows
 
+    u = units()
     inputs = [
         ("case", str(case.path)),
-        ("shape", info["shape"]),
-        ("constraint", info["constraint"]),
+        *material_rows(case.material, case.geometry.plane_strain),
+        *geometry_rows(case.geometry),
         ("curve for J at peak load", info["curve_for_J"]),
-        ("Masing coefficient K* = 2^(1−n')K' [MPa]", f"{info['masing_coefficient_MPa']:.6g}"),
+        ("Masing coefficient K* = 2^(1−n')K'", u.q(info["masing_coefficient_MPa"], "stress")),
         ("elements per ring", 16 * info["refine"]),
         ("domains", info["domains"]),
     ]
@@ -88,6 +93,13 @@ def _report(od, case, frame, info, figs):
         inputs=inputs,
         figures=figs,
         tables=[("J table", frame)],
+        validity=[
+            (
+                "crack sizes tabulated",
+                f"{u.q(frame['a_mm'].min(), 'length')} to {u.q(frame['a_mm'].max(), 'length')}",
+            ),
+            ("worst spread between domains", f"{num(100 * info['worst_domain_spread'], 2)} %"),
+        ],
         warnings=warnings,
         references=[
             "Shih, Moran & Nakamura, Int. J. Fract. 30 (1986) 79–102: equivalent domain integral",

@@ -1,9 +1,26 @@
 """Plots of a life prediction (matplotlib, imported here only): crack size vs cycles with the
-end marked; ΔJ and da/dN vs crack size; the J_max or FAD trajectory against its criterion."""
+end marked; ΔJ and da/dN vs crack size; ΔJ split into its elastic and plastic parts with
+ΔK²/E' for comparison; the J_max or FAD trajectory against its criterion; the J–R curve with
+the driving-force curve at the end when tearing ends the run.  Quantities are shown in the
+output unit system in force (:func:`cycj.display.units`)."""
 
 from __future__ import annotations
 
 import numpy as np
+
+from cycj.display import count, units
+
+#: the end of a run in a plot's legend
+END_LABELS = {
+    "toughness": "J_max reaches J_c",
+    "tearing": "tearing instability",
+    "fad": "failure assessment diagram",
+    "collapse": "plastic collapse",
+    "size-limit": "crack size limit",
+    "leak": "leak (through the wall)",
+    "max-cycles": "cycle limit",
+    "no-growth": "no growth",
+}
 
 
 def _plt():
@@ -51,30 +68,36 @@ def _log_axis(ax, values, what: str):
 
 
 def crack_growth_figure(result):
-    """a vs N with the end point and the critical crack size."""
+    """a vs N with the end point and the critical crack size (or the leak size)."""
     plt = _plt()
+    u = units()
     h, s = result.history, result.summary
+    L = u.factor("length")
     fig, ax = plt.subplots(figsize=(6.4, 4.2))
-    ax.plot(h["cycle"], h["a_mm"], lw=1.6, label="depth a" if "c_mm" in h else "crack size")
+    ax.plot(h["cycle"], h["a_mm"] * L, lw=1.6, label="depth a" if "c_mm" in h else "crack size")
     if "c_mm" in h:
-        ax.plot(h["cycle"], h["c_mm"], lw=1.4, color="C1", label="half-length c")
+        ax.plot(h["cycle"], h["c_mm"] * L, lw=1.4, color="C1", label="half-length c")
     ax.plot(
         [s["cycles_to_end"]],
-        [s["a_end_mm"]],
+        [s["a_end_mm"] * L],
         "o",
         color="C3",
-        label=f"end: {s['end_reason']} at {s['cycles_to_end']:.4g} cycles",
+        label=f"end: {END_LABELS.get(s['end_reason'], s['end_reason'])} at "
+        f"{count(s['cycles_to_end'])} cycles",
     )
+    crit = s["critical_crack_criterion"]
     ax.axhline(
-        s["critical_crack_length_mm"],
+        s["critical_crack_length_mm"] * L,
         ls="--",
         color="0.5",
         lw=1,
-        label=f"critical size at peak load ({s['critical_crack_criterion']})",
+        label="leak: crack through the wall"
+        if crit == "leak"
+        else f"critical size at peak load ({END_LABELS.get(crit, crit)})",
     )
     _widen(ax, h["cycle"])
     ax.set_xlabel("cycles N")
-    ax.set_ylabel("crack size [mm]")
+    ax.set_ylabel(u.label("crack size", "length"))
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8, loc="upper left")
     return fig
@@ -83,27 +106,94 @@ def crack_growth_figure(result):
 def driving_force_figure(result):
     """ΔJ_eq, ΔJ (largest cycle) and da/dN vs crack size."""
     plt = _plt()
+    u = units()
     h = result.history
+    L, J = u.factor("length"), u.factor("energy_per_area")
     fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
     # a run that ends at once, or does not grow, has a single crack size
     dot = "o" if h["a_mm"].nunique() < 3 else None
-    ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
-    ax1.plot(h["a_mm"], h["dJ_kJm2"], ls="--", marker=dot, label="largest cycle ΔJ_eff")
-    _widen(ax1, h["a_mm"])
-    ax1.set_xlabel("crack size a [mm]")
-    ax1.set_ylabel("ΔJ [kJ/m²]")
-    _log_axis(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]), "ΔJ")
+    a = h["a_mm"] * L
+    ax1.plot(a, h["dJ_eq_kJm2"] * J, marker=dot, label="ΔJ_eq of the block")
+    ax1.plot(a, h["dJ_kJm2"] * J, ls="--", marker=dot, label="largest cycle ΔJ_eff")
+    _widen(ax1, a)
+    ax1.set_xlabel(u.label("crack size a", "length"))
+    ax1.set_ylabel(u.label("ΔJ", "energy_per_area"))
+    _log_axis(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]) * J, "ΔJ")
     ax1.grid(alpha=0.3, which="both")
     ax1.legend(fontsize=8)
-    rate = h["dadN_mm_per_cycle"].to_numpy()
+    rate = h["dadN_mm_per_cycle"].to_numpy() * L
     ok = rate > 0
-    ax2.plot(h["a_mm"][ok], rate[ok], color="C2", marker=dot)
-    _widen(ax2, h["a_mm"])
-    ax2.set_xlabel("crack size a [mm]")
-    ax2.set_ylabel("da/dN [mm/cycle]")
+    ax2.plot(a[ok], rate[ok], color="C2", marker=dot)
+    _widen(ax2, a)
+    ax2.set_xlabel(u.label("crack size a", "length"))
+    ax2.set_ylabel(u.label("da/dN", "rate"))
     _log_axis(ax2, rate[ok], "growth rate")
     ax2.grid(alpha=0.3, which="both")
     fig.tight_layout()
+    return fig
+
+
+def split_figure(result):
+    """ΔJ_eff of the block's largest cycle split into its elastic part U²ΔK²/E' and its
+    plastic part, against crack size, with the linear-elastic ΔK²/E' for comparison."""
+    from cycj.kernel_slots import E_PRIME
+    from cycj.units import MPA_SQRT_M
+
+    plt = _plt()
+    u = units()
+    h = result.history
+    L, J = u.factor("length"), u.factor("energy_per_area")
+    a = h["a_mm"].to_numpy(float) * L
+    el = h["dJ_el_kJm2"].to_numpy(float)
+    pl = h["dJ_pl_kJm2"].to_numpy(float)
+    lefm = (h["dK_MPa_sqrt_m"].to_numpy(float) * MPA_SQRT_M) ** 2 / result.model[E_PRIME]
+    dot = "o" if h["a_mm"].nunique() < 3 else None
+    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    ax.plot(a, (el + pl) * J, "k-", lw=1.8, marker=dot, label="ΔJ_eff = elastic + plastic")
+    ax.plot(a, el * J, "C0--", marker=dot, label="elastic part U²·ΔK²/E'")
+    ax.plot(a, pl * J, "C3-.", marker=dot, label="plastic part")
+    ax.plot(a, lefm * J, "0.45", ls=":", lw=1.4, marker=dot, label="ΔK²/E' (LEFM, no closure)")
+    _widen(ax, a)
+    ax.set_xlabel(u.label("crack size a", "length"))
+    ax.set_ylabel(u.label("ΔJ of the largest cycle", "energy_per_area"))
+    _log_axis(ax, np.concatenate([el + pl, el, pl, lefm]) * J, "ΔJ")
+    ax.grid(alpha=0.3, which="both")
+    ax.legend(fontsize=8, loc="best")
+    return fig
+
+
+def tearing_figure(result, n: int = 120):
+    """The J–R curve started at the final crack size a_end against the driving force
+    J_max(a_end + Δa) under the history's peak load: where they no longer cross, tearing is
+    unstable (Paris, Tada, Zahoor & Ernst, ASTM STP 668 (1979))."""
+    from cycj.life import end_state as ES
+
+    plt = _plt()
+    u = units()
+    case, s = result.case, result.summary
+    jr = case.material.resistance_curve
+    a_end = s["a_end_mm"]
+    hi = case.geometry.size_limits[1]
+    span = max(min(hi - a_end, max(1.0, 0.1 * a_end)), 1e-3)
+    da = np.linspace(0.0, span, n)
+    jmax = np.array([ES.peak(case, result.loads, result.model, min(a_end + d, hi))[0] for d in da])
+    top = 1.4 * max(float(np.max(jr(da))), float(jmax[0]))
+    L, J = u.factor("length"), u.factor("energy_per_area")
+    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    ax.plot(
+        da * L,
+        jr(da) * J,
+        "C0-",
+        lw=1.8,
+        label=f"J–R curve from a = {u.q(a_end, 'length')}",
+    )
+    ax.plot(da * L, jmax * J, "C3--", lw=1.6, label="J_max at peak load (driving force)")
+    ax.set_xlabel(u.label("crack extension Δa", "length"))
+    ax.set_ylabel(u.label("J", "energy_per_area"))
+    ax.set_xlim(0, span * L)
+    ax.set_ylim(0, top * J)
+    ax.grid(alpha=0.3)
+    ax.legend(fontsize=8, loc="upper left")
     return fig
 
 
@@ -133,13 +223,17 @@ def criterion_figure(result):
         ax.set_xlim(0, mat.lr_max * 1.1)
         ax.set_ylim(0, 1.2)
     else:
-        ax.plot(h["a_mm"], h["Jmax_kJm2"], label="J_max at the block's peak load")
+        u = units()
+        L, J = u.factor("length"), u.factor("energy_per_area")
+        ax.plot(h["a_mm"] * L, h["Jmax_kJm2"] * J, label="J_max at the block's peak load")
         if mat.J_c:
-            ax.axhline(mat.J_c, color="C3", ls="--", label=f"J_c = {mat.J_c:g} kJ/m²")
-        _widen(ax, h["a_mm"])
-        _widen(ax, h["Jmax_kJm2"], "y")
-        ax.set_xlabel("crack size a [mm]")
-        ax.set_ylabel("J_max [kJ/m²]")
+            ax.axhline(
+                mat.J_c * J, color="C3", ls="--", label=f"J_c = {u.q(mat.J_c, 'energy_per_area')}"
+            )
+        _widen(ax, h["a_mm"] * L)
+        _widen(ax, h["Jmax_kJm2"] * J, "y")
+        ax.set_xlabel(u.label("crack size a", "length"))
+        ax.set_ylabel(u.label("J_max", "energy_per_area"))
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
     return fig

@@ -23,6 +23,7 @@ from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
 from cycj.life.loads import BlockLoads, block_loads, cite_loads
 from cycj.life.model import model_array
+from cycj.life.split import add_split
 from cycj.life.validity import valid_range_warning
 
 END_CODES = {name: code for code, name in END_NAMES.items()}
@@ -193,7 +194,9 @@ def predict_life(
     Returns
     -------
     LifeResult with ``summary`` (dict, the output keys of README.md) and ``history`` (DataFrame with
-    ``cycle, block, a_mm, dJ_kJm2, dJ_eq_kJm2, Jmax_kJm2, Lr, dadN_mm_per_cycle``).
+    ``cycle, block, a_mm, dJ_kJm2, dJ_eq_kJm2, Jmax_kJm2, Lr, dadN_mm_per_cycle`` (``c_mm``
+    for a two-dimensional crack) and ``dK_MPa_sqrt_m, dJ_el_kJm2, dJ_pl_kJm2`` of the block's
+    largest cycle, :mod:`cycj.life.split`).
     """
     import pandas as pd
 
@@ -249,7 +252,7 @@ def predict_life(
     if not mp[M.TWO_D]:
         hist = hist.drop(columns="c_mm")
     hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
-    hist = hist.reset_index(drop=True)
+    hist = add_split(hist.reset_index(drop=True), case, loads, mp)
     outside = valid_range_warning(case, loads, mp, hist)
     if outside:
         warnings.append(outside)

@@ -2,7 +2,20 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
+
+from cycj.display import count
+
+
+def _outside(ax, handles=None, labels=None):
+    """The legend beside the axes (it never covers data: the shaded band, the points)."""
+    kw = dict(fontsize=7, loc="upper left", bbox_to_anchor=(1.02, 1.0), borderaxespad=0.0)
+    if handles is not None:
+        ax.legend(handles, labels, **kw)
+    else:
+        ax.legend(**kw)
 
 
 def _fig(w=6.4, h=4.2):
@@ -38,7 +51,7 @@ def pof_vs_interval(summary: dict):
     ax.axhline(summary["no_inspection"]["pof"], color="0.5", ls=":", label="no inspection")
     rec = summary["recommended_interval_cycles"]
     if rec is not None and summary.get("inspection_needed", True):
-        ax.axvline(rec, color="C2", ls="-.", label=f"recommended {rec:.3g}")
+        ax.axvline(rec, color="C2", ls="-.", label=f"recommended {count(rec)} cycles")
         r = summary.get("recommendation") or {}
         if r.get("pof_ci"):
             lo, hi = r["pof_ci"]
@@ -58,7 +71,7 @@ def pof_vs_interval(summary: dict):
         ax.set_ylim(bottom=max(min(summary["target_pof"] / 10, p[p > 0].min() / 2), 1e-9))
     ax.set_xlabel("inspection interval [cycles]")
     ax.set_ylabel("probability of failure over the design life")
-    ax.legend(fontsize=8)
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
 
@@ -71,13 +84,17 @@ def cumulative_pof(summary: dict):
     for k, v in cum.items():
         if k == "cycles":
             continue
-        ax.plot(n, v, label=k.replace("_", " "))
+        words = k.replace("_", " ")
+        tail = words.rsplit(" ", 1)[-1]
+        if words.startswith("interval ") and tail.replace(".", "").isdigit():
+            words = f"interval {count(float(tail))} cycles"
+        ax.plot(n, v, label=words)
     ax.axhline(summary["target_pof"], color="C3", ls="--", lw=1, label="target")
     ax.set_yscale("symlog", linthresh=max(summary["target_pof"] / 10, 1e-8))
     ax.set_ylim(bottom=0.0)
     ax.set_xlabel("cycles")
     ax.set_ylabel("cumulative probability of failure")
-    ax.legend(fontsize=8)
+    _outside(ax)
     ax.grid(True, alpha=0.3)
     return fig
 
@@ -85,15 +102,29 @@ def cumulative_pof(summary: dict):
 def envelope(curves: dict, summary: dict):
     """Crack size vs cycles: Monte Carlo quantiles without inspection, and the deterministic
     curve from the detectable size with the deterministic inspections marked."""
+    from cycj.display import units
+
+    u = units()
+    L = u.factor("length")
     fig, ax = _fig()
     env = curves["envelope"]
     n = np.asarray(env["cycles"])
     ax.fill_between(
-        n, env["a_p05_mm"], env["a_p95_mm"], alpha=0.25, label="5–95 % of samples (no inspection)"
+        n,
+        np.asarray(env["a_p05_mm"]) * L,
+        np.asarray(env["a_p95_mm"]) * L,
+        alpha=0.25,
+        label="5–95 % of samples (no inspection)",
     )
-    ax.plot(n, env["a_p50_mm"], lw=1.5, label="median sample")
+    ax.plot(n, np.asarray(env["a_p50_mm"]) * L, lw=1.5, label="median sample")
     det = curves["deterministic"]
-    ax.plot(det["cycles"], det["a_mm"], "k-", lw=1, label="deterministic, from detectable")
+    ax.plot(
+        det["cycles"],
+        np.asarray(det["a_mm"]) * L,
+        "k-",
+        lw=1,
+        label="deterministic, from detectable",
+    )
     d = summary["deterministic"]
     for i, row in enumerate(d["schedule"]):
         ax.axvline(
@@ -103,15 +134,23 @@ def envelope(curves: dict, summary: dict):
             ls=":",
             label="deterministic inspections" if i == 0 else None,
         )
-    ax.axhline(d["critical_crack_length_mm"], color="C3", ls="--", lw=1, label="critical")
-    ax.axhline(d["detectable_size_mm"], color="0.4", ls="-.", lw=1, label="detectable")
+    ax.axhline(d["critical_crack_length_mm"] * L, color="C3", ls="--", lw=1, label="critical")
+    ax.axhline(d["detectable_size_mm"] * L, color="0.4", ls="-.", lw=1, label="detectable")
     ax.set_yscale("log")
     ax.set_xlim(0, summary["design_life_cycles"])
     ax.set_xlabel("cycles")
-    ax.set_ylabel("crack size a [mm]")
-    ax.legend(fontsize=7)
+    ax.set_ylabel(u.label("crack size a", "length"))
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig
+
+
+def lower_bound_curve(c, a90_95):
+    """The POD curve of ``c``'s spread shifted so that it passes 0.9 at ``a90_95``: the lower
+    confidence bound on POD at every size (MIL-HDBK-1823A (2009) §4)."""
+    from cycj.plan.pod import PodCurve
+
+    return PodCurve(c.model, c.mu + math.log(a90_95 / c.a90), c.sigma, c.ceiling)
 
 
 def pod_plot(fit, a, y, kind: str):
@@ -140,11 +179,22 @@ def pod_plot(fit, a, y, kind: str):
         ax2.plot(grid, c(grid), "C1-", label="POD")
         ax2.set_ylabel("POD")
         ax2.set_ylim(0, 1.02)
+    pod_ax = ax if kind == "hit-miss" else ax2
+    if fit.a90_95 and math.isfinite(fit.a90_95):
+        lb = lower_bound_curve(c, fit.a90_95)
+        pod_ax.plot(grid, lb(grid), "C1--", label="lower confidence bound (through a90/95)")
     ax.axvline(c.a90, color="C2", ls=":", label=f"a90 = {c.a90:.3g} mm")
     ax.axvline(fit.a90_95, color="C2", ls="--", label=f"a90/95 = {fit.a90_95:.3g} mm")
     ax.set_xscale("log")
     ax.set_xlabel("crack size a [mm]")
-    ax.legend(fontsize=8, loc="center right")
+    h1, l1 = ax.get_legend_handles_labels()
+    if kind != "hit-miss":
+        h2, l2 = ax2.get_legend_handles_labels()
+        h1, l1 = h1 + h2, l1 + l2
+        ax2.yaxis.set_label_position("right")
+    fig.set_size_inches(7.6, 4.2)
+    right = 1.02 if kind == "hit-miss" else 1.13  # beside the second axis' labels
+    ax.legend(h1, l1, fontsize=7, loc="upper left", bbox_to_anchor=(right, 1.0))
     ax.grid(True, which="both", alpha=0.3)
     return fig
 
@@ -187,7 +237,7 @@ def pof_per_period(summary: dict):
     ax2.set_ylabel("cumulative probability of failure")
     h1, l1 = ax.get_legend_handles_labels()
     h2, l2 = ax2.get_legend_handles_labels()
-    ax.legend(h1 + h2, l1 + l2, fontsize=7, loc="upper left")
+    ax.legend(h1 + h2, l1 + l2, fontsize=7, loc="upper left", bbox_to_anchor=(1.16, 1.0))
     ax.grid(True, alpha=0.3)
     return fig
 
@@ -195,26 +245,35 @@ def pof_per_period(summary: dict):
 def pod_used(summary: dict, lower_bound: bool = False):
     """The POD curve of the plan and, when asked, the curve of the same spread through the
     a90/95 size (a lower bound on POD at each size)."""
-    import math
-
     from cycj.plan.pod import PodCurve
 
     d = summary["pod"]
     c = PodCurve(d["model"], d["mu"], d["sigma"], d["ceiling"], d.get("a90_95_mm"))
+    from cycj.display import units
+
+    u = units()
+    L = u.factor("length")
     fig, ax = _fig()
     top = max(c.a90 * 3, (c.a90_95 or 0) * 2)
     a = np.geomspace(c.a50 / 10, top, 300)
-    ax.plot(a, c(a), "C0-", label=f"POD used ({c.model}, a50 {c.a50:.3g} mm)")
-    ax.axvline(c.a90, color="C0", ls=":", lw=1, label=f"a90 = {c.a90:.3g} mm")
-    if lower_bound and c.a90_95:
-        lb = PodCurve(c.model, c.mu + math.log(c.a90_95 / c.a90), c.sigma, c.ceiling)
-        ax.plot(a, lb(a), "C1--", label=f"lower bound through a90/95 = {c.a90_95:.3g} mm")
+    ax.plot(a * L, c(a), "C0-", label=f"POD (mean curve, {c.model}, a50 {u.q(c.a50, 'length', 3)})")
+    ax.axvline(c.a90 * L, color="C0", ls=":", lw=1, label=f"a90 = {u.q(c.a90, 'length', 3)}")
+    if c.a90_95:
+        used = " — used in the plan" if lower_bound else ""
+        ax.plot(
+            a * L,
+            lower_bound_curve(c, c.a90_95)(a),
+            "C1--",
+            label=f"lower confidence bound through a90/95 = {u.q(c.a90_95, 'length', 3)}{used}",
+        )
     det = summary["deterministic"]["detectable_size_mm"]
-    ax.axvline(det, color="0.4", ls="-.", lw=1, label=f"detectable size {det:.3g} mm")
+    ax.axvline(
+        det * L, color="0.4", ls="-.", lw=1, label=f"detectable size {u.q(det, 'length', 3)}"
+    )
     ax.set_xscale("log")
     ax.set_ylim(0, 1.02)
-    ax.set_xlabel("crack size a [mm]")
+    ax.set_xlabel(u.label("crack size a", "length"))
     ax.set_ylabel("probability of detection")
-    ax.legend(fontsize=8, loc="lower right")
+    _outside(ax)
     ax.grid(True, which="both", alpha=0.3)
     return fig

@@ -5,57 +5,104 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from cycj.display import count, hours, num, text, units, using
+
 
 def answer_sentence(s: dict) -> str:
     """One sentence: the deterministic interval and the recommended probabilistic one."""
+    u = units()
     d = s["deterministic"]
     parts = [
-        f"Inspect every {d['interval_cycles']:.4g} cycles by the deterministic rule "
-        f"(life {d['life_cycles']:.4g} cycles from {d['detectable_size_mm']:.3g} mm to "
-        f"{d['critical_crack_length_mm']:.3g} mm ÷ {d['safety_factor']:g})"
+        f"Inspect every {count(d['interval_cycles'])} cycles by the deterministic rule "
+        f"(life {count(d['life_cycles'])} cycles from {u.q(d['detectable_size_mm'], 'length', 3)}"
+        f" to {u.q(d['critical_crack_length_mm'], 'length', 3)} ÷ {num(d['safety_factor'])})"
     ]
     rec = s["recommended_interval_cycles"]
     if not s["inspection_needed"]:
         parts.append(
             f"; without inspection the probability of failure "
-            f"{s['no_inspection']['pof']:.3g} already meets the target "
-            f"{s['target_pof']:.3g}."
+            f"{num(s['no_inspection']['pof'], 3)} already meets the target "
+            f"{num(s['target_pof'], 3)}."
         )
     elif rec is None:
         parts.append(
-            f"; no interval searched meets the target probability of failure {s['target_pof']:.3g}."
+            "; no interval searched meets the target probability of failure "
+            f"{num(s['target_pof'], 3)}."
         )
     else:
         r = s.get("recommendation") or {}
-        when = f"{rec:.4g} cycles"
-        if s.get("recommended_interval_years") is not None:
-            when += (
-                f" ({s['recommended_interval_hours']:.4g} h, "
-                f"{s['recommended_interval_years']:.3g} years)"
-            )
+        when = f"{count(rec)} cycles"
+        if s.get("recommended_interval_hours") is not None:
+            when += f" ({hours(s['recommended_interval_hours'])})"
         parts.append(
-            f"; to keep the probability of failure over {s['design_life_cycles']:.4g} "
-            f"cycles within {s['target_pof']:.3g}, inspect at most every {when} "
-            f"(no inspection: {s['no_inspection']['pof']:.3g})"
+            f"; to keep the probability of failure over {count(s['design_life_cycles'])} "
+            f"cycles within {num(s['target_pof'], 3)}, inspect at most every {when} "
+            f"(no inspection: {num(s['no_inspection']['pof'], 3)})"
         )
         if r:
             lo, hi = r["pof_ci"]
             parts.append(
-                f"; there the probability of failure is {r['pof_estimate']:.3g} "
-                f"({round(100 * r['confidence'])} % interval {lo:.3g} to {hi:.3g}, "
-                f"{r['samples']} samples, {r['method']})"
+                f"; there the probability of failure is {num(r['pof_estimate'], 3)} "
+                f"({round(100 * r['confidence'])} % interval {num(lo, 3)} to {num(hi, 3)}, "
+                f"{count(r['samples'])} samples, {r['method']})"
             )
             if r.get("budget_reached"):
                 parts.append(
-                    f" — the sample budget ({r['budget_samples']}) was reached before the "
-                    f"interval narrowed to ± {r['half_width_limit']:.2g}"
+                    f" — the sample budget ({count(r['budget_samples'])}) was reached before "
+                    f"the interval narrowed to ± {num(r['half_width_limit'], 2)}"
                 )
         parts.append(".")
     return "".join(parts)
 
 
-def write_plan(result, case, out, *, force=False, plots=True) -> dict:
-    """Write the plan's outputs atomically into ``out``; return the plan.json dict."""
+def dist_words(dist) -> str:
+    """A scatter distribution as an engineer states it: median, σ (of ln x or of x) and the
+    coefficient of variation CoV."""
+    import math
+
+    if not dist.scatters:
+        return "fixed (no scatter)"
+    if dist.kind == "lognormal":
+        sigma = dist.p2
+        cov = math.sqrt(math.expm1(sigma * sigma))
+        return (
+            f"lognormal: median factor {num(dist.median)}, σ of ln x = {num(sigma, 3)}, "
+            f"CoV = {num(100 * cov, 3)} %"
+        )
+    if dist.kind == "weibull":
+        k = dist.p1
+        g1, g2 = math.gamma(1 + 1 / k), math.gamma(1 + 2 / k)
+        cov = math.sqrt(max(g2 / (g1 * g1) - 1.0, 0.0))
+        return (
+            f"Weibull: shape k = {num(k, 3)}, median factor {num(dist.median)}, "
+            f"CoV = {num(100 * cov, 3)} %"
+        )
+    if dist.kind == "normal":
+        cov = dist.p2 / dist.p1 if dist.p1 else float("nan")
+        return (
+            f"normal: mean factor {num(dist.p1)}, σ = {num(dist.p2, 3)}, "
+            f"CoV = {num(100 * cov, 3)} %"
+        )
+    return f"{dist.kind} ({num(dist.p1)}, {num(dist.p2)})"
+
+
+def pod_words(pod) -> str:
+    """The POD curve in words: model, a50, spread, ceiling, a90/95."""
+    u = units()
+    text = f"{pod.model}: a50 = {u.q(pod.a50, 'length', 3)}, a90 = {u.q(pod.a90, 'length', 3)}"
+    text += f", σ = {num(pod.sigma, 3)}"
+    if pod.ceiling < 1:
+        text += f", ceiling {num(pod.ceiling, 3)}"
+    if pod.a90_95 is not None:
+        text += f", a90/95 = {u.q(pod.a90_95, 'length', 3)}"
+    return text
+
+
+def write_plan(result, case, out, *, force=False, plots=True, units_system=None) -> dict:
+    """Write the plan's outputs atomically into ``out``; return the plan.json dict.
+
+    ``units_system``: "SI" or "US" for the report and plots (default: the case's
+    ``[report] units``, else SI)."""
     import pandas as pd
 
     from cycj.outputs import OutputDir, record_provenance
@@ -70,7 +117,8 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
         method="deterministic interval and Monte Carlo",
         seed=summary.get("seed"),
     )
-    with OutputDir(out, force=force, inputs=[p for _, p in files]) as od:
+    system = units_system or getattr(case, "report_units", None) or "SI"
+    with OutputDir(out, force=force, inputs=[p for _, p in files]) as od, using(system):
         od.write_csv("what_if.csv", result.what_if)
         sched = pd.DataFrame(summary["deterministic"]["schedule"])
         od.write_csv("schedule.csv", sched)
@@ -102,8 +150,9 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
                     "pod_used.png",
                     "The POD curve used"
                     + (
-                        " and its lower bound through a90/95"
-                        if result.inputs.pod_lower_bound
+                        " and its lower confidence bound through a90/95"
+                        + (" (the curve planned with)" if result.inputs.pod_lower_bound else "")
+                        if summary["pod"].get("a90_95_mm")
                         else ""
                     ),
                     P.pod_used(summary, result.inputs.pod_lower_bound),
@@ -124,37 +173,48 @@ def write_plan(result, case, out, *, force=False, plots=True) -> dict:
 
 def _report(od, case, s, result, figures, sched):
     from cycj.report import write_report
+    from cycj.report_inputs import case_rows
 
+    u = units()
     inp = result.inputs
     d = s["deterministic"]
     sc = inp.scatter
-    inputs = [
-        ("case", str(case.path)),
-        ("shape", case.geometry.shape.name),
-        ("detectable size [mm]", f"{d['detectable_size_mm']:.4g} ({d['detectable_size_source']})"),
-        ("safety factor", f"{d['safety_factor']:g}"),
-        ("design life [cycles]", f"{s['design_life_cycles']:.4g}"),
-        ("POD", inp.pod.to_toml()),
-        ("repair", s["repair"]),
-        ("samples, seed", f"{s['samples']}, {s['seed']}"),
-        ("samples used (budget)", f"{s.get('samples_used')} ({s.get('max_samples')})"),
-        ("sampling method", str(s.get("method"))),
-        ("target probability of failure", f"{s['target_pof']:g}"),
+    inputs = case_rows(case)
+    inputs += [
+        (
+            "detectable size",
+            f"{u.q(d['detectable_size_mm'], 'length')} ({d['detectable_size_source']})",
+        ),
+        ("safety factor on the life", num(d["safety_factor"])),
+        ("design life", f"{count(s['design_life_cycles'])} cycles"),
+        ("probability of detection (POD)", pod_words(inp.pod)),
+        ("after a detection", text(s["repair"])),
+        ("Monte Carlo samples, seed", f"{count(s['samples'])}, {text(s['seed'])}"),
+        (
+            "samples used (budget)",
+            f"{count(s.get('samples_used'))} ({count(s.get('max_samples'))})",
+        ),
+        ("sampling method", text(s.get("method"))),
+        ("target probability of failure", num(s["target_pof"], 3)),
     ]
-    for name in ("growth_C", "initial_crack", "toughness", "load_scale"):
-        dist = getattr(sc, name)
-        inputs.append(
-            (
-                f"scatter: {name}",
-                "fixed" if not dist.scatters else f"{dist.kind} (median {dist.median:.4g})",
-            )
-        )
+    names = {
+        "growth_C": "scatter of the growth constant C",
+        "initial_crack": "scatter of the initial crack size",
+        "toughness": "scatter of the toughness",
+        "load_scale": "scatter of the loads",
+    }
+    for name, words in names.items():
+        inputs.append((words, dist_words(getattr(sc, name))))
     for f in s["findings"]:
         inputs.append(
             (
                 "finding",
-                f"{f['result']} at {f['cycles']:.4g} cycles"
-                + (f", {f['size_mm']:.3g} ± {f['sizing_sd_mm']:.3g} mm" if f["size_mm"] else ""),
+                f"{f['result']} at {count(f['cycles'])} cycles"
+                + (
+                    f", {u.q(f['size_mm'], 'length', 3)} ± {u.q(f['sizing_sd_mm'], 'length', 3)}"
+                    if f["size_mm"]
+                    else ""
+                ),
             )
         )
     import pandas as pd
@@ -225,9 +285,38 @@ def _report(od, case, s, result, figures, sched):
         inputs=inputs,
         figures=figures,
         tables=tables,
+        validity=_plan_validity(s),
         warnings=s["warnings"],
         references=s["references"],
     )
+
+
+def _plan_validity(s) -> list:
+    """The plan's statistical and deterministic ranges."""
+    d = s["deterministic"]
+    u = units()
+    rows = [
+        (
+            "deterministic life",
+            f"{count(d['life_cycles'])} cycles from {u.q(d['detectable_size_mm'], 'length')} "
+            f"to the critical size {u.q(d['critical_crack_length_mm'], 'length')}",
+        ),
+        (
+            "no inspection: probability of failure",
+            f"{num(s['no_inspection']['pof'], 3)} ± {num(s['no_inspection']['std_error'], 2)} "
+            "(one standard error)",
+        ),
+    ]
+    r = s.get("recommendation") or {}
+    if r.get("pof_ci"):
+        rows.append(
+            (
+                "recommended interval converged",
+                text(r.get("converged"))
+                + ("; the sample budget was reached" if r.get("budget_reached") else ""),
+            )
+        )
+    return rows
 
 
 def write_pod(fit, a, y, out, *, source: str, force=False, plots=True, options=None) -> dict:
@@ -246,9 +335,11 @@ def write_pod(fit, a, y, out, *, source: str, force=False, plots=True, options=N
 
 
 def _pod_report(od, fit, a, y, source):
+    from cycj.display import num
     from cycj.plan import plots as P
     from cycj.report import write_report
 
+    u = units()
     png = od.savefig("pod.png", P.pod_plot(fit, a, y, fit.method))
     c = fit.curve
     write_report(
@@ -256,17 +347,24 @@ def _pod_report(od, fit, a, y, source):
         title=f"POD from {Path(source).name}",
         question="How reliably does this inspection find cracks, by size?",
         answer=(
-            f"a50 = {c.a50:.3g} mm, a90 = {c.a90:.3g} mm, a90/95 = "
-            f"{fit.a90_95:.3g} mm ({fit.method}, {fit.link}, n = {fit.n})."
+            f"a50 = {u.q(c.a50, 'length', 3)}, a90 = {u.q(c.a90, 'length', 3)}, a90/95 = "
+            f"{u.q(fit.a90_95, 'length', 3)} ({fit.method}, {fit.link} link, n = {fit.n:,})."
         ),
         inputs=[
             ("data", source),
             ("method", fit.method),
             ("link", fit.link),
-            *[(k, v) for k, v in fit.params.items()],
+            *[(k, num(v) if isinstance(v, (int, float)) else v) for k, v in fit.params.items()],
         ],
-        figures=[("POD fit", png)],
+        figures=[("POD fit with its lower confidence bound through a90/95", png)],
         tables=[],
+        validity=[
+            ("observations", f"{fit.n:,}"),
+            (
+                "crack sizes of the data",
+                f"{u.q(float(min(a)), 'length', 3)} to {u.q(float(max(a)), 'length', 3)}",
+            ),
+        ],
         warnings=[]
         if fit.n >= 60
         else ["fewer than 60 observations: MIL-HDBK-1823A asks for more"],

@@ -23,6 +23,9 @@ def _unit(unit: str) -> str:
 def _save(fig, plt, path):
     path = Path(path)
     fig.tight_layout()
+    from cycj.display import tidy
+
+    tidy(fig)
     fig.savefig(path, dpi=110, format="png")
     plt.close(fig)
     return path

@@ -232,20 +232,35 @@ def write_count_files(
             tw.write({cols[0]: np.empty(0), cols[1]: np.empty(0)})
     written.append(od.path("exceedance" + ext))
     if plots:
+        f, shown = shown_unit(unit)
         P.plot_history(
-            preview,
+            np.asarray(preview) * f,
             od.path("history.png"),
             times=preview_times,
-            unit=unit,
+            unit=shown,
             reversal_indices=parts.reversal_marks(),
             total=samples,
         )
         levels = np.concatenate(shown_lv) if shown_lv else np.empty(0)
         cum = np.concatenate(shown_cum) if shown_cum else np.empty(0)
-        P.plot_exceedance(levels, cum, od.path("exceedance.png"), unit=unit, kind="range")
-        P.plot_rainflow_matrix(rm, r_edges, m_edges, od.path("rainflow_matrix.png"), unit=unit)
+        P.plot_exceedance(levels * f, cum, od.path("exceedance.png"), unit=shown, kind="range")
+        P.plot_rainflow_matrix(
+            rm, r_edges * f, m_edges * f, od.path("rainflow_matrix.png"), unit=shown
+        )
         written += [od.path(n) for n in ("history.png", "exceedance.png", "rainflow_matrix.png")]
     return written
+
+
+def shown_unit(unit: str) -> tuple[float, str]:
+    """(factor, unit) of the count's loads in the report's unit system: N and MPa become lbf
+    and ksi in US units; any other unit is shown as it is."""
+    from cycj.display import units
+
+    u = units()
+    kind = {"N": "force", "MPa": "stress"}.get(unit)
+    if kind is None or not u.us:
+        return 1.0, unit
+    return u.factor(kind), u.unit(kind)
 
 
 #: exceedance points kept for the plot (every k-th row, and each block's last)
@@ -296,43 +311,72 @@ class _TableWriter:
         return False
 
 
+def _load(x, unit: str) -> str:
+    """A load of the count with its unit, in the report's unit system."""
+    from cycj.display import MISSING, num
+
+    if x is None:
+        return MISSING
+    f, shown = shown_unit(unit)
+    return f"{num(float(x) * f)} {shown}".rstrip() if shown else num(float(x) * f)
+
+
 def count_answer(summary: dict) -> str:
     """One sentence: how many cycles, and the largest range."""
-    u = f" {summary['unit']}" if summary.get("unit") else ""
+    from cycj.display import count, num
+
+    unit = summary.get("unit") or ""
     if summary["full_cycles"] + summary["half_cycles"] == 0:
         return (
             "No cycles: the history is constant or every change is below the gate "
-            f"({summary['gate']:g}{u})."
+            f"({_load(summary['gate'], unit)})."
         )
     return (
-        f"{summary['cycles']:g} cycles ({summary['full_cycles']} full + "
-        f"{summary['half_cycles']} half) from {summary['reversals']} reversals; the largest "
-        f"range is {summary['largest_range']:.4g}{u}."
+        f"{num(summary['cycles'], 12)} cycles ({count(summary['full_cycles'])} full + "
+        f"{count(summary['half_cycles'])} half) from {count(summary['reversals'])} reversals; "
+        f"the largest range is {_load(summary['largest_range'], unit)}."
     )
 
 
 def write_count_report(od, summary: dict, figures) -> Path:
     """The count's self-contained HTML report (``report.html`` in ``od``)."""
+    from cycj.display import count, num
     from cycj.report import write_report
 
     p = summary["parameters"]
-    u = summary.get("unit") or "as in the file"
+    unit = summary.get("unit") or ""
+    irr = summary["irregularity_factor"]
     inputs = [
         ("history", summary["history"]),
-        ("column", p["column"]),
-        ("load unit", u),
-        ("scale", p["scale"]),
-        ("gate", p["gate"]),
-        ("repeating block", p["repeat"]),
-        ("samples", summary["samples"]),
-        ("max, min", f"{summary['max']}, {summary['min']}"),
-        ("irregularity factor", summary["irregularity_factor"]),
+        ("column", p["column"] or "the file's load column (first numeric column)"),
+        ("load unit in the file", p.get("unit") or "none given (values taken as they are)"),
+        ("scale on the loads", num(p["scale"])),
+        ("gate (smallest range kept)", _load(p["gate"], unit) if p["gate"] else "none"),
+        (
+            "history counted as",
+            "a repeating block (closed cycles)"
+            if p["repeat"]
+            else "one pass (residue as half cycles)",
+        ),
+        ("samples", count(summary["samples"])),
+        (
+            "largest and smallest load",
+            f"{_load(summary['max'], unit)}, {_load(summary['min'], unit)}",
+        ),
+        (
+            "irregularity factor (mean up-crossings per peak)",
+            num(irr, 3) if irr is not None else "not defined (no peak)",
+        ),
     ]
     warnings = []
     if summary["full_cycles"] + summary["half_cycles"] == 0:
         warnings.append("no cycles were counted (constant history or every change below the gate)")
     if summary["samples"] < 3:
         warnings.append("fewer than three samples: the count is trivial")
+    validity = [
+        ("method", summary.get("method", "rainflow")),
+        ("reversals kept", f"{count(summary['reversals'])} of {count(summary['samples'])} samples"),
+    ]
     return write_report(
         od.path("report.html"),
         title=f"Rainflow count: {summary['history']}",
@@ -341,6 +385,7 @@ def write_count_report(od, summary: dict, figures) -> Path:
         answer=count_answer(summary),
         inputs=inputs,
         figures=figures,
+        validity=validity,
         warnings=warnings,
         references=count_references(),
     )

@@ -461,7 +461,9 @@ def test_cli_on_examples_writes_all_outputs(tmp_path):
     # the answer's validity is the ΔJ range of the data behind the recommended fit, and the
     # snippet carries it as keys the case reads
     lo, hi = data["dJ_range_kJm2"]
-    assert f"valid for ΔJ {lo:.3g}–{hi:.3g} kJ/m²" in html
+    from cycj.display import num
+
+    assert f"valid for ΔJ {num(lo, 3)} kJ/m² to {num(hi, 3)} kJ/m²" in html
     assert snippet["valid_dJ"] == [f"{lo:.4g} kJ/m^2", f"{hi:.4g} kJ/m^2"]
     assert data["between_specimen"]["n_specimens"] == 2 and len(data["per_specimen"]) == 2
     # da/dN at mid-range holds the examples' true law (m and C alone carry the reduction's

@@ -36,7 +36,10 @@ def test_run_example_writes_contract_outputs(tmp_path, capsys):
     ):
         assert key in s
     head = (tmp_path / "o" / "history.csv").read_text().splitlines()[0]
-    assert head == "cycle,block,a_mm,dJ_kJm2,dJ_eq_kJm2,Jmax_kJm2,Lr,dadN_mm_per_cycle"
+    assert head == (
+        "cycle,block,a_mm,dJ_kJm2,dJ_eq_kJm2,Jmax_kJm2,Lr,dadN_mm_per_cycle,"
+        "dK_MPa_sqrt_m,dJ_el_kJm2,dJ_pl_kJm2"
+    )
     html = (tmp_path / "o" / "report.html").read_text()
     assert "Caution" in html and "data:image/png;base64" in html
     assert "End by" in out

@@ -237,7 +237,7 @@ def test_doubtful_inputs_warn(tmp_path, capsys):
     text = " ".join(s["warnings"])
     assert "near the upper end" in text and "close to plastic collapse" in text
     html = (tmp_path / "o" / "report.html").read_text()
-    assert "near the upper end" in html and "Validity warnings" in html
+    assert "near the upper end" in html and "<h2>Validity</h2>" in html
 
 
 def test_huge_scatter_is_input_error(tmp_path, capsys):

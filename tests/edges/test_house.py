@@ -16,6 +16,7 @@ UPPER = (
     "cycj.cli",
     "cycj.commands",
     "cycj.report",
+    "cycj.display",
     "cycj.outputs",
     "cycj.demo",
 )

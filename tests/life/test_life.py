@@ -237,6 +237,9 @@ def test_history_is_sparse_and_monotone():
         "Jmax_kJm2",
         "Lr",
         "dadN_mm_per_cycle",
+        "dK_MPa_sqrt_m",
+        "dJ_el_kJm2",
+        "dJ_pl_kJm2",
     ]
 
 
