@@ -438,16 +438,25 @@ def _two_d_check(a, c, mp):
 @jit
 def block_growth(lmax, lmin, a, code, gp, ct, mp):
     """Growth over one block with the crack frozen at ``a`` [mm], and the block's ΔJ_eq
-    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff."""
+    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff.  With one channel K/S, S_L and
+    the notch factors are evaluated once (same expressions as :func:`cycle_k`, same bits)."""
     n = lmax.shape[0]
-    g = 0.0
-    s = 0.0
-    jmx = 0.0
-    lrmx = 0.0
-    djmx = 0.0
+    g = s = jmx = lrmx = djmx = 0.0
     m = mp[M_LAW]
+    one = mp[CH_MODE] <= 0.5
+    kos = k_over_s(code, a, gp) if one else 1.0
+    sl = limit_stress(code, a, gp, mp[SIGMA_Y]) if one else 1.0
+    gl, ll = notch_long_factors(code, a, gp, mp)
     for i in range(n):
-        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp)
+        if one:
+            s1 = lmax[i, 0]
+            s0 = lmin[i, 0]
+            kmax, kmin, lr_max, lr_range, ds = s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0
+        else:
+            kmax, kmin, lr_max, lr_range, ds = channel_k(lmax, lmin, i, a, gp[5], ct, mp, 0)[:5]
+        dj, jmax, lr, jel, clipped = k_driving_force(
+            kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll
+        )
         djm = dj**m if dj > 0.0 else 0.0
         g += rate_from_power(dj, djm, jmax, mp)
         s += djm
