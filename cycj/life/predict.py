@@ -139,7 +139,13 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     acc = np.zeros(8)
     acc[0], acc[1] = state[M.ST_A], state[M.ST_CYCLES]
     chunk = max(1, int(CHUNK_CYCLES // loads.n))
-    stepper = K.stepper_for(bool(loads.channel_slots), geo.two_d, case.loading.sequence != "none")
+    stepper = K.stepper_for(
+        bool(loads.channel_slots),
+        geo.two_d,
+        case.loading.sequence != "none",
+        int(mp[M.CLOSURE]),
+        int(mp[M.J_METHOD]),
+    )
     rec_n = 0
     rows = []
     try:
