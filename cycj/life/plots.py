@@ -1,18 +1,24 @@
 """Plots of a life prediction (matplotlib, imported here only): crack size vs cycles with the
-end marked; ΔJ and da/dN vs crack size; the J_max or FAD trajectory against its criterion."""
+end marked; ΔJ and da/dN vs crack size; the J_max or FAD trajectory against its criterion.
+
+The figures are plain ``matplotlib.figure.Figure`` objects with fixed margins (no pyplot, no
+tight bounding box: a ``cycj run`` draws each figure once)."""
 
 from __future__ import annotations
 
 import numpy as np
 
 
-def _plt():
-    import matplotlib
+def _subplots(nrows=1, ncols=1, figsize=(6.4, 4.2), margins=(0.12, 0.97, 0.13, 0.95)):
+    """A figure (Agg canvas, not managed by pyplot) and its axes; ``margins``: left, right,
+    bottom, top as fractions of the figure."""
+    from matplotlib.figure import Figure
 
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    return plt
+    fig = Figure(figsize=figsize)
+    axes = fig.subplots(nrows, ncols)
+    left, right, bottom, top = margins
+    fig.subplots_adjust(left=left, right=right, bottom=bottom, top=top, wspace=0.36)
+    return fig, axes
 
 
 def _widen(ax, values, axis="x", log=False):
@@ -52,9 +58,8 @@ def _log_axis(ax, values, what: str):
 
 def crack_growth_figure(result):
     """a vs N with the end point and the critical crack size."""
-    plt = _plt()
     h, s = result.history, result.summary
-    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(h["cycle"], h["a_mm"], lw=1.6, label="depth a" if "c_mm" in h else "crack size")
     if "c_mm" in h:
         ax.plot(h["cycle"], h["c_mm"], lw=1.4, color="C1", label="half-length c")
@@ -82,9 +87,8 @@ def crack_growth_figure(result):
 
 def driving_force_figure(result):
     """ΔJ_eq, ΔJ (largest cycle) and da/dN vs crack size."""
-    plt = _plt()
     h = result.history
-    fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
+    fig, (ax1, ax2) = _subplots(1, 2, figsize=(9.0, 3.8), margins=(0.1, 0.98, 0.14, 0.96))
     # a run that ends at once, or does not grow, has a single crack size
     dot = "o" if h["a_mm"].nunique() < 3 else None
     ax1.plot(h["a_mm"], h["dJ_eq_kJm2"], marker=dot, label="ΔJ_eq of the block")
@@ -103,16 +107,14 @@ def driving_force_figure(result):
     ax2.set_ylabel("da/dN [mm/cycle]")
     _log_axis(ax2, rate[ok], "growth rate")
     ax2.grid(alpha=0.3, which="both")
-    fig.tight_layout()
     return fig
 
 
 def criterion_figure(result):
     """The peak-load trajectory: J_max vs a against J_c, or on the FAD when it is used."""
-    plt = _plt()
     h, case = result.history, result.case
     mat = case.material
-    fig, ax = plt.subplots(figsize=(6.0, 4.2))
+    fig, ax = _subplots(figsize=(6.0, 4.2))
     if "fad" in case.run.criteria and mat.J_c:
         from cycj.fad import fad_option1, fad_option1_2013, fad_option2
 

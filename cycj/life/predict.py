@@ -221,6 +221,8 @@ def predict_life(
         mp[M.A_CRIT] = a_crit
         mp[M.CRIT_CODE] = END_CODES[crit_reason]
     warnings = ES.input_warnings(case, loads, mp, a0, a_crit)
+    if hasattr(progress, "span"):  # a progress display that shows the share of the way
+        progress.span = (a0, a_crit)
     # the whole block at a0, passed over once: method choice, block table and first row
     first_pass = ES.block_pass(case, loads, mp, a0) if _block_possible(case) else None
     used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001), first_pass)

@@ -96,7 +96,7 @@ def run_and_write(case, out: Path, *, method=None, force=False, plots=True, prog
                     P.criterion_figure,
                 ),
             ):
-                figures.append((caption, od.savefig(name, fn(result))))
+                figures.append((caption, od.savefig(name, fn(result), tight=False)))
             summary["plots"] = [p.name for _, p in figures]
             _report(od, result, summary, figures)
         od.write_json("summary.json", summary)
