@@ -65,6 +65,37 @@ if numba.config.CACHE_DIR in ("", None):  # numba imported earlier without our s
 JIT_DISABLED = os.environ.get("CYCJ_DISABLE_JIT", "") not in ("", "0")
 
 
+def _compile_notice() -> None:
+    """One line on stderr the first time a kernel is really compiled (a cache miss; loading
+    from the cache says nothing).  On when ``CYCJ_COMPILE_NOTICE`` is set (the command line
+    sets it)."""
+    import sys
+
+    from numba.core import event
+
+    class _Once(event.Listener):
+        said = False
+
+        def on_start(self, ev):
+            if not _Once.said:
+                _Once.said = True
+                print(
+                    "cycj: compiling the numerical kernels (first run after an install or an "
+                    f"edit, about a minute; cached in {numba.config.CACHE_DIR})",
+                    file=sys.stderr,
+                    flush=True,
+                )
+
+        def on_end(self, ev):
+            pass
+
+    event.register("numba:compile", _Once())
+
+
+if os.environ.get("CYCJ_COMPILE_NOTICE", "") not in ("", "0") and not JIT_DISABLED:
+    _compile_notice()
+
+
 def jit(func=None, **options):
     """Compile ``func`` with numba (nopython, cached), or return it unchanged when disabled."""
 

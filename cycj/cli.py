@@ -7,6 +7,7 @@ errors end with one line on stderr and exit status 2, never a traceback.
 from __future__ import annotations
 
 import importlib
+import os
 import sys
 
 import click
@@ -58,6 +59,8 @@ def main(argv=None):
     from cycj.inputs_read import forget_inputs
 
     forget_inputs()  # a new command: the inputs it reads are noted afresh
+    # one line on stderr when the kernels are really compiled (cycj._jit reads it on import)
+    os.environ.setdefault("CYCJ_COMPILE_NOTICE", "1")
     try:
         rv = cli.main(args=argv, prog_name="cycj", standalone_mode=False)
     except click.exceptions.Abort:
@@ -79,8 +82,6 @@ def main(argv=None):
         click.echo(f"cycj: error: {exc}", err=True)
         sys.exit(2)
     except Exception as exc:  # noqa: BLE001 - a bug: one line, traceback on request
-        import os
-
         if os.environ.get("CYCJ_DEBUG"):
             raise
         click.echo(

@@ -123,7 +123,7 @@ END_NAMES = {
 }
 
 
-@jit
+@jit(inline="always")
 def end_check(a, jmax, lr, j_el_max, rho, mp):
     """End code tripped at crack size ``a`` with J_max, L_r and J_el at peak (0 if none) and the
     value that tripped it; ``rho`` is the plasticity interaction added to K_r when secondary

@@ -81,13 +81,13 @@ NEWMAN_R_MIN = -1.0
 NEWMAN_SMAX_FLOW_MAX = 0.8
 
 
-@jit
+@jit(inline="always")
 def elber_u(r):
     """Elber's U = 0.5 + 0.4R (valid −0.1 ≤ R ≤ 0.7; the stepper clips R and counts it)."""
     return 0.5 + 0.4 * r
 
 
-@jit
+@jit(inline="always")
 def newman_opening_ratio(r, smax_flow, alpha):
     """Newman's S_o/S_max for stress ratio R (−1 ≤ R < 1), S_max/σ_0 (≤ 0.8) and constraint
     factor α (1 plane stress … 3 plane strain); never below R (S_o ≥ S_min)."""
@@ -104,7 +104,7 @@ def newman_opening_ratio(r, smax_flow, alpha):
     return max(so, r)
 
 
-@jit
+@jit(inline="always")
 def newman_u(r, smax_flow, alpha):
     """U = (1 − S_o/S_max)/(1 − R) from Newman's opening function."""
     return (1.0 - newman_opening_ratio(r, smax_flow, alpha)) / (1.0 - r)
@@ -137,7 +137,7 @@ _extension_opening = _chain_of_openings(
 )
 
 
-@jit
+@jit(inline="always")
 def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compressive):
     """x = (S_op − S_min)/ΔS for one cycle (0 ≤ x ≤ 1), and a flag: 1 if R or S_max/σ_0 had to
     be clipped into the model's range (counted by the stepper, warned by Python).
@@ -178,7 +178,7 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
     return min(x, 1.0), 0
 
 
-@jit
+@jit(inline="always")
 def paris_rate_from_power(dj, djm, c, threshold):
     """da/dN = C·ΔJ^m [mm/cycle] given ``djm`` = ΔJ^m, above the threshold ΔJ_th, else 0."""
     if dj <= threshold or dj <= 0.0:

@@ -132,7 +132,7 @@ def delta_j_elastic_scalar(delta_k, e_prime):
     return delta_k * delta_k / e_prime
 
 
-@jit
+@jit(inline="always")
 def plastic_fraction_scalar(u, n_prime):
     """f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U: the share of the Masing branch's plastic
     work (from the minimum) that lies above the opening load.  U in [0, 1], 0 < n' ≤ 1."""
@@ -156,7 +156,7 @@ def reference_stress_delta_j_scalar(dj_el, dsig_ref, e_mod, k_prime, n_prime, u)
     )
 
 
-@jit
+@jit(inline="always")
 def reference_stress_delta_j_hoisted(dj_el, dsig_ref, e_mod, k_prime, n_prime, u, sy_cyc, inv_n):
     """:func:`reference_stress_delta_j_scalar` given the loop invariants ``sy_cyc`` = K'·0.002^n'
     [MPa] and ``inv_n`` = 1/n' (held in the stepper's model array)."""
@@ -204,7 +204,7 @@ def shape_small_crack_delta_j_scalar(dk, dsig, e_prime, k_prime, n_prime, u):
     )
 
 
-@jit
+@jit(inline="always")
 def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
     """J at peak load by the reference stress method (Ainsworth 1984) [kJ/m²].
 

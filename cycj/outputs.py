@@ -325,15 +325,18 @@ class OutputDir:
         frame.to_csv(p, index=False, **kw)
         return p
 
-    def savefig(self, name: str, fig, dpi: int = 110) -> Path:
-        import matplotlib.pyplot as plt
-
+    def savefig(self, name: str, fig, dpi: int = 110, tight: bool = True) -> Path:
+        """Write ``fig`` as PNG with tidy axes (:func:`cycj.display.tidy`); ``tight``: crop to
+        the drawn content (a second layout pass; figures laid out with fixed margins pass
+        False).  A pyplot figure is closed."""
         from cycj.display import tidy
 
         p = self.path(name)
         tidy(fig)
-        fig.savefig(p, dpi=dpi, bbox_inches="tight")
-        plt.close(fig)
+        fig.savefig(p, dpi=dpi, bbox_inches="tight" if tight else None)
+        plt = sys.modules.get("matplotlib.pyplot")
+        if plt is not None:
+            plt.close(fig)
         return p
 
 

@@ -12,18 +12,28 @@ from cycj.commands.options import units_option
 
 
 class _Progress:
-    """A one-line progress display on stderr (cycles and crack size), for long runs."""
+    """A one-line progress bar on stderr (share of the way from the initial to the critical
+    crack size, cycles, crack size) for runs longer than a second; only on a terminal, and
+    never with --json.  ``predict_life`` sets ``span`` (a_initial, a_critical)."""
+
+    WIDTH = 24
 
     def __init__(self, enabled: bool):
         self.enabled = enabled
         self.t0 = time.monotonic()
         self.shown = False
+        self.span = None
 
     def __call__(self, cycles, a):
         if not self.enabled or time.monotonic() - self.t0 < 1.0:
             return
         self.shown = True
-        click.echo(f"\r  {cycles:14.6g} cycles   a = {a:9.4f} mm", nl=False, err=True)
+        bar = ""
+        if self.span is not None and self.span[1] > self.span[0]:
+            f = min(max((a - self.span[0]) / (self.span[1] - self.span[0]), 0.0), 1.0)
+            done = int(round(f * self.WIDTH))
+            bar = f"[{'#' * done}{'.' * (self.WIDTH - done)}] {100 * f:3.0f} %  "
+        click.echo(f"\r  {bar}{cycles:12.6g} cycles   a = {a:9.4f} mm", nl=False, err=True)
 
     def close(self):
         if self.shown:

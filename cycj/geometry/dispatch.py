@@ -43,7 +43,7 @@ _CCI, _ESI, _MT, _SET, _CT, _SEB = _cci.CODE, _esi.CODE, _mt.CODE, _set.CODE, _c
 _SCP, _CYL, _TAB, _HOLE = _scp.CODE, _cyl.CODE, _tab.CODE, _hole.CODE
 
 
-@jit
+@jit(inline="always")
 def k_over_s(code, a, p):
     """K per unit nominal stress [√mm] for shape ``code`` at crack size ``a`` [mm]."""
     if code == _CT:
@@ -69,7 +69,7 @@ def k_over_s(code, a, p):
     raise ValueError("unknown geometry code")
 
 
-@jit
+@jit(inline="always")
 def limit_stress(code, a, p, sigma_y):
     """Nominal stress at the plastic limit load [MPa] for shape ``code`` and crack ``a`` [mm]."""
     if code == _CT:

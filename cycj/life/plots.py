@@ -2,7 +2,10 @@
 end marked; ΔJ and da/dN vs crack size; ΔJ split into its elastic and plastic parts with
 ΔK²/E' for comparison; the J_max or FAD trajectory against its criterion; the J–R curve with
 the driving-force curve at the end when tearing ends the run.  Quantities are shown in the
-output unit system in force (:func:`cycj.display.units`)."""
+output unit system in force (:func:`cycj.display.units`).
+
+The figures are plain ``matplotlib.figure.Figure`` objects with fixed margins (no pyplot, no
+tight bounding box: a ``cycj run`` draws each figure once)."""
 
 from __future__ import annotations
 
@@ -23,13 +26,16 @@ END_LABELS = {
 }
 
 
-def _plt():
-    import matplotlib
+def _subplots(nrows=1, ncols=1, figsize=(6.4, 4.2), margins=(0.12, 0.97, 0.13, 0.95)):
+    """A figure (Agg canvas, not managed by pyplot) and its axes; ``margins``: left, right,
+    bottom, top as fractions of the figure."""
+    from matplotlib.figure import Figure
 
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    return plt
+    fig = Figure(figsize=figsize)
+    axes = fig.subplots(nrows, ncols)
+    left, right, bottom, top = margins
+    fig.subplots_adjust(left=left, right=right, bottom=bottom, top=top, wspace=0.36)
+    return fig, axes
 
 
 def _widen(ax, values, axis="x", log=False):
@@ -69,11 +75,10 @@ def _log_axis(ax, values, what: str):
 
 def crack_growth_figure(result):
     """a vs N with the end point and the critical crack size (or the leak size)."""
-    plt = _plt()
     u = units()
     h, s = result.history, result.summary
     L = u.factor("length")
-    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(h["cycle"], h["a_mm"] * L, lw=1.6, label="depth a" if "c_mm" in h else "crack size")
     if "c_mm" in h:
         ax.plot(h["cycle"], h["c_mm"] * L, lw=1.4, color="C1", label="half-length c")
@@ -105,11 +110,10 @@ def crack_growth_figure(result):
 
 def driving_force_figure(result):
     """ΔJ_eq, ΔJ (largest cycle) and da/dN vs crack size."""
-    plt = _plt()
     u = units()
     h = result.history
     L, J = u.factor("length"), u.factor("energy_per_area")
-    fig, (ax1, ax2) = plt.subplots(1, 2, figsize=(9.0, 3.8))
+    fig, (ax1, ax2) = _subplots(1, 2, figsize=(9.0, 3.8), margins=(0.1, 0.98, 0.14, 0.96))
     # a run that ends at once, or does not grow, has a single crack size
     dot = "o" if h["a_mm"].nunique() < 3 else None
     a = h["a_mm"] * L
@@ -129,7 +133,6 @@ def driving_force_figure(result):
     ax2.set_ylabel(u.label("da/dN", "rate"))
     _log_axis(ax2, rate[ok], "growth rate")
     ax2.grid(alpha=0.3, which="both")
-    fig.tight_layout()
     return fig
 
 
@@ -139,7 +142,6 @@ def split_figure(result):
     from cycj.kernel_slots import E_PRIME
     from cycj.units import MPA_SQRT_M
 
-    plt = _plt()
     u = units()
     h = result.history
     L, J = u.factor("length"), u.factor("energy_per_area")
@@ -148,7 +150,7 @@ def split_figure(result):
     pl = h["dJ_pl_kJm2"].to_numpy(float)
     lefm = (h["dK_MPa_sqrt_m"].to_numpy(float) * MPA_SQRT_M) ** 2 / result.model[E_PRIME]
     dot = "o" if h["a_mm"].nunique() < 3 else None
-    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(a, (el + pl) * J, "k-", lw=1.8, marker=dot, label="ΔJ_eff = elastic + plastic")
     ax.plot(a, el * J, "C0--", marker=dot, label="elastic part U²·ΔK²/E'")
     ax.plot(a, pl * J, "C3-.", marker=dot, label="plastic part")
@@ -168,7 +170,6 @@ def tearing_figure(result, n: int = 120):
     unstable (Paris, Tada, Zahoor & Ernst, ASTM STP 668 (1979))."""
     from cycj.life import end_state as ES
 
-    plt = _plt()
     u = units()
     case, s = result.case, result.summary
     jr = case.material.resistance_curve
@@ -179,7 +180,7 @@ def tearing_figure(result, n: int = 120):
     jmax = np.array([ES.peak(case, result.loads, result.model, min(a_end + d, hi))[0] for d in da])
     top = 1.4 * max(float(np.max(jr(da))), float(jmax[0]))
     L, J = u.factor("length"), u.factor("energy_per_area")
-    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(
         da * L,
         jr(da) * J,
@@ -199,10 +200,9 @@ def tearing_figure(result, n: int = 120):
 
 def criterion_figure(result):
     """The peak-load trajectory: J_max vs a against J_c, or on the FAD when it is used."""
-    plt = _plt()
     h, case = result.history, result.case
     mat = case.material
-    fig, ax = plt.subplots(figsize=(6.0, 4.2))
+    fig, ax = _subplots(figsize=(6.0, 4.2))
     if "fad" in case.run.criteria and mat.J_c:
         from cycj.fad import fad_option1, fad_option1_2013, fad_option2
 

@@ -140,7 +140,13 @@ def _stepper(case, loads, mp, state, max_cycles, rec_da, progress):
     acc = np.zeros(8)
     acc[0], acc[1] = state[M.ST_A], state[M.ST_CYCLES]
     chunk = max(1, int(CHUNK_CYCLES // loads.n))
-    stepper = K.stepper_for(bool(loads.channel_slots), geo.two_d, case.loading.sequence != "none")
+    stepper = K.stepper_for(
+        bool(loads.channel_slots),
+        geo.two_d,
+        case.loading.sequence != "none",
+        int(mp[M.CLOSURE]),
+        int(mp[M.J_METHOD]),
+    )
     rec_n = 0
     rows = []
     try:
@@ -218,19 +224,22 @@ def predict_life(
         mp[M.A_CRIT] = a_crit
         mp[M.CRIT_CODE] = END_CODES[crit_reason]
     warnings = ES.input_warnings(case, loads, mp, a0, a_crit)
+    if hasattr(progress, "span"):  # a progress display that shows the share of the way
+        progress.span = (a0, a_crit)
     # the whole block at a0, passed over once: method choice, block table and first row
     first_pass = ES.block_pass(case, loads, mp, a0) if _block_possible(case) else None
     used, why = _choose_method(case, loads, mp, a0, max(a_crit, a0 * 1.0001), first_pass)
     max_cycles = float(case.run.max_cycles)
     rec_da = max((a_crit - a0) / history_rows, 1e-9)
     rows = []
+    passes = {a0: first_pass}  # whole-block passes already made, by crack size
     state = np.zeros(M.N_STATE)
     state[M.ST_A] = a0
     state[M.ST_C] = geo.dims.get("half_length", 0.0)
     if used == "block" and a_crit > a0:
         cited.cite("block-integration")
         state[M.ST_A], state[M.ST_BLOCKS], rows = block_phase(
-            case, loads, mp, a0, a_crit, max_cycles, first_pass
+            case, loads, mp, a0, a_crit, max_cycles, first_pass, passes
         )
         state[M.ST_CYCLES] = state[M.ST_BLOCKS] * loads.n
         rows = [(*r, state[M.ST_C]) for r in rows]
@@ -245,7 +254,9 @@ def predict_life(
         )
     if first_pass is None:
         first_pass = ES.block_pass(case, loads, mp, a0)
-    last_pass = first_pass if a_end == a0 else ES.block_pass(case, loads, mp, a_end)
+    last_pass = first_pass if a_end == a0 else passes.get(a_end)
+    if last_pass is None:
+        last_pass = ES.block_pass(case, loads, mp, a_end)
     first = (0.0, 0.0, a0, *ES.row_of(first_pass, loads), geo.dims.get("half_length", 0.0))
     last = (cycles, blocks, a_end, *ES.row_of(last_pass, loads), state[M.ST_C])
     hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)

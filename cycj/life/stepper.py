@@ -1,12 +1,10 @@
 """The compiled cycle stepper and block-growth kernels: numbers only.
 
-Kernels take plain arrays and scalars (no files, no objects).  The model parameters travel in
-one float64 array and the crack state in another; their slots are named in
-:mod:`cycj.kernel_slots`, which :mod:`cycj.life` fills from a case.
+Kernels take plain arrays and scalars.  The model parameters travel in one float64 array and
+the crack state in another (slots named in :mod:`cycj.kernel_slots`, filled by cycj.life).
 
-Per cycle (S_max, S_min nominal stresses, crack size a, and c for two-dimensional cracks):
-  K/S and the limit nominal stress S_L(a) from the geometry kernels;
-  x = (S_op − S_min)/ΔS from the closure model, U = 1 − x;
+Per cycle (S_max, S_min nominal stresses, crack size a, and c for two-dimensional cracks): K/S
+  and S_L(a) from the geometry kernels; x = (S_op − S_min)/ΔS from the closure model, U = 1 − x;
   ΔJ_eff by the chosen j_method (elastic, reference stress on the Masing branch, small crack);
   J_max at S_max by the reference stress method on the peak curve; L_r = S_max/S_L(a);
   end criteria checked at the start of the cycle; the sequence model (Wheeler factor on the
@@ -97,8 +95,10 @@ REC_CYCLE, REC_BLOCK, REC_A, REC_DJ, REC_DJ_EQ, REC_JMAX, REC_LR, REC_DADN, REC_
 N_REC = 9
 
 
-@jit
-def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=1.0):
+@jit(inline="always")
+def k_driving_force(
+    kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=1.0, closure=-1, j_method=-1
+):
     """ΔJ_eff, J_max, L_r, J_el at peak [kJ/m²] and the clip flag for one cycle from the
     crack-front point's K_max, K_min [MPa√mm] (secondary stresses included), the primary
     L_r at the peak and over the range, and the nominal stress range ``ds`` [MPa] (the loop of
@@ -106,12 +106,14 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=
 
     ``g_long`` = (K/S)(a + D)/(K/S)(a) and ``l_long`` = S_L(a)/S_L(a + D) carry the long crack
     of a notch of depth D (:func:`notch_long_factors`; 1 otherwise).  With j_method "notch",
-    J_max, J_el and L_r use the K of the estimate that sets ΔJ and the notched section's L_r."""
+    J_max, J_el and L_r use the K of the estimate that sets ΔJ and the notched section's L_r.
+    ``closure``, ``j_method``: the models' codes fixed by the caller (inlined, the other models'
+    branches fold away), or −1: read from ``mp``."""
     dk = kmax - kmin
     if kmax <= 0.0 or dk <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
     x, clipped = opening_fraction(
-        int(mp[CLOSURE]),
+        closure if closure >= 0 else int(mp[CLOSURE]),
         kmax,
         kmin,
         lr_max / mp[FLOW_RATIO],
@@ -121,7 +123,7 @@ def k_driving_force(kmax, kmin, lr_max, lr_range, ds, a, mp, g_long=1.0, l_long=
     )
     u = 1.0 - x
     dj_el = dk * dk / mp[E_PRIME]
-    jm = int(mp[J_METHOD])
+    jm = j_method if j_method >= 0 else int(mp[J_METHOD])
     k_used = kmax
     lr = lr_max
     if jm == REFERENCE_STRESS:
@@ -215,7 +217,7 @@ def cycle_rate(dj, jmax, mp):
     return rate_from_power(dj, dj ** mp[M_LAW] if dj > 0.0 else 0.0, jmax, mp)
 
 
-@jit
+@jit(inline="always")
 def rate_from_power(dj, djm, jmax, mp):
     """:func:`cycle_rate` given ΔJ^m already computed (the stepper needs it for ΔJ_eq too)."""
     da = paris_rate_from_power(dj, djm, mp[C_LAW], mp[DJ_TH])
@@ -268,11 +270,12 @@ def sequence_step(kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st, gl=1.0,
 
 
 @functools.cache
-def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool = False):
+def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_method=-1):
     """The cycle stepper, specialised at compile time (dead branches removed) for: one load
     channel with the shape's own K solution or load channels with K tables
     (``channel_mode``); a two-dimensional crack (``two_d``); a load-sequence model
-    (``sequence``).  Each variant is compiled (or loaded from the cache) on first use."""
+    (``sequence``); the closure and j_method codes (−1: read from ``mp``).  Each variant is
+    compiled (or loaded from the cache) on first use."""
 
     @jit
     def run_cycles(lmax, lmin, st, n_blocks, max_cycles, code, gp, ct, mp, rec_da, rec, rec_n, acc):
@@ -288,18 +291,13 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
         ct : K tables of the load channels (:mod:`cycj.fields.channels`); unused with one channel
         rec_da : record a row each time the crack has grown by this much [mm]
         rec : float64 array (rows × N_REC) receiving records; rec_n : rows already used
-        acc : float64 work array (8) carried between calls: [a at last record, cycle at last
-              record, Σ ΔJ^m since record, n since record, max ΔJ, max J_max, max L_r, clipped
-              count]
+        acc : float64 work array (8) carried between calls: [a, cycle at last record, Σ ΔJ^m
+              and n since record, max ΔJ, max J_max, max L_r, clipped count]
 
-        Returns
-        -------
-        end code, end value, rows used
-
-        A cycle whose growth would carry the crack to or past the first of the tearing size,
-        the critical size (``A_CRIT``), the size limit or the leak size ends the run there, on
-        that criterion, with the crack at that size (end value NaN: the caller evaluates the
-        criterion there); the crack never leaves the body's K solution.
+        Returns (end code, end value, rows used).  A cycle whose growth would carry the crack
+        to or past the first of the tearing size, the critical size (``A_CRIT``), the size
+        limit or the leak size ends the run there, on that criterion, with the crack at that
+        size (end value NaN: the caller evaluates it there); the crack stays in the K solution.
         """
         n = lmax.shape[0]
         a = st[ST_A]
@@ -321,6 +319,7 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
         if two_d and mp[LEAK_SIZE] < a_stop:
             a_stop, stop_code = mp[LEAK_SIZE], END_LEAK
         c_stop = mp[C_LIMIT]
+        notch = int(mp[J_METHOD]) == NOTCH  # else the long-crack factors are 1 (hoisted)
         for _b in range(n_blocks):
             grew = False
             for i in range(n):
@@ -337,9 +336,9 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     s0 = lmin[i, 0]
                     kmax, kmin, kres = s1 * kos, s0 * kos, 0.0
                     lr_max, lr_range, ds = s1 / sl, (s1 - s0) / sl, s1 - s0
-                gl, ll = notch_long_factors(code, a, gp, mp)
+                gl, ll = notch_long_factors(code, a, gp, mp) if notch else (1.0, 1.0)
                 dj, jmax, lr, jel, clipped = k_driving_force(
-                    kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll
+                    kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll, closure, j_method
                 )
                 n_clipped += clipped
                 if kmax > 0.0:
@@ -362,7 +361,9 @@ def stepper_for(channel_mode: bool = False, two_d: bool = False, sequence: bool 
                     else:
                         kos_c = k_over_s_surface(code, a, gp)
                         k1, k0 = lmax[i, 0] * kos_c, lmin[i, 0] * kos_c
-                    dj_c = k_driving_force(k1, k0, lr_max, lr_range, ds, a, mp, gl, ll)[0]
+                    dj_c = k_driving_force(
+                        k1, k0, lr_max, lr_range, ds, a, mp, gl, ll, closure, j_method
+                    )[0]
                     c += cycle_rate(dj_c, jmax, mp) * factor
                 if da > 0.0:
                     grew = True
@@ -438,16 +439,25 @@ def _two_d_check(a, c, mp):
 @jit
 def block_growth(lmax, lmin, a, code, gp, ct, mp):
     """Growth over one block with the crack frozen at ``a`` [mm], and the block's ΔJ_eq
-    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff."""
+    (Σ ΔJ^m / n)^(1/m), max J_max, max L_r and largest ΔJ_eff.  With one channel K/S, S_L and
+    the notch factors are evaluated once (same expressions as :func:`cycle_k`, same bits)."""
     n = lmax.shape[0]
-    g = 0.0
-    s = 0.0
-    jmx = 0.0
-    lrmx = 0.0
-    djmx = 0.0
+    g = s = jmx = lrmx = djmx = 0.0
     m = mp[M_LAW]
+    one = mp[CH_MODE] <= 0.5
+    kos = k_over_s(code, a, gp) if one else 1.0
+    sl = limit_stress(code, a, gp, mp[SIGMA_Y]) if one else 1.0
+    gl, ll = notch_long_factors(code, a, gp, mp)
     for i in range(n):
-        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(lmax, lmin, i, a, code, gp, ct, mp)
+        if one:
+            s1 = lmax[i, 0]
+            s0 = lmin[i, 0]
+            kmax, kmin, lr_max, lr_range, ds = s1 * kos, s0 * kos, s1 / sl, (s1 - s0) / sl, s1 - s0
+        else:
+            kmax, kmin, lr_max, lr_range, ds = channel_k(lmax, lmin, i, a, gp[5], ct, mp, 0)[:5]
+        dj, jmax, lr, jel, clipped = k_driving_force(
+            kmax, kmin, lr_max, lr_range, ds, a, mp, gl, ll
+        )
         djm = dj**m if dj > 0.0 else 0.0
         g += rate_from_power(dj, djm, jmax, mp)
         s += djm
@@ -469,8 +479,7 @@ def block_growth_table(lmax, lmin, a_grid, code, gp, ct, mp, out):
 @jit
 def peak_state(lmax, i_peak, a, code, gp, ct, mp):
     """ΔJ, J_max, L_r, J_el at peak and clip flag under the block's peak cycle ``i_peak``
-    loaded from zero (the history's peak load) at crack size ``a``.  Only the peak row is
-    copied (a zero array of one row, not of the whole block)."""
+    loaded from zero (the history's peak load) at crack size ``a`` (the peak row only)."""
     row = lmax[i_peak : i_peak + 1]
     return cycle_driving_force(row, 0.0 * row, 0, a, code, gp, ct, mp)
 

@@ -101,7 +101,7 @@ def run_and_write(
         figures = []
         if plots:
             for name, caption, fn in _figures(result):
-                figures.append((caption, od.savefig(name, fn(result))))
+                figures.append((caption, od.savefig(name, fn(result), tight=False)))
             summary["plots"] = [p.name for _, p in figures]
             _report(od, result, summary, figures)
         od.write_json("summary.json", summary)

@@ -94,7 +94,9 @@ def rainflow_pairs(peaks_and_valleys: np.ndarray, closed: bool = False):
     second = np.empty(m, dtype=np.int64)
     count = np.empty(m, dtype=np.float64)
     nc = _rainflow_kernel(r, bool(closed), first, second, count)
-    return first[:nc].copy(), second[:nc].copy(), count[:nc].copy()
+    # views, not copies: the untouched tail is never paged in, and a first call on a long
+    # history does not fault in fresh pages for the copies
+    return first[:nc], second[:nc], count[:nc]
 
 
 def rainflow_cycles(values, gate: float = 0.0, repeat: bool = False) -> dict:

@@ -105,9 +105,7 @@ def turning_point_indices(x: np.ndarray, gate: float) -> np.ndarray:
     """Sample indices (int64) of the gated turning points of a float64 array (no checks)."""
     out = np.empty(max(x.shape[0], 1), dtype=np.int64)
     k = _turning_point_kernel(x, gate, out)
-    idx = out[:k].copy()
-    del out
-    return idx
+    return out[:k]  # a view: the untouched tail of ``out`` is never paged in
 
 
 def reversals(values, gate: float = 0.0) -> tuple[np.ndarray, np.ndarray]:
