@@ -42,6 +42,7 @@ class Loading:
     compressive_part: str = "ignore"
     sequence: str = "none"
     sequence_options: dict = field(default_factory=dict)
+    sheet: str | None = None  # worksheet of an .xlsx history
 
 
 def _quantity_kind(unit: str | None) -> str | None:
@@ -103,6 +104,9 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         raise t.error("gate", "out of range", expected="≥ 0", found=gate_raw)
     duration = t.quantity("duration", "time", positive=True)
     column = t.string("column")
+    sheet = t.string("sheet")
+    if sheet is not None and (hist is None or not hist.lower().endswith((".xlsx", ".xlsm"))):
+        raise t.error("sheet", "a sheet is chosen only in an .xlsx history", found=sheet)
     constant = None
     if const is not None:
         vals = []
@@ -165,6 +169,7 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         comp,
         seq,
         seq_opts,
+        sheet,
     )
 
 

@@ -59,6 +59,7 @@ import click
     type=click.FloatRange(min=0, min_open=True),
     help="ΔJ [kJ/m²] where da/dN and its interval are reported (repeatable; default mid-range).",
 )
+@click.option("--sheet", default=None, help="Worksheet of .xlsx logs, by name (default: first).")
 @click.option("--free-start", is_flag=True, help="Direct a(N) fit: fit each test's start too.")
 @click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
@@ -73,6 +74,7 @@ def fit(
     resamples,
     seed,
     rate_at,
+    sheet,
     free_start,
     force,
     no_plots,
@@ -96,6 +98,7 @@ def fit(
         seed=seed,
         dJ_at=list(rate_at) or None,
         free_start=free_start,
+        sheet=sheet,
     )
     write_outputs(result, out_dir, logs=logs, specimens=specimens, force=force, plots=not no_plots)
     if as_json:
