@@ -43,7 +43,8 @@ from cycj.errors import CycjInputError
     "out_dir",
     default=None,
     type=click.Path(file_okay=False),
-    help="Folder for cycles.csv, the matrices and the plots.",
+    help="Folder for count.json, cycles.csv, the matrices, plots and report (e.g. "
+    "out/count-<history stem>; without --out the count is printed only).",
 )
 @click.option("--force", is_flag=True, help="Replace an --out folder cycj wrote before.")
 @click.option(

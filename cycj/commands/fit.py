@@ -18,10 +18,9 @@ import click
 @click.option(
     "--out",
     "out_dir",
-    default="fit-out",
-    show_default=True,
+    default=None,
     type=click.Path(file_okay=False),
-    help="Output folder.",
+    help="Output folder (default: out/fit-<stem of the first log>).",
 )
 @click.option(
     "--method",
@@ -84,8 +83,9 @@ def fit(
     ``specimen`` column holds many tests in one file)."""
     from cycj.calibrate.fit import fit_logs
     from cycj.calibrate.write import write_outputs
-    from cycj.outputs import OutputDir, dumps
+    from cycj.outputs import OutputDir, default_out, dumps
 
+    out_dir = default_out("fit", logs[0], out_dir)
     spec = specimens[0] if len(specimens) == 1 else list(specimens)
     OutputDir(out_dir, force=force, inputs=[*logs, *specimens])  # refuse early
     result = fit_logs(

@@ -54,7 +54,7 @@ def run_fleet(case_files, out_dir=None, *, method=None, force=False, scheduler=N
             load_case(f)
         except (CycjInputError, ValidityRangeError):
             pass  # reported in the case's row
-    root = Path(out_dir or "fleet-life")
+    root = Path(out_dir or "out/run-fleet")
     with OutputDir(root, force=force, inputs=case_files) as od:
         jobs = [(str(f), str(od.path(Path(f).stem)), method, False) for f in case_files]
         if scheduler:
