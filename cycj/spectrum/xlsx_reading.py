@@ -22,8 +22,9 @@ def is_xlsx(path) -> bool:
     return Path(path).suffix.lower() in XLSX_SUFFIXES
 
 
-def read_sheet(path, sheet: str | None = None) -> tuple[list[str], list[tuple], str]:
-    """The column names (first row), the data rows and the sheet's name.
+def read_sheet(path, sheet: str | None = None):
+    """The column names (first row), the data rows, the sheet's name and the spreadsheet row
+    number of each data row (the header is row 1).
 
     ``sheet`` is a worksheet name (exact, then case-insensitive); None takes the first sheet.
     Empty rows are skipped; a sheet with no data row is an error.
@@ -44,25 +45,30 @@ def read_sheet(path, sheet: str | None = None) -> tuple[list[str], list[tuple], 
     try:
         names = list(book.sheetnames)
         ws = book[_sheet_name(names, sheet, src)]
-        rows = [r for r in ws.iter_rows(values_only=True) if any(v is not None for v in r)]
+        numbered = [
+            (no, r)
+            for no, r in enumerate(ws.iter_rows(values_only=True), start=1)
+            if any(v is not None for v in r)
+        ]
     finally:
         book.close()
     title = ws.title
     where = f"{src} [sheet {title!r}]"
+    rows = [r for _, r in numbered]
     if not rows:
         raise CycjInputError("the sheet is empty", source=where, expected="a header row and data")
     header = [("" if v is None else str(v).strip()) for v in rows[0]]
     if all(_number(v) is not None for v in rows[0] if v is not None):
         raise CycjInputError(
             "the first row holds numbers, not column names",
-            source=where,
-            line=1,
+            source=f"{src} [sheet {title!r}, row {numbered[0][0]}]",
             expected="a header row naming the columns",
         )
     if len(rows) < 2:
         raise CycjInputError("the sheet has a header but no data", source=where)
     width = len(header)
-    return header, [tuple(r[:width]) + (None,) * (width - len(r)) for r in rows[1:]], title
+    data = [tuple(r[:width]) + (None,) * (width - len(r)) for r in rows[1:]]
+    return header, data, title, [no for no, _ in numbered[1:]]
 
 
 def _sheet_name(names: list[str], sheet, src: str) -> str:
@@ -97,16 +103,16 @@ def _number(v):
     return None
 
 
-def column_values(rows, pos: int, name: str, where: str) -> np.ndarray:
-    """One column as float64; a cell that is not a finite number names its row."""
+def column_values(rows, pos: int, name: str, where: str, row_numbers) -> np.ndarray:
+    """One column as float64; a cell that is not a finite number names its row (as the
+    spreadsheet numbers it: the header is row 1; ``where`` is ``file [sheet 'name']``)."""
     out = np.empty(len(rows))
     for i, r in enumerate(rows):
         v = _number(r[pos])
         if v is None or not np.isfinite(v):
             raise CycjInputError(
                 f"not a number in column {name!r}",
-                source=where,
-                line=i + 2,
+                source=f"{where[:-1]}, row {row_numbers[i]}]",
                 expected="a finite number",
                 found="an empty cell" if r[pos] is None else r[pos],
             )
@@ -118,19 +124,20 @@ def read_xlsx_history(path, column=None, time_column=None, sheet=None):
     """The load (and time, or None) columns of a history sheet, as float64 arrays."""
     from cycj.spectrum.csv_reading import check_length, choose_columns
 
-    header, rows, title = read_sheet(path, sheet)
+    header, rows, title, nos = read_sheet(path, sheet)
     where = f"{path} [sheet {title!r}]"
     numeric = [all(_number(r[i]) is not None for r in rows[:20]) for i in range(len(header))]
     pos, t_pos = choose_columns(header, numeric, column, time_column, where)
-    values = column_values(rows, pos, header[pos], where)
-    check_length(values.shape[0], where, lambda row: (row + 2, ""))
-    times = None if t_pos is None else column_values(rows, t_pos, header[t_pos], where)
+    values = column_values(rows, pos, header[pos], where, nos)
+    check_length(values.shape[0], where, lambda row: (nos[min(row, len(nos) - 1)], ""))
+    times = None if t_pos is None else column_values(rows, t_pos, header[t_pos], where, nos)
     return values, times
 
 
 def read_xlsx_frame(path, sheet=None):
-    """A sheet as a pandas DataFrame of its columns (for test logs)."""
+    """A sheet as a pandas DataFrame of its columns (for test logs), indexed so that index + 2
+    is the spreadsheet row (the convention of the CSV logs' line numbers)."""
     import pandas as pd
 
-    header, rows, _ = read_sheet(path, sheet)
-    return pd.DataFrame.from_records(rows, columns=header)
+    header, rows, _, nos = read_sheet(path, sheet)
+    return pd.DataFrame.from_records(rows, columns=header, index=[n - 2 for n in nos])
