@@ -203,3 +203,16 @@ def test_report_units(units, ok):
         return
     case = case_from_dict(raw, source="<test>")
     assert case.report_units == ok and case.resolved()["report"] == {"units": ok}
+
+
+def test_a_reader_reading_an_undeclared_key_is_recorded():
+    """The check behind test_reading_every_example_reads_no_undeclared_key can fail."""
+    from cycj import schema
+    from cycj.tables import Table
+
+    t = Table({"units": "SI"}, "report", "<test>")
+    t.get("units")
+    t.get("colour_scheme")  # a reader asking for a key no section declares
+    t.finish()
+    assert ("case", "report", "colour_scheme") in schema.UNDECLARED
+    schema.UNDECLARED.discard(("case", "report", "colour_scheme"))
