@@ -61,6 +61,11 @@ def _quantity_kind(unit: str | None) -> str | None:
 def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     hist = t.string("history")
     const = t.table("constant")
+    if hist is None and const is None:  # a misspelt one is named before the general rule
+        for name in ("history", "constant"):
+            err = t.missing(name, expected='history = "FILE" or constant = { max, min }')
+            if "did you mean" in str(err):
+                raise err
     if (hist is None) == (const is None):
         raise t.error("history", "give either a history file or constant = { max, min }")
     unit = t.string("unit")

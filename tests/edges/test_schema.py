@@ -161,6 +161,16 @@ def test_a_misspelt_required_key_says_missing_and_did_you_mean(
     assert f"{section}.{right}" in line
 
 
+def test_a_misspelt_history_or_constant_says_did_you_mean():
+    from cycj.case import case_from_dict
+    from cycj.errors import CycjInputError
+
+    raw = case_dict()
+    raw["loading"] = {"constnt": raw["loading"]["constant"]}
+    with pytest.raises(CycjInputError, match="did you mean 'constant' for 'constnt'"):
+        case_from_dict(raw, source="<test>")
+
+
 def test_a_misspelt_required_specimen_key_says_did_you_mean(tmp_path):
     from cycj.calibrate.specimen import read_specimen
     from cycj.errors import CycjInputError
