@@ -1,6 +1,7 @@
 """Case files (TOML) → validated, typed objects in internal units, with one-line errors.
 
-The keys are listed in README.md ("Case files"); see ``examples/`` for complete cases.
+Every key is declared once in :mod:`cycj.schema` (reference: docs/keys.md); see ``examples/``
+for complete cases.
 Paths inside a case are relative to the case file.
 """
 
@@ -68,6 +69,8 @@ class Case:
     fields: object | None = None  # cycj.fields.inputs.FieldSpec (stress fields, channels)
     #: every file the case reads, as (role, path): the case, history, tables, profiles
     files: tuple = ()
+    #: units of reports and plots, [report] units: "SI" (default) or "US" (files stay SI)
+    report_units: str = "SI"
 
     @property
     def sha256(self) -> str | None:
@@ -111,6 +114,7 @@ class Case:
             "loading": _plain(asdict(self.loading)),
             "analysis": asdict(self.analysis),
             "run": _plain(asdict(self.run)),
+            "report": {"units": self.report_units},
         }
         out["material"]["flow_stress"] = self.material.flow_stress
         out["material"]["effective_modulus"] = self.material.effective_modulus(geo.plane_strain)
@@ -202,6 +206,11 @@ def case_from_dict(
     from cycj.fe.inputs import read_fe
 
     read_fe(top.get("fe"), source)  # [fe]: options of `cycj j-table`, validated here
+    report_t = top.table("report")
+    units = "SI"
+    if report_t is not None:
+        units = report_t.choice("units", ("SI", "US"), default="SI")
+        report_t.finish()
     if inspection is not None and not isinstance(inspection, dict):
         raise CycjInputError(
             "must be a table",
@@ -309,6 +318,7 @@ def case_from_dict(
         raw,
         jc_note,
         fields,
+        report_units=units,
     )
 
 

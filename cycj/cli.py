@@ -19,6 +19,8 @@ COMMANDS = {
     "demo": "cycj.commands.demo:demo",
     "geometries": "cycj.commands.check:geometries",
     "j-table": "cycj.commands.jtable:j_table",
+    "keys": "cycj.commands.keys:keys",
+    "new": "cycj.commands.keys:new",
     "plan": "cycj.commands.plan:plan",
     "pod": "cycj.commands.pod:pod",
     "run": "cycj.commands.run:run",

@@ -42,6 +42,7 @@ class Loading:
     compressive_part: str = "ignore"
     sequence: str = "none"
     sequence_options: dict = field(default_factory=dict)
+    sheet: str | None = None  # worksheet of an .xlsx history
 
 
 def _quantity_kind(unit: str | None) -> str | None:
@@ -60,6 +61,11 @@ def _quantity_kind(unit: str | None) -> str | None:
 def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
     hist = t.string("history")
     const = t.table("constant")
+    if hist is None and const is None:  # a misspelt one is named before the general rule
+        for name in ("history", "constant"):
+            err = t.missing(name, expected='history = "FILE" or constant = { max, min }')
+            if "did you mean" in str(err):
+                raise err
     if (hist is None) == (const is None):
         raise t.error("history", "give either a history file or constant = { max, min }")
     unit = t.string("unit")
@@ -103,6 +109,9 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         raise t.error("gate", "out of range", expected="≥ 0", found=gate_raw)
     duration = t.quantity("duration", "time", positive=True)
     column = t.string("column")
+    sheet = t.string("sheet")
+    if sheet is not None and (hist is None or not hist.lower().endswith((".xlsx", ".xlsm"))):
+        raise t.error("sheet", "a sheet is chosen only in an .xlsx history", found=sheet)
     constant = None
     if const is not None:
         vals = []
@@ -165,6 +174,7 @@ def read_loading(t: Table, geometry: Geometry, base: Path) -> Loading:
         comp,
         seq,
         seq_opts,
+        sheet,
     )
 
 

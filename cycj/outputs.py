@@ -21,6 +21,19 @@ from pathlib import Path
 from cycj.errors import CycjInputError
 from cycj.inputs_read import inputs_read
 
+#: the folder every command's outputs go to by default, under the current folder
+DEFAULT_ROOT = "out"
+
+
+def default_out(command: str, first_input, out_dir=None) -> Path:
+    """The output folder of ``command``: ``out_dir`` when given, else the one rule of every
+    command, ``out/<command>-<stem of its first input>`` under the current folder (``run`` of
+    several cases: ``out/run-fleet``)."""
+    if out_dir:
+        return Path(out_dir)
+    stem = "fleet" if first_input is None else Path(first_input).stem
+    return Path(DEFAULT_ROOT) / f"{command}-{stem}"
+
 
 def _jsonable(obj):
     import numpy as np

@@ -1,6 +1,8 @@
 """Reading nested TOML tables with clear, one-line errors (file, key path, expected, found).
 
-Shared by the case file, the specimen file and every other TOML input.
+Shared by the case file, the specimen file and every other TOML input.  The keys a table may
+hold are declared once in :mod:`cycj.schema`: an undeclared key is unknown, with a "did you
+mean" from the declared ones, and a misspelt required key is named with its likely spelling.
 """
 
 from __future__ import annotations
@@ -68,7 +70,7 @@ def _huge_integer(obj, key: str = ""):
 class Table:
     """One TOML table being read: every key read is remembered, the rest are reported."""
 
-    def __init__(self, raw, path: str, source: str | None):
+    def __init__(self, raw, path: str, source: str | None, doc: str = "case"):
         if not isinstance(raw, dict):
             raise CycjInputError(
                 "must be a table",
@@ -77,8 +79,29 @@ class Table:
                 expected="a TOML table { ... }",
                 found=raw,
             )
-        self.raw, self.path, self.source = raw, path, source
+        self.raw, self.path, self.source, self.doc = raw, path, source, doc
         self.known: set[str] = set()
+
+    @property
+    def declared(self):
+        """This table's section in :mod:`cycj.schema` (None for an undeclared table)."""
+        from cycj import schema
+
+        return schema.section(self.doc, self.path)
+
+    def missing(self, name: str, expected=None) -> CycjInputError:
+        """The error for a missing required key, naming a likely misspelling of it."""
+        sec = self.declared
+        declared = set(sec.names) if sec is not None else self.known
+        strays = [k for k in self.raw if k not in declared and k not in self.known]
+        near = difflib.get_close_matches(name, strays, n=1, cutoff=0.6)
+        if near:
+            return self.error(
+                name,
+                f"missing required key '{name}'; did you mean '{name}' for '{near[0]}'?",
+                expected=expected,
+            )
+        return self.error(name, "missing required key", expected=expected)
 
     def key(self, name: str) -> str:
         return f"{self.path}.{name}" if self.path else name
@@ -96,7 +119,7 @@ class Table:
         self.known.add(name)
         if name not in self.raw:
             if required:
-                raise self.error(name, "missing required key")
+                raise self.missing(name)
             return default
         return self.raw[name]
 
@@ -156,9 +179,7 @@ class Table:
     def choice(self, name, options, *, default=None, required=False):
         if required and name not in self.raw:
             self.known.add(name)
-            raise self.error(
-                name, "missing required key", expected="one of " + ", ".join(map(repr, options))
-            )
+            raise self.missing(name, expected="one of " + ", ".join(map(repr, options)))
         raw = self.get(name, default=default, required=required)
         if raw is None:
             return None
@@ -183,11 +204,35 @@ class Table:
         raw = self.get(name, required=required)
         if raw is None:
             return None
-        return Table(raw, self.key(name), self.source)
+        return Table(raw, self.key(name), self.source, self.doc)
 
     def finish(self, extra_ok=()):
-        """Report the first unknown key, with a 'did you mean' from the known ones."""
+        """Report the first unknown key, with a 'did you mean' from the declared ones (or, for
+        an undeclared table, from the keys read); a declared key that these settings do not
+        read is reported too, never ignored."""
         known = self.known | set(extra_ok)
+        sec = self.declared
+        if sec is not None:
+            from cycj import schema
+
+            declared = set(sec.names)
+            schema.UNDECLARED.update(
+                (self.doc, schema.normal_path(self.path), k) for k in known - declared
+            )
+            for k in self.raw:
+                if k not in declared:
+                    near = difflib.get_close_matches(k, sorted(declared), n=1)
+                    hint = f" (did you mean '{near[0]}'?)" if near else ""
+                    raise self.error(
+                        k, f"unknown key{hint}", expected="one of " + ", ".join(sec.names)
+                    )
+                if k not in known:
+                    raise self.error(
+                        k,
+                        "not used with the other keys given here",
+                        expected="one of " + ", ".join(sorted(known)),
+                    )
+            return
         for k in self.raw:
             if k not in known:
                 near = difflib.get_close_matches(k, sorted(known), n=1)

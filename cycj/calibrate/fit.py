@@ -70,6 +70,7 @@ def fit_logs(
     seed=0,
     dJ_at=None,
     free_start=False,
+    sheet=None,
 ):
     """Fit da/dN = C·ΔJ_eff^m to fatigue crack growth test logs.
 
@@ -93,6 +94,7 @@ def fit_logs(
         geometric middle of the data range)
     free_start : direct a(N) fit with each test's start fitted (default: fixed at its first
         reading)
+    sheet : worksheet of .xlsx logs, by name (default: each workbook's first sheet)
 
     Returns
     -------
@@ -123,7 +125,7 @@ def fit_logs(
     log_paths = _as_list(log_paths)
     if not log_paths:
         raise CycjInputError("no log file given", key="LOG")
-    tests = read_tests(log_paths, _as_list(specimen_path))
+    tests = read_tests(log_paths, _as_list(specimen_path), sheet=sheet)
     specs = [spec for _, spec in tests]
     skipped, warnings, frames, rate_frames, notes, series, typical = [], [], [], [], {}, [], None
     kinds, spacing_info, gradients, labels = set(), {}, {}, {}

@@ -61,8 +61,9 @@ def read_log(path, *, load_factor=1.0, displacement_factor=1.0, crack_factor=1.0
     return frame_log(df, str(path), path.name, load_factor, displacement_factor, crack_factor)
 
 
-def read_frame(path):
-    """The CSV of a log as a DataFrame (one :class:`CycjInputError` naming the file)."""
+def read_frame(path, sheet=None):
+    """The CSV (or .xlsx sheet, chosen by name) of a log as a DataFrame (one
+    :class:`CycjInputError` naming the file)."""
     import pandas as pd
 
     path = Path(path)
@@ -72,6 +73,12 @@ def read_frame(path):
     from cycj.inputs_read import note_input
 
     note_input(path, "log")
+    from cycj.spectrum.xlsx_reading import is_xlsx, read_xlsx_frame
+
+    if is_xlsx(path):
+        return read_xlsx_frame(path, sheet)
+    if sheet is not None:
+        raise CycjInputError("a sheet is chosen only in a spreadsheet", source=src, key="--sheet")
     from cycj.spectrum.reading import sniff_delimiter
 
     try:

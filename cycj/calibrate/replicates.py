@@ -20,11 +20,11 @@ __all__ = ["read_tests"]
 SPECIMEN_COLUMN = "specimen"
 
 
-def _parts(path):
+def _parts(path, sheet=None):
     """(label or None, DataFrame) for each test in one log file."""
     from cycj.calibrate.logs import read_frame
 
-    df = read_frame(path)
+    df = read_frame(path, sheet)
     cols = {str(c).strip().lower(): c for c in df.columns}
     if SPECIMEN_COLUMN not in cols:
         return [(None, df)]
@@ -60,13 +60,14 @@ def _pair(parts, per_file, specs, paths):
     )
 
 
-def read_tests(log_paths, specimen_paths):
+def read_tests(log_paths, specimen_paths, sheet=None):
     """Read every test of the logs and pair it with its specimen.
 
     Parameters
     ----------
     log_paths : list of paths, CSV logs (one test each, or long format with ``specimen``)
     specimen_paths : list of paths, specimen TOML files (1, one per test or one per log file)
+    sheet : worksheet of .xlsx logs, by name (default: the first sheet)
 
     Returns
     -------
@@ -87,7 +88,7 @@ def read_tests(log_paths, specimen_paths):
     specs = [read_specimen(p) for p in specimen_paths]
     parts, per_file = [], []
     for i, p in enumerate(log_paths):
-        for lab, df in _parts(p):
+        for lab, df in _parts(p, sheet):
             parts.append((p, lab, df))
             per_file.append(i)
     paired = _pair(parts, per_file, specs, log_paths)

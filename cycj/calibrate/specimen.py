@@ -68,7 +68,7 @@ class Specimen:
 def read_specimen(path) -> Specimen:
     """Read and check a specimen file; errors are one line naming the file and key."""
     src = str(path)
-    t = Table(read_toml(path, role="specimen"), "", src)
+    t = Table(read_toml(path, role="specimen"), "", src, doc="specimen")
     shape = t.choice("shape", SPECIMEN_SHAPES, required=True)
     width = t.quantity("width", "length", required=True, positive=True)
     thick = t.quantity("thickness", "length", required=True, positive=True)

@@ -26,7 +26,16 @@ def check(case_file, as_json):
         return
     click.echo(f"case: {case.title}  ({case_file})")
     click.echo("internal units: N, mm, MPa, kJ/m^2, MPa*mm^0.5, mm/cycle, h")
-    for section in ("material", "geometry", "growth", "loading", "fields", "analysis", "run"):
+    for section in (
+        "material",
+        "geometry",
+        "growth",
+        "loading",
+        "fields",
+        "analysis",
+        "run",
+        "report",
+    ):
         if section not in data:
             continue
         click.echo(f"[{section}]")

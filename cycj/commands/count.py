@@ -13,6 +13,7 @@ from cycj.errors import CycjInputError
 @click.command()
 @click.argument("history", type=click.Path(dir_okay=False))
 @click.option("--column", default=None, help="Channel to count (name or 0-based position).")
+@click.option("--sheet", default=None, help="Worksheet of an .xlsx history, by name.")
 @click.option(
     "--gate",
     default="0",
@@ -43,7 +44,8 @@ from cycj.errors import CycjInputError
     "out_dir",
     default=None,
     type=click.Path(file_okay=False),
-    help="Folder for cycles.csv, the matrices and the plots.",
+    help="Folder for count.json, cycles.csv, the matrices, plots and report (e.g. "
+    "out/count-<history stem>; without --out the count is printed only).",
 )
 @click.option("--force", is_flag=True, help="Replace an --out folder cycj wrote before.")
 @click.option(
@@ -65,6 +67,7 @@ from cycj.errors import CycjInputError
 def count(
     history,
     column,
+    sheet,
     gate,
     unit,
     scale,
@@ -106,7 +109,9 @@ def count(
             folder = spill.enter_context(tempfile.TemporaryDirectory(prefix="cycj-count-"))
             result, write = _streamed(history, column, factor, scale, gate_value, folder, internal)
         else:
-            result, write = _in_memory(history, column, factor, scale, gate_value, repeat, internal)
+            result, write = _in_memory(
+                history, column, factor, scale, gate_value, repeat, internal, sheet
+            )
         summary = _finish(
             od,
             history,
@@ -130,13 +135,13 @@ def count(
     _print(summary, history, gate_value, repeat, internal, out_dir, no_plots)
 
 
-def _in_memory(history, column, factor, scale, gate_value, repeat, internal):
+def _in_memory(history, column, factor, scale, gate_value, repeat, internal, sheet=None):
     """Summary of the count of the whole history in memory, and its output writer."""
     from cycj.spectrum.rainflow import rainflow_cycles
     from cycj.spectrum.reading import read_history_with_time
     from cycj.spectrum.write import count_summary, write_count_outputs
 
-    values, times = read_history_with_time(history, column, factor, scale)
+    values, times = read_history_with_time(history, column, factor, scale, sheet=sheet)
     cycles = rainflow_cycles(values, gate_value, repeat)
     result = count_summary(values, cycles, gate_value, repeat, internal)
 

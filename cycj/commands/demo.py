@@ -6,7 +6,7 @@ import click
 
 
 @click.command()
-@click.argument("folder", default="cycj-demo", type=click.Path(file_okay=False))
+@click.argument("folder", default="out/demo", type=click.Path(file_okay=False))
 @click.option("--force", is_flag=True, help="Replace a FOLDER cycj wrote before.")
 def demo(folder, force):
     """Write an invented scenario (a crane lug with a crack, its load history, two lab logs

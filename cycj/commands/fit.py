@@ -20,10 +20,9 @@ from cycj.commands.options import units_option
 @click.option(
     "--out",
     "out_dir",
-    default="fit-out",
-    show_default=True,
+    default=None,
     type=click.Path(file_okay=False),
-    help="Output folder.",
+    help="Output folder (default: out/fit-<stem of the first log>).",
 )
 @click.option(
     "--method",
@@ -61,6 +60,7 @@ from cycj.commands.options import units_option
     type=click.FloatRange(min=0, min_open=True),
     help="ΔJ [kJ/m²] where da/dN and its interval are reported (repeatable; default mid-range).",
 )
+@click.option("--sheet", default=None, help="Worksheet of .xlsx logs, by name (default: first).")
 @click.option("--free-start", is_flag=True, help="Direct a(N) fit: fit each test's start too.")
 @click.option("--force", is_flag=True, help="Replace an output folder cycj wrote before.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
@@ -76,6 +76,7 @@ def fit(
     resamples,
     seed,
     rate_at,
+    sheet,
     free_start,
     force,
     no_plots,
@@ -86,8 +87,9 @@ def fit(
     ``specimen`` column holds many tests in one file)."""
     from cycj.calibrate.fit import fit_logs
     from cycj.calibrate.write import write_outputs
-    from cycj.outputs import OutputDir, dumps
+    from cycj.outputs import OutputDir, default_out, dumps
 
+    out_dir = default_out("fit", logs[0], out_dir)
     spec = specimens[0] if len(specimens) == 1 else list(specimens)
     OutputDir(out_dir, force=force, inputs=[*logs, *specimens])  # refuse early
     result = fit_logs(
@@ -100,6 +102,7 @@ def fit(
         seed=seed,
         dJ_at=list(rate_at) or None,
         free_start=free_start,
+        sheet=sheet,
     )
     from cycj.display import using
 

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import click
 
 from cycj.commands.options import units_option
@@ -28,7 +26,7 @@ from cycj.commands.options import units_option
     "--out",
     "out_dir",
     type=click.Path(file_okay=False),
-    help="Output folder (default: <case name>-jtable beside the case).",
+    help="Output folder (default: out/j-table-<case stem>).",
 )
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
@@ -42,10 +40,10 @@ def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json, units_sy
     from cycj.case import load_case
     from cycj.fe.table import compute
     from cycj.fe.write import answer, write_outputs
-    from cycj.outputs import OutputDir, dumps
+    from cycj.outputs import OutputDir, default_out, dumps
 
     case = load_case(case_file)
-    out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-jtable")
+    out = default_out("j-table", case_file, out_dir)
     od = OutputDir(out, force=force, inputs=[case_file])
 
     def progress(a):

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import click
 
 from cycj.commands.options import units_option
@@ -15,7 +13,7 @@ from cycj.commands.options import units_option
     "--out",
     "out_dir",
     type=click.Path(file_okay=False),
-    help="Output folder (default: <case name>-plan beside the case).",
+    help="Output folder (default: out/plan-<case stem>).",
 )
 @click.option(
     "--scheduler",
@@ -39,12 +37,12 @@ def plan(case_file, out_dir, scheduler, workers, force, as_json, no_plots, units
     Writes plan.json, what_if.csv, schedule.csv, plots and report.html.
     """
     from cycj.case import load_case
-    from cycj.outputs import OutputDir, dumps
+    from cycj.outputs import OutputDir, default_out, dumps
     from cycj.plan.inspections import plan_inspections
     from cycj.plan.write import answer_sentence, write_plan
 
     case = load_case(case_file)
-    out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-plan")
+    out = default_out("plan", case_file, out_dir)
     OutputDir(out, force=force, inputs=[case.path])  # refuse early, before the long run
     result = plan_inspections(case, scheduler=scheduler, workers=workers)
     summary = write_plan(

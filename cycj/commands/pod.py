@@ -13,7 +13,8 @@ import click
     "--out",
     "out_dir",
     type=click.Path(file_okay=False),
-    help="Output folder for pod.json, pod.toml, pod.png and report.html.",
+    help="Output folder for pod.json, pod.toml, pod.png and report.html (e.g. "
+    "out/pod-<data stem>; without --out the fit is printed only).",
 )
 @click.option(
     "--link",

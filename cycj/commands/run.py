@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import sys
 import time
-from pathlib import Path
 
 import click
 
@@ -46,7 +45,7 @@ class _Progress:
     "--out",
     "out_dir",
     type=click.Path(file_okay=False),
-    help="Output folder (default: <case name>-life beside the case).",
+    help="Output folder (default: out/run-<case stem>; several cases: out/run-fleet).",
 )
 @click.option(
     "--method",
@@ -69,19 +68,20 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler, units_
     Writes summary.json, history.csv, plots and report.html to the output folder.
     """
     from cycj.case import load_case
-    from cycj.outputs import dumps
+    from cycj.outputs import default_out, dumps
 
     if len(case_files) > 1 or scheduler:
         from cycj.display import using
         from cycj.life.fleet import run_fleet
 
+        out = default_out("run", None, out_dir)
         with using(units_system or "SI"):
-            table = run_fleet(case_files, out_dir, method=method, force=force, scheduler=scheduler)
+            table = run_fleet(case_files, out, method=method, force=force, scheduler=scheduler)
         click.echo(table.to_string(index=False))
         return
     case_file = case_files[0]
     case = load_case(case_file)
-    out = Path(out_dir) if out_dir else Path(case_file).with_name(Path(case_file).stem + "-life")
+    out = default_out("run", case_file, out_dir)
     progress = _Progress(sys.stderr.isatty() and not as_json)
     from cycj.life.write import run_and_write
 

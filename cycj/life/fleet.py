@@ -14,9 +14,12 @@ def _run_one(case_file: str, out: str, method, force):
     from cycj.life.write import run_and_write
 
     try:
-        s = run_and_write(load_case(case_file), Path(out), method=method, force=force)
+        case = load_case(case_file)
+        s = run_and_write(case, Path(out), method=method, force=force)
         return {
             "case": case_file,
+            "title": case.title,
+            "j_method": case.analysis.j_method,
             "cycles_to_end": s["cycles_to_end"],
             "end_reason": s["end_reason"],
             "a_end_mm": s["a_end_mm"],
@@ -27,6 +30,8 @@ def _run_one(case_file: str, out: str, method, force):
     except (CycjInputError, ValidityRangeError) as exc:
         return {
             "case": case_file,
+            "title": "",
+            "j_method": "",
             "cycles_to_end": float("nan"),
             "end_reason": "",
             "a_end_mm": float("nan"),
@@ -54,7 +59,7 @@ def run_fleet(case_files, out_dir=None, *, method=None, force=False, scheduler=N
             load_case(f)
         except (CycjInputError, ValidityRangeError):
             pass  # reported in the case's row
-    root = Path(out_dir or "fleet-life")
+    root = Path(out_dir or "out/run-fleet")
     with OutputDir(root, force=force, inputs=case_files) as od:
         jobs = [(str(f), str(od.path(Path(f).stem)), method, False) for f in case_files]
         if scheduler:

@@ -89,7 +89,9 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
 
         kind = "force" if ld.quantity == "force" else "stress"
         unit_factor = 1.0 if ld.unit is None else _unit_factor(ld.unit, kind)
-        values = read_history(ld.history, column=ld.column, unit_factor=unit_factor, scale=ld.scale)
+        values = read_history(
+            ld.history, column=ld.column, unit_factor=unit_factor, scale=ld.scale, sheet=ld.sheet
+        )
         samples = int(values.size)
         peaks, valleys = cycles_in_sequence(values, gate=ld.gate, order=order)
         if peaks.size == 0:
@@ -272,7 +274,11 @@ def _channel_values(case, channels):
         else:
             factor = 1.0 if ld.unit is None else unit_factor(ld.unit, "stress")
             scale = ld.scale
-        cols.append(read_history(ld.history, column=ch.column, unit_factor=factor, scale=scale))
+        cols.append(
+            read_history(
+                ld.history, column=ch.column, unit_factor=factor, scale=scale, sheet=ld.sheet
+            )
+        )
     n = min(c.size for c in cols)
     return np.column_stack([c[:n] for c in cols]), n
 

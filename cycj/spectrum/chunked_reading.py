@@ -97,6 +97,12 @@ def iter_history_chunks_with_time(
         parts = _npy_chunks(path, column, time_column, chunk, src)
     elif kind == "parquet":
         parts = _parquet_chunks(path, column, time_column, chunk, src)
+    elif kind == "xlsx":
+        raise CycjInputError(
+            "a spreadsheet is read whole, not in chunks: drop --stream (or save it as CSV)",
+            source=src,
+            key="--stream",
+        )
     else:
         parts = _text_chunks(path, column, time_column, chunk, src)
     n = 0

@@ -1,4 +1,4 @@
-"""Reading measured load histories: CSV/TSV (any delimiter), Parquet and ``.npy``.
+"""Reading measured load histories: CSV/TSV (any delimiter), Parquet, ``.npy`` and .xlsx.
 
 Bad data is reported as :class:`cycj.errors.CycjInputError` naming the file and the line (for
 text files the physical line number, 1-based; for Parquet and ``.npy`` the 1-based row).
@@ -30,7 +30,9 @@ from cycj.spectrum.csv_reading import (  # noqa: F401 - re-exported
 _TEXT_SUFFIXES = {".csv", ".tsv", ".txt", ".dat", ".asc", ""}
 
 
-def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0) -> np.ndarray:
+def read_history(
+    path, column=None, unit_factor: float = 1.0, scale: float = 1.0, sheet=None
+) -> np.ndarray:
     """Read one channel of a load history into a float64 array.
 
     Parameters
@@ -39,7 +41,8 @@ def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0
         A text table (``.csv``, ``.tsv``, ``.txt``, ``.dat``: delimiter sniffed among
         ``, ; tab |`` or whitespace; an optional header row; lines starting with ``#`` are
         comments), a Parquet file (``.parquet``, ``.pq``) or a numpy ``.npy`` array (1-D, 2-D
-        or structured).
+        or structured), or a spreadsheet (``.xlsx``, ``.xlsm``: the first row names the
+        columns; see :mod:`cycj.spectrum.xlsx_reading`).
     column : str or int, optional
         Channel to read: a column name (exact, then case-insensitive) or a 0-based position.
         Default: the only numeric column, else the first numeric column that is not time.
@@ -47,6 +50,8 @@ def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0
         Factor from the file's unit to the internal unit (e.g. 1000 for kN → N).
     scale : float, optional
         Further factor applied to the loads (e.g. to scale a spectrum onto a part).
+    sheet : str, optional
+        Worksheet of a spreadsheet, by name (default: the first sheet).
 
     Returns
     -------
@@ -61,7 +66,7 @@ def read_history(path, column=None, unit_factor: float = 1.0, scale: float = 1.0
         lists the available ones), text in the number column, or NaN/inf, each naming the file
         and the line.
     """
-    return read_history_with_time(path, column, unit_factor, scale)[0]
+    return read_history_with_time(path, column, unit_factor, scale, sheet=sheet)[0]
 
 
 #: largest load magnitude accepted after unit and scale [N or MPa] (beyond it range and mean
@@ -70,7 +75,7 @@ MAX_LOAD = 1e100
 
 
 def read_history_with_time(
-    path, column=None, unit_factor: float = 1.0, scale: float = 1.0, time_column=None
+    path, column=None, unit_factor: float = 1.0, scale: float = 1.0, time_column=None, sheet=None
 ) -> tuple[np.ndarray, np.ndarray | None]:
     """As :func:`read_history`, also returning the time channel if there is one.
 
@@ -88,10 +93,18 @@ def read_history_with_time(
     """
     path, kind = open_history(path, unit_factor, scale)
     src = str(path)
+    if sheet is not None and kind != "xlsx":
+        raise CycjInputError(
+            "a sheet is chosen only in a spreadsheet", source=src, key="sheet", found=sheet
+        )
     if kind == "npy":
         values, times = _read_npy(path, column, time_column)
     elif kind == "parquet":
         values, times = _read_parquet(path, column, time_column)
+    elif kind == "xlsx":
+        from cycj.spectrum.xlsx_reading import read_xlsx_history
+
+        values, times = read_xlsx_history(path, column, time_column, sheet)
     else:
         try:
             values, times = read_text(path, column, time_column)
@@ -109,7 +122,7 @@ def not_utf8(src: str, exc: UnicodeDecodeError) -> CycjInputError:
 
 def open_history(path, unit_factor: float = 1.0, scale: float = 1.0) -> tuple[Path, str]:
     """Check the factors and the file, note it as an input; return the path and its format
-    (``"npy"``, ``"parquet"`` or ``"text"``)."""
+    (``"npy"``, ``"parquet"``, ``"xlsx"`` or ``"text"``)."""
     path = Path(path)
     src = str(path)
     for name, f in (("unit_factor", unit_factor), ("scale", scale)):
@@ -127,10 +140,12 @@ def open_history(path, unit_factor: float = 1.0, scale: float = 1.0) -> tuple[Pa
         return path, "parquet"
     if suffix in _TEXT_SUFFIXES:
         return path, "text"
+    if suffix in (".xlsx", ".xlsm"):
+        return path, "xlsx"
     raise CycjInputError(
         "unknown history format",
         source=src,
-        expected=".csv, .tsv, .txt, .dat, .parquet or .npy",
+        expected=".csv, .tsv, .txt, .dat, .parquet, .npy or .xlsx",
         found=suffix,
     )
 

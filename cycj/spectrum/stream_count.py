@@ -44,6 +44,8 @@ def wants_streaming(path) -> bool:
     """True when the history file is long enough to be counted streaming (more than
     :data:`STREAM_SAMPLES` samples by its header, or larger than :data:`STREAM_BYTES`)."""
     path = Path(path)
+    if path.suffix.lower() in (".xlsx", ".xlsm"):
+        return False  # a spreadsheet is read whole (its cells are zipped XML)
     try:
         size = path.stat().st_size
     except OSError:

@@ -1,7 +1,7 @@
 """Examples as tests: every command line in the README's bash blocks and its Python block run,
 every file in ``examples/`` is used by a command here (or in test_examples.py), and the example
 generators reproduce the bundled data.  Commands run in-process (compiled kernels stay loaded);
-``--out`` folders are moved into a temporary folder."""
+paths under ``out/`` (where the README's commands write) are moved into a temporary folder."""
 
 import importlib.util
 import json
@@ -19,40 +19,63 @@ ROOT = Path(__file__).parents[2]
 EXAMPLES = ROOT / "examples"
 
 
-def readme_commands() -> list[list[str]]:
-    """The ``cycj ...`` parts of the README's fenced bash blocks (install steps skipped)."""
+def readme_blocks(full: bool = False) -> list[list[list[str]]]:
+    """The ``cycj ...`` command lines of each fenced bash block of the README (install steps
+    skipped), as argument lists without the program (``full``: with it)."""
     text = (ROOT / "README.md").read_text(encoding="utf-8")
     out = []
     for block in re.findall(r"```bash\n(.*?)```", text, flags=re.S):
+        cmds = []
         for line in block.replace("\\\n", " ").splitlines():
             for part in line.split("&&"):
                 words = shlex.split(part.strip(), comments=True)
                 if words and Path(words[0]).name == "cycj":
-                    out.append(words[1:])
+                    cmds.append(words if full else words[1:])
+        if cmds:
+            out.append(cmds)
     return out
 
 
+def readme_commands() -> list[list[str]]:
+    return [c for block in readme_blocks() for c in block]
+
+
 def _redirect_out(args, tmp_path):
-    args = list(args)
-    if "--out" in args:
-        i = args.index("--out") + 1
-        args[i] = str(tmp_path / Path(args[i]).name)
-    elif args and args[0] == "demo":
+    """Paths under ``out/`` (and the demo's folder) moved into ``tmp_path``."""
+    args = [str(tmp_path / a[4:]) if a.startswith("out/") else a for a in args]
+    if args and args[0] == "demo":
         args = ["demo", str(tmp_path / "demo"), *[a for a in args[2:] if a.startswith("--")]]
     return args
 
 
 def test_readme_has_commands():
     cmds = readme_commands()
-    assert any(c[0] == "run" for c in cmds) and any(c[0] == "demo" for c in cmds)
+    for name in ("run", "demo", "new", "check", "count", "fit", "plan", "pod"):
+        assert any(c[0] == name for c in cmds), name
+    assert any(c[0] == "run" and len([a for a in c if a.endswith(".toml")]) > 1 for c in cmds)
 
 
-@pytest.mark.parametrize("args", readme_commands(), ids=lambda a: " ".join(a[:2]))
-def test_readme_command_runs(args, tmp_path, capsys, monkeypatch):
+def test_readme_commands_are_runnable_as_written():
+    """After the two set-up commands cycj is .venv/bin/cycj (a bare cycj is not on the path),
+    and every command writes under out/ (or the demo's folder), never beside the inputs."""
+    for block in readme_blocks(full=True):
+        for words in block:
+            assert words[0] == ".venv/bin/cycj", words
+            if words[1] not in ("demo", "check"):
+                assert "--out" in words and words[words.index("--out") + 1].startswith("out/")
+
+
+@pytest.mark.parametrize(
+    "block", range(len(readme_blocks())), ids=lambda i: " | ".join(readme_blocks()[i][0][:2])
+)
+def test_readme_block_runs(block, tmp_path, capsys, monkeypatch):
+    """Each bash block of the README, its commands in order (a later one may read what an
+    earlier one wrote)."""
     monkeypatch.chdir(ROOT)
-    code, out, err = run_cli(_redirect_out(args, tmp_path), capsys)
-    assert code == 0, err
-    assert out.strip()
+    for args in readme_blocks()[block]:
+        code, out, err = run_cli(_redirect_out(args, tmp_path), capsys)
+        assert code == 0, (args, err)
+        assert out.strip()
 
 
 def test_readme_python_block_runs(monkeypatch):
@@ -102,6 +125,9 @@ LIFE_EXAMPLES = (*_BLOCK_EXAMPLES, *(name for name, _ in REACH_EXAMPLES))
 #: data read by the life examples (run with them)
 LIFE_DATA = ("lug_table.csv", "pipe_startstop_channels.csv")
 GENERATORS = ("make_lab_logs.py", "make_pipe_channels.py")
+#: a ΔJ case and its ΔK twin, run as a fleet; the API tour in notebook form
+FLEET = ("examples/lab_compact_tension.toml", "examples/lab_compact_tension_lefm.toml")
+TOUR = "api_tour.py"
 
 
 @pytest.mark.parametrize("name", sorted(EXAMPLE_COMMANDS))
@@ -124,14 +150,40 @@ def test_life_example_through_the_cli(name, tmp_path, capsys, monkeypatch):
 
 
 def test_every_example_file_is_used():
-    used = " ".join(" ".join(c) for c in EXAMPLE_COMMANDS.values())
+    used = " ".join(" ".join(c) for c in [*EXAMPLE_COMMANDS.values(), FLEET])
     for p in EXAMPLES.iterdir():
         assert (
             f"examples/{p.name}" in used
             or p.name in LIFE_EXAMPLES
             or p.name in GENERATORS
             or p.name in LIFE_DATA
+            or p.name == TOUR
         ), f"{p.name} is not run by any test"
+
+
+def test_fleet_puts_the_delta_k_and_delta_j_answers_side_by_side(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(ROOT)
+    code, out, err = run_cli(["run", *FLEET, "--out", tmp_path / "fleet"], capsys)
+    assert code == 0, err
+    table = pd.read_csv(tmp_path / "fleet" / "fleet.csv")
+    assert sorted(table["j_method"]) == ["elastic", "reference-stress"]
+    assert table["error"].isna().all() and (table["cycles_to_end"] > 0).all()
+    assert "elastic" in out
+
+
+def test_api_tour_runs(monkeypatch, capsys):
+    """examples/api_tour.py (notebook form, # %% cells) runs end to end as a script."""
+    import runpy
+
+    monkeypatch.chdir(ROOT)
+    text = (EXAMPLES / TOUR).read_text(encoding="utf-8")
+    assert text.count("# %%") >= 6
+    for name in ("load_case", "predict_life", "count_cycles", "fit_logs", "plan_inspections"):
+        assert f"cycj.{name}(" in text, name
+    assert "cycj.j_table(" in text
+    runpy.run_path(str(EXAMPLES / TOUR), run_name="__main__")
+    out = capsys.readouterr().out
+    assert "ends by" in out and "C = " in out and "deterministic interval" in out
 
 
 def _load(path: Path):
