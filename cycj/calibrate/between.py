@@ -20,7 +20,7 @@ import math
 
 import numpy as np
 
-__all__ = ["between_specimen", "specimen_life"]
+__all__ = ["between_specimen", "specimen_life", "scatter_of_lnc", "direct_rows"]
 
 
 def specimen_life(a_hat, dj, lnc, m):
@@ -50,8 +50,6 @@ def between_specimen(tests, m, confidence=0.95):
     its own crack range and cycles, ``life_ratio``); ``summary`` the ``between_specimen``
     block of fit.json (``sigma_ln_C``, its interval, ``n_specimens``, ``m_fixed``, ``note``).
     """
-    from scipy import stats
-
     rows, lnc = [], []
     for t in tests:
         x, y = np.log(t["dJ"]), np.log(t["dadN"])
@@ -77,6 +75,14 @@ def between_specimen(tests, m, confidence=0.95):
                 "life_ratio": pred / obs if obs > 0 else None,
             }
         )
+    return rows, scatter_of_lnc(lnc, m, confidence)
+
+
+def scatter_of_lnc(lnc, m, confidence=0.95):
+    """The ``between_specimen`` block: σ_ln C, the sample standard deviation of the tests'
+    ln C_i (m fixed at ``m``), with its χ² interval (normal ln C_i); unknown for one test."""
+    from scipy import stats
+
     g = len(lnc)
     out = {"n_specimens": g, "m_fixed": m, "confidence": confidence}
     if g < 2:
@@ -86,7 +92,7 @@ def between_specimen(tests, m, confidence=0.95):
             note="one specimen: the between-specimen scatter is unknown; test more "
             "specimens before planning with scatter in C",
         )
-        return rows, out
+        return out
     s = float(np.std(lnc, ddof=1))
     lo_q, hi_q = stats.chi2.ppf([0.5 + confidence / 2, 0.5 - confidence / 2], g - 1)
     out.update(
@@ -98,4 +104,32 @@ def between_specimen(tests, m, confidence=0.95):
     )
     if g < 5:
         out["note"] += f"; from {g} specimens only: a rough figure"
-    return rows, out
+    return out
+
+
+def direct_rows(fit, iv, series, labels):
+    """Per-specimen rows of a direct a(N) fit (its own ln C_i with the common m; its one-step
+    own exponent ``m_free`` from ``iv``; the cycles its own law takes over its first to last
+    reading against those observed)."""
+    rows = []
+    for s, lnc, m_own, lnc_own, (pred, obs) in zip(
+        series, fit["lnC_per_test"], iv["m_i"], iv["lnC_own"], fit["life_per_test"], strict=True
+    ):
+        rows.append(
+            {
+                "test": s["log"],
+                "specimen": labels.get(s["log"], s["log"]),
+                "C": math.exp(lnc),
+                "m": fit["m"],
+                "m_fixed": True,
+                "C_free": math.exp(lnc_own),
+                "m_free": m_own,
+                "n_readings": int(s["cycle"].size),
+                "a_range_mm": [float(s["a_mm"][0]), float(s["a_mm"][-1])],
+                "dJ_range_kJm2": [float(np.min(s["dj_tab"])), float(np.max(s["dj_tab"]))],
+                "life_predicted": pred,
+                "life_observed": obs,
+                "life_ratio": pred / obs if obs > 0 else None,
+            }
+        )
+    return rows

@@ -17,7 +17,7 @@ CAUTION = (
     "engineer's review."
 )
 #: keys of a fit kept out of fit.json (arrays and working values)
-_PRIVATE = ("residuals", "R_of_points", "x_mean", "sxx", "t", "points")
+_PRIVATE = ("residuals", "R_of_points", "x_mean", "sxx", "t", "points", "_lin", "life_per_test")
 
 
 def _rate_rows(iv):
@@ -81,7 +81,10 @@ def summary(ctx) -> dict:
         "recommended_reason": ctx["reason"],
         "pivot_dJ_kJm2": pivot,
         "rate_at_pivot_mm_per_cycle": math.exp(lnc + m * math.log(pivot)),
-        "rate_at_pivot_interval": reg["rate_at_pivot_interval"] if reg else None,
+        # the regression's own interval; for the direct fit see rate_at (resampled)
+        "rate_at_pivot_interval": reg["rate_at_pivot_interval"]
+        if reg and chosen != "direct"
+        else None,
         "rate_at": _rate_rows(iv) if iv else [],
         "cov_lnC_m": best["cov_lnC_m"],
         "sigma_ln": reg["sigma_ln"] if reg else None,

@@ -464,8 +464,12 @@ def test_cli_on_examples_writes_all_outputs(tmp_path):
     assert f"valid for ΔJ {lo:.3g}–{hi:.3g} kJ/m²" in html
     assert snippet["valid_dJ"] == [f"{lo:.4g} kJ/m^2", f"{hi:.4g} kJ/m^2"]
     assert data["between_specimen"]["n_specimens"] == 2 and len(data["per_specimen"]) == 2
-    # da/dN at mid-range holds the examples' true law (m and C alone carry the reduction's
-    # shared bias of the two logs)
+    # the intervals of m, C and da/dN at mid-range hold the examples' true law
+    # (examples/make_lab_logs.py: 6e-5·ΔJ_eff^1.5); the recommended fit is the direct a(N)
+    # fit, free of the incremental polynomial's bias at readings spaced in cycles
+    assert data["recommended_fit"] == "direct"
+    assert data["m_interval"][0] <= 1.5 <= data["m_interval"][1]
+    assert data["C_interval"][0] <= 6e-5 <= data["C_interval"][1]
     mid = data["rate_at"][0]
     assert mid["interval"][0] <= 6e-5 * mid["dJ_kJm2"] ** 1.5 <= mid["interval"][1]
     r2 = _cli(
