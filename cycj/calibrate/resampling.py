@@ -308,15 +308,18 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         dc_within = None
     else:
         dm = np.zeros(resamples)
-        dcs, lens, own_var = [], [], []
-        for (_, v, f, e), up, hi in zip(blocks, uperp, h, strict=True):
+        dcs, lens, own = [], [], []
+        for (u, v, f, e), up, hi in zip(blocks, uperp, h, strict=True):
             fs = _block_series(f - f.mean(), resamples, rng)
             # the first reading's own error, which a fixed start carries into every residual
             sd = math.sqrt(float(np.sum(f**2)) / max(f.size - 2, 1))
             fs = fs + np.outer(sd * rng.standard_normal(resamples), e)
             lens.append(block_length(f.size))
             dm -= fs @ up
-            own_var.append(float(np.var(fs @ up, ddof=1)) / hi**2)
+            # the test's own two-parameter fit under the same resample: (Δm_i, Δln C_i)
+            dm_own = -(fs @ up) / hi
+            dc_own = -np.linalg.solve(v.T @ v, v.T @ (fs.T + np.outer(u, dm_own)))[0]
+            own.append((dm_own, dc_own))
             dcs.append((fs, v))
         dm /= h.sum()
         dc = np.stack(
@@ -327,7 +330,9 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
             axis=1,
         )
         lb = float(np.mean(lnc_i)) + dc.mean(axis=1)
-        dc_within = np.var(dc, axis=0, ddof=1)
+        # each test's own part, given m (a shift of the common m moves every ln C_i alike
+        # and is no scatter between tests)
+        dc_within = np.var(dc + np.outer(dm, k), axis=0, ddof=1)
         infl, dof, q = 1.0, None, float(stats.norm.ppf(0.5 + confidence / 2))
         method = "moving-block-bootstrap"
         note = (
@@ -349,13 +354,24 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
     lnc = float(np.mean(lnc_i))
     if 2 <= g < CLUSTER_MIN:
         between = max(float(np.var(lnc_i, ddof=1)) - float(dc_within.mean()), 0.0)
+        own_var = [float(np.var(d, ddof=1)) for d, _ in own]
         between_m = max(float(np.var(m_own, ddof=1)) - float(np.mean(own_var)), 0.0)
+        # each test's own law at x_at: the spread between tests less its resampling part
+        lnc_own = lnc_i - k * (np.asarray(m_own) - m)
+        own_rate = lnc_own[:, None] + np.asarray(m_own)[:, None] * x_at[None, :]
+        own_within = np.mean(
+            [np.var(c[:, None] + d[:, None] * x_at[None, :], axis=0, ddof=1) for d, c in own],
+            axis=0,
+        )
+        between_r = np.maximum(np.var(own_rate, axis=0, ddof=1) - own_within, 0.0)
         se_l = math.sqrt(se_l**2 + between / g)
         se_m = math.sqrt(se_m**2 + between_m / g)
-        se_r = np.sqrt(se_r**2 + between / g)
+        # the common-m intercepts scatter alike at every ΔJ; the tests' own lines may spread
+        # more at some ΔJ: the larger of the two
+        se_r = np.sqrt(se_r**2 + np.maximum(between_r, between) / g)
         note += (
-            f"; between-test variance of ln C and of the tests' own m from {g} tests "
-            "(moment estimates, rough) added to the intervals"
+            f"; between-test variances of ln C, of the tests' own m and of their own da/dN "
+            f"from {g} tests (moment estimates, rough) added to the intervals"
         )
     cov = np.cov(np.stack([lb, mb])) * infl**2
     cov[0, 0], cov[1, 1] = se_l**2, se_m**2
