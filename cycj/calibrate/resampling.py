@@ -364,14 +364,18 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
             axis=0,
         )
         between_r = np.maximum(np.var(own_rate, axis=0, ddof=1) - own_within, 0.0)
-        se_l = math.sqrt(se_l**2 + between / g)
+        # a variance from g tests has g − 1 degrees of freedom: its part of the half-width
+        # takes the Student quantile t(g−1) (the resampling part the normal one)
+        tb2 = (float(stats.t.ppf(0.5 + confidence / 2, g - 1)) / q) ** 2
+        se_l = math.sqrt(se_l**2 + tb2 * between / g)
         se_m = math.sqrt(se_m**2 + between_m / g)
         # the common-m intercepts scatter alike at every ΔJ; the tests' own lines may spread
         # more at some ΔJ: the larger of the two
-        se_r = np.sqrt(se_r**2 + np.maximum(between_r, between) / g)
+        se_r = np.sqrt(se_r**2 + tb2 * np.maximum(between_r, between) / g)
         note += (
             f"; between-test variances of ln C, of the tests' own m and of their own da/dN "
-            f"from {g} tests (moment estimates, rough) added to the intervals"
+            f"from {g} tests (moment estimates, rough) added to the intervals, those of ln C "
+            f"and da/dN with the quantile t({g - 1})"
         )
     cov = np.cov(np.stack([lb, mb])) * infl**2
     cov[0, 0], cov[1, 1] = se_l**2, se_m**2
