@@ -497,6 +497,8 @@ def test_cli_on_examples_writes_all_outputs(tmp_path):
     # (examples/make_lab_logs.py: 6e-5·ΔJ_eff^1.5); the recommended fit is the direct a(N)
     # fit, free of the incremental polynomial's bias at readings spaced in cycles
     assert data["recommended_fit"] == "direct"
+    # E647 practice: every reading used, no outlier rejection unless asked
+    assert data["outliers"].startswith("off") and data["skipped"] == []
     assert data["m_interval"][0] <= 1.5 <= data["m_interval"][1]
     assert data["C_interval"][0] <= 6e-5 <= data["C_interval"][1]
     mid = data["rate_at"][0]

@@ -70,6 +70,24 @@ def test_coverage_on_the_virtual_frame(spec, spacing):
     assert cov["life_error"] < 0.05, cov
 
 
+@pytest.mark.parametrize("n_specimens", [1, 3])
+def test_coverage_few_specimens(spec, n_specimens):
+    # fewer than five specimens: moving blocks of each test's residuals of a (Künsch 1989)
+    # with the error of its first reading (a fixed start carries it into every residual);
+    # with 2–4 specimens the between-specimen part of ln C and da/dN takes t(G−1).  Readings
+    # at equal cycles, 40 programmes (bench/bench_fit.py runs 200 single-specimen ones)
+    cov = coverage_study(
+        spec,
+        programmes=40,
+        n_specimens=n_specimens,
+        crack_end=30,
+        resamples=300,
+        spacing="cycles",
+    )
+    assert cov["method"] == "moving-block-bootstrap"
+    assert cov["m"] >= 0.9 and cov["rate_mid"] >= 0.9, cov
+
+
 def test_coverage_check_can_fail(spec):
     # the same check on the regression of seven-point incremental polynomial rates (ASTM
     # E647 X1) with readings at equal cycles: the rates overshoot where growth accelerates
@@ -180,6 +198,40 @@ def test_outlier_option_lists_every_dropped_point(spec_path, tmp_path):
     res = fit_logs(log, spec_path, outlier_limit=3.5, resamples=200)
     assert any("robust σ" in r["reason"] for r in res.skipped)
     assert all(r["reason"] and r["log"] == "bad.csv" for r in res.skipped)
+
+
+def test_direct_fit_unbiased_at_equal_cycles(spec):
+    # noise-free readings at equal cycles (few readings late in the test, where growth
+    # accelerates): integrating the law over each test recovers m and C of the virtual frame
+    # (its own a(N), simulate.py) to 0.2 %, where the seven-point incremental polynomial
+    # (ASTM E647 X1) overshoots; the ΔJ(a) table must not overstate ΔJ between readings
+    from cycj.calibrate import fits as ft
+    from cycj.calibrate import reduction as rd
+    from cycj.calibrate.logs import CrackLog
+
+    prog = simulate_programme(
+        spec,
+        TRUE_C,
+        TRUE_M,
+        n_specimens=2,
+        sigma_ln_C=0.0,
+        readings=40,
+        crack_noise=0.0,
+        spacing="cycles",
+        crack_end=30,
+        seed=1,
+    )
+    series, slopes = [], []
+    for lab, df in prog.crack.groupby("specimen", sort=False):
+        cols = [df[k].to_numpy(float) for k in ("cycle", "crack_length", "load_max", "load_min")]
+        rows, _, _ = rd.reduce_crack_log(CrackLog(str(lab), *cols), spec)
+        series.append(ft.direct_series(rows, str(lab)))
+        p = rd.rates_for_rows(rows, spec)[0]["polynomial"]
+        slopes.append(np.polyfit(np.log(p["dJ_eff_kJm2"]), np.log(p["dadN_mm_per_cycle"]), 1)[0])
+    d = ft.direct_fit(series, TRUE_C, TRUE_M)
+    assert d["m"] == pytest.approx(TRUE_M, abs=0.003)
+    assert d["C"] == pytest.approx(TRUE_C, rel=0.01)
+    assert min(slopes) > TRUE_M + 0.01  # the rates' bias that the direct fit avoids
 
 
 def test_direct_fit_start_fixed_at_first_reading(spec_path, tmp_path):
