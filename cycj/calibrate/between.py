@@ -20,7 +20,13 @@ import math
 
 import numpy as np
 
-__all__ = ["between_specimen", "specimen_life", "scatter_of_lnc", "direct_rows"]
+__all__ = [
+    "between_specimen",
+    "specimen_life",
+    "scatter_of_lnc",
+    "direct_rows",
+    "random_intercept",
+]
 
 
 def specimen_life(a_hat, dj, lnc, m):
@@ -133,3 +139,58 @@ def direct_rows(fit, iv, series, labels):
             }
         )
     return rows
+
+
+def random_intercept(y, se, *, confidence=0.95):
+    """Mixed-effects estimate of a mean across tests: y_i = μ + b_i + e_i with a random
+    intercept b_i ~ N(0, τ²) between tests and a known within-test error e_i ~ N(0, se_i²).
+
+    τ² by restricted maximum likelihood (REML, a bounded one-dimensional search), μ the
+    weighted mean with weights 1/(τ² + se_i²), its interval μ ± t(G−1)·√(1/Σw).
+
+    Parameters
+    ----------
+    y : per-test values (e.g. ln C_i with m fixed, or each test's ln da/dN at one ΔJ)
+    se : their within-test standard errors (e.g. from resampling each test's residuals)
+    confidence : two-sided level
+
+    Returns
+    -------
+    dict: ``mean``, ``se``, ``interval``, ``tau`` (between-test standard deviation),
+    ``n_tests``; None for fewer than two tests.
+
+    References
+    ----------
+    .. [1] Laird & Ware (1982); Harville, D. A., J. Amer. Statist. Assoc. 72 (1977) 320–340
+       (REML); from memory.
+    """
+    from scipy import optimize, stats
+
+    y, v = np.asarray(y, float), np.asarray(se, float) ** 2
+    g = y.size
+    if g < 2:
+        return None
+
+    def nll(log_tau2):
+        w = 1.0 / (math.exp(log_tau2) + v)
+        mu = np.sum(w * y) / np.sum(w)
+        return 0.5 * (np.sum(np.log(1 / w)) + math.log(np.sum(w)) + np.sum(w * (y - mu) ** 2))
+
+    scale = max(float(np.var(y, ddof=1)), float(np.mean(v)), 1e-12)
+    res = optimize.minimize_scalar(
+        nll, bounds=(math.log(scale) - 30, math.log(scale) + 5), method="bounded"
+    )
+    tau2 = math.exp(res.x)
+    if nll(math.log(scale) - 30) <= res.fun:  # the likelihood is flat at τ = 0
+        tau2 = 0.0
+    w = 1.0 / (tau2 + v)
+    mu = float(np.sum(w * y) / np.sum(w))
+    se_mu = math.sqrt(1.0 / float(np.sum(w)))
+    t = float(stats.t.ppf(0.5 + confidence / 2, g - 1))
+    return {
+        "mean": mu,
+        "se": se_mu,
+        "interval": [mu - t * se_mu, mu + t * se_mu],
+        "tau": math.sqrt(tau2),
+        "n_tests": g,
+    }

@@ -91,7 +91,9 @@ def coverage_study(
 ):
     """Share of ``programmes`` simulated programmes whose intervals hold the truth.
 
-    Returns a dict: ``m``, ``rate_mid``, ``sigma_ln_C`` (coverage shares), ``life_error``
+    Returns a dict: ``m``, ``rate_mid``, ``sigma_ln_C``, ``mixed_m``, ``mixed_rate_mid``
+    (coverage shares; ``mixed_``: the mixed-effects estimate beside the resampling of the
+    direct fit), ``life_error``
     (median |predicted/observed − 1| of the per-specimen lives), ``programmes``, the
     settings, ``method`` (the resampling used), ``estimate`` and ``spacing``.
     """
@@ -105,7 +107,7 @@ def coverage_study(
         kw.get("r_ratio", 0.1),
         kw.get("crack_end"),
     )
-    hit = {"m": 0, "rate_mid": 0, "sigma_ln_C": 0}
+    hit = {"m": 0, "rate_mid": 0, "sigma_ln_C": 0, "mixed_m": 0, "mixed_rate_mid": 0}
     life_err, method = [], None
     for k in range(programmes):
         prog = simulate_programme(
@@ -130,6 +132,11 @@ def coverage_study(
         true_rate = math.log(c_true) + m * math.log(res["dJ_mid"])
         rlo, rhi = iv["ln_rate_interval"][0][0], iv["ln_rate_interval"][1][0]
         hit["rate_mid"] += rlo <= true_rate <= rhi
+        mx = iv.get("mixed_effects")
+        if mx:
+            hit["mixed_m"] += mx["m_interval"][0] <= m <= mx["m_interval"][1]
+            lo_r, hi_r = (v[0] for v in mx["ln_rate_interval"])
+            hit["mixed_rate_mid"] += lo_r <= true_rate <= hi_r
         if b["sigma_ln_C_interval"] is not None:
             slo, shi = b["sigma_ln_C_interval"]
             hit["sigma_ln_C"] += slo <= sigma_ln_C <= shi

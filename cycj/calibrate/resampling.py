@@ -307,32 +307,16 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         )
         dc_within = None
     else:
-        dm = np.zeros(resamples)
-        dcs, lens, own = [], [], []
-        for (u, v, f, e), up, hi in zip(blocks, uperp, h, strict=True):
-            fs = _block_series(f - f.mean(), resamples, rng)
-            # the first reading's own error, which a fixed start carries into every residual
-            sd = math.sqrt(float(np.sum(f**2)) / max(f.size - 2, 1))
-            fs = fs + np.outer(sd * rng.standard_normal(resamples), e)
-            lens.append(block_length(f.size))
-            dm -= fs @ up
-            # the test's own two-parameter fit under the same resample: (Δm_i, Δln C_i)
-            dm_own = -(fs @ up) / hi
-            dc_own = -np.linalg.solve(v.T @ v, v.T @ (fs.T + np.outer(u, dm_own)))[0]
-            own.append((dm_own, dc_own))
-            dcs.append((fs, v))
-        dm /= h.sum()
-        dc = np.stack(
-            [
-                -np.linalg.solve(v.T @ v, v.T @ (fs.T + np.outer(b[0], dm)))[0]
-                for (fs, v), b in zip(dcs, blocks, strict=True)
-            ],
-            axis=1,
-        )
+        sc, own_c, lens = _residual_draws(blocks, uperp, resamples, rng)
+        dm = -sc.sum(axis=1) / h.sum()
+        dc = own_c - np.outer(dm, k)
         lb = float(np.mean(lnc_i)) + dc.mean(axis=1)
         # each test's own part, given m (a shift of the common m moves every ln C_i alike
         # and is no scatter between tests)
-        dc_within = np.var(dc + np.outer(dm, k), axis=0, ddof=1)
+        dc_within = np.var(own_c, axis=0, ddof=1)
+        # the tests' own two-parameter fits under the same resamples: (Δm_i, Δln C_i)
+        dm_own = -sc / h
+        own = list(zip(dm_own.T, (own_c - dm_own * k).T, strict=True))
         infl, dof, q = 1.0, None, float(stats.norm.ppf(0.5 + confidence / 2))
         method = "moving-block-bootstrap"
         note = (
@@ -379,6 +363,11 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         )
     cov = np.cov(np.stack([lb, mb])) * infl**2
     cov[0, 0], cov[1, 1] = se_l**2, se_m**2
+    mixed = None
+    if g >= 2:
+        if g >= CLUSTER_MIN:  # the within-test resampling, for the mixed-effects estimate
+            sc, own_c, _ = _residual_draws(blocks, uperp, resamples, rng)
+        mixed = _mixed_effects(lnc_i, np.std(own_c, axis=0, ddof=1), k, m, sc, h, x_at, confidence)
     rate = lnc + m * x_at
     return {
         "m": m,
@@ -402,7 +391,54 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         "resamples": int(resamples),
         "block_length": lens,
         "confidence": confidence,
+        "mixed_effects": mixed,
     }
+
+
+def _mixed_effects(lnc_i, se_i, k, m, sc, h, x_at, confidence):
+    """Mixed-effects estimate beside the resampling: random intercept in ln C (REML,
+    :func:`cycj.calibrate.between.random_intercept`) over the tests' ln C_i given the common
+    m with their within-test errors ``se_i``; m with its within-test resampling error (the
+    draws ``sc`` of each test's score, curvatures ``h``); da/dN at ``x_at`` adds the common
+    m's error times its lever (x − mean k) and takes t(G−1)."""
+    from scipy import stats
+
+    from cycj.calibrate.between import random_intercept
+
+    g = len(lnc_i)
+    ri = random_intercept(lnc_i, se_i, confidence=confidence)
+    se_m = float(np.std(-sc.sum(axis=1) / h.sum(), ddof=1))
+    z = float(stats.norm.ppf(0.5 + confidence / 2))
+    t = float(stats.t.ppf(0.5 + confidence / 2, g - 1))
+    rate = ri["mean"] + m * x_at
+    se_r = np.sqrt(ri["se"] ** 2 + (se_m * (x_at - float(np.mean(k)))) ** 2)
+    return {
+        "model": "random intercept in ln C between tests (REML), common m",
+        "C": math.exp(ri["mean"]),
+        "C_interval": [math.exp(v) for v in ri["interval"]],
+        "sigma_ln_C": ri["tau"],
+        "m": m,
+        "m_interval": [m - z * se_m, m + z * se_m],
+        "ln_rate_at": rate.tolist(),
+        "ln_rate_interval": [(rate - t * se_r).tolist(), (rate + t * se_r).tolist()],
+        "n_tests": g,
+    }
+
+
+def _residual_draws(blocks, uperp, draws, rng):
+    """Moving-block resamples of each test's residuals of a (with a normal draw of its first
+    reading's error, which a fixed start carries into every residual), pushed through the
+    linear map of the fit: per test the score u⊥ᵀf* (draws, G) and the shift of its own
+    ln C_i given m (draws, G), and the block lengths."""
+    sc, own_c, lens = [], [], []
+    for (_, v, f, e), up in zip(blocks, uperp, strict=True):
+        fs = _block_series(f - f.mean(), draws, rng)
+        sd = math.sqrt(float(np.sum(f**2)) / max(f.size - 2, 1))
+        fs = fs + np.outer(sd * rng.standard_normal(draws), e)
+        lens.append(block_length(f.size))
+        sc.append(fs @ up)
+        own_c.append(-np.linalg.solve(v.T @ v, v.T @ fs.T)[0])
+    return np.stack(sc, axis=1), np.stack(own_c, axis=1), lens
 
 
 def _block_series(f, draws, rng):

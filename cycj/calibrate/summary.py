@@ -32,6 +32,23 @@ def _rate_rows(iv):
     ]
 
 
+def _mixed_rows(iv):
+    """The mixed-effects estimate beside the resampling (direct fit, two tests or more)."""
+    mx = (iv or {}).get("mixed_effects")
+    if not mx:
+        return None
+    out = {k: v for k, v in mx.items() if not k.startswith("ln_rate")}
+    out["rate_at"] = _rate_rows(
+        {**mx, "lnC": math.log(mx["C"]), "ln_rate_interval": mx["ln_rate_interval"]}
+    )
+    out["note"] = (
+        "a cross-check of the recommended intervals: ln C_i of the tests (m fixed) with "
+        "their within-test errors, a random intercept between tests by REML; m's interval "
+        "is within-test only (a common m)"
+    )
+    return out
+
+
 def summary(ctx) -> dict:
     """fit.json as a dict from the orchestrator's working values ``ctx`` (a dict)."""
     from cycj.calibrate.fits import r_ratio_collapse
@@ -93,6 +110,7 @@ def summary(ctx) -> dict:
         "for planning (use between_specimen.sigma_ln_C)",
         "sigma_ln_within": iv["sigma_ln_within"] if iv else None,
         "between_specimen": between,
+        "mixed_effects": _mixed_rows(iv),
         "per_specimen": ctx["per_specimen"],
         "dJ_range_kJm2": valid,
         "dJ_range_note": "ΔJ range of the data behind the recommended fit (its validity)",

@@ -312,3 +312,23 @@ def test_long_format_raw_loops(tmp_path):
     assert s["basis"] == "effective" and s["n_tests"] == 2
     assert [r["test"] for r in s["per_specimen"]] == ["raw.csv:R0", "raw.csv:R1"]
     assert s["m"] == pytest.approx(TRUE_M, abs=0.1)
+
+
+def test_random_intercept_balanced_closed_form():
+    # balanced one-way random effects (equal within-test errors): the REML estimate of τ²
+    # equals the ANOVA moment estimate s² − se² when positive, μ is the plain mean and
+    # se(μ) = √((τ² + se²)/G) (Searle, Casella & McCulloch, *Variance Components* (1992)
+    # ch. 3–4, from memory).  y = 0, 1, 2, 3 with se = 0.5: s² = 5/3, τ² = 5/3 − 1/4
+    from cycj.calibrate.between import random_intercept
+
+    r = random_intercept([0.0, 1.0, 2.0, 3.0], [0.5] * 4)
+    assert r["tau"] ** 2 == pytest.approx(5 / 3 - 0.25, rel=1e-4)
+    assert r["mean"] == pytest.approx(1.5)
+    assert r["se"] == pytest.approx(math.sqrt((5 / 3) / 4), rel=1e-4)
+    # t(3) = 3.182446 (two-sided 95 %)
+    assert r["interval"][1] - r["mean"] == pytest.approx(3.182446 * r["se"], rel=1e-5)
+    # within-test errors larger than the spread: τ = 0, inverse-variance mean
+    r0 = random_intercept([0.0, 0.1], [1.0, 2.0])
+    assert r0["tau"] == 0.0
+    assert r0["mean"] == pytest.approx((0.0 / 1 + 0.1 / 4) / (1 + 1 / 4))
+    assert random_intercept([1.0], [0.1]) is None
