@@ -169,6 +169,12 @@ def coverage(programmes=200, n_specimens=8, spacing="crack", estimate="direct"):
         f"da/dN at mid-range "
         f"{100 * cov['rate_mid']:.1f} %, sigma_ln_C "
         + (f"{100 * cov['sigma_ln_C']:.1f} %; " if n_specimens > 1 else "n/a; ")
+        + (
+            f"mixed-effects estimate: m {100 * cov['mixed_m']:.1f} %, da/dN at mid-range "
+            f"{100 * cov['mixed_rate_mid']:.1f} %; "
+            if n_specimens > 1 and estimate == "direct"
+            else ""
+        )
         + f"median |life error| per specimen {100 * cov['life_error']:.2f} % "
         f"({time.perf_counter() - t0:.0f} s)"
     )
