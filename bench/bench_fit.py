@@ -9,11 +9,13 @@
    per-specimen fits, direct a(N) fit).
 3. The coverage study on the virtual test frame: 200 programmes of 8 specimens (known C, m,
    noise on a, σ_ln C = 0.15 between specimens, fixed seed): the share of nominal 95 %
-   intervals of m, da/dN at mid-range and σ_ln C that hold the truth (the tests run 100);
-   then 200 single-specimen programmes (moving-block bootstrap; the truth of da/dN is the
-   specimen's own C).
+   intervals of m, da/dN at mid-range and σ_ln C that hold the truth (the tests run fewer),
+   for the recommended direct a(N) fit with readings at equal crack extension and at equal
+   cycles (as the example logs), the incremental polynomial regression at equal cycles (its
+   bias where growth accelerates), then 200 single-specimen programmes (moving-block
+   bootstrap; the truth of da/dN is the specimen's own C).
 
-    python bench/bench_fit.py [n_loops] [samples]
+    python bench/bench_fit.py [n_loops] [samples] [all|coverage]
 """
 
 from __future__ import annotations
@@ -142,7 +144,7 @@ def programme(n_specimens=100, readings=200, resamples=1000):
     )
 
 
-def coverage(programmes=200, n_specimens=8):
+def coverage(programmes=200, n_specimens=8, spacing="crack", estimate="direct"):
     """The full coverage study (the tests run a smaller count)."""
     from cycj.calibrate.coverage import coverage_study
     from cycj.calibrate.specimen import read_specimen
@@ -152,12 +154,27 @@ def coverage(programmes=200, n_specimens=8):
         p.write_text(SPECIMEN.replace("cyclic_curve", "# cyclic_curve"))
         spec = read_specimen(p)
     t0 = time.perf_counter()
-    cov = coverage_study(spec, programmes=programmes, n_specimens=n_specimens, crack_end=30)
+    cov = coverage_study(
+        spec,
+        programmes=programmes,
+        n_specimens=n_specimens,
+        crack_end=30,
+        spacing=spacing,
+        estimate=estimate,
+    )
     print(
-        f"coverage over {cov['programmes']} programmes of {cov['n_specimens']} specimens "
-        f"({cov['method']}, nominal 95 %): m {100 * cov['m']:.1f} %, da/dN at mid-range "
+        f"coverage over {cov['programmes']} programmes of {cov['n_specimens']} specimens, "
+        f"readings at equal {'crack extension' if spacing == 'crack' else 'cycles'}, "
+        f"{estimate} fit ({cov['method']}, nominal 95 %): m {100 * cov['m']:.1f} %, "
+        f"da/dN at mid-range "
         f"{100 * cov['rate_mid']:.1f} %, sigma_ln_C "
         + (f"{100 * cov['sigma_ln_C']:.1f} %; " if n_specimens > 1 else "n/a; ")
+        + (
+            f"mixed-effects estimate: m {100 * cov['mixed_m']:.1f} %, da/dN at mid-range "
+            f"{100 * cov['mixed_rate_mid']:.1f} %; "
+            if n_specimens > 1 and estimate == "direct"
+            else ""
+        )
         + f"median |life error| per specimen {100 * cov['life_error']:.2f} % "
         f"({time.perf_counter() - t0:.0f} s)"
     )
@@ -165,7 +182,13 @@ def coverage(programmes=200, n_specimens=8):
 
 if __name__ == "__main__":
     args = [int(a) for a in sys.argv[1:3]]
-    main(*args)
-    programme()
-    coverage()
-    coverage(n_specimens=1)  # one specimen: moving-block bootstrap, its own constants
+    if len(sys.argv) <= 3 or sys.argv[3] == "all":
+        main(*args)
+        programme()
+    which = sys.argv[3] if len(sys.argv) > 3 else "all"
+    if which in ("all", "coverage"):
+        coverage()
+        coverage(spacing="cycles")  # readings at equal cycles, as the example logs
+        coverage(spacing="cycles", estimate="polynomial")  # the rate regression's bias
+        coverage(n_specimens=1)  # one specimen: moving-block bootstrap, its own constants
+        coverage(n_specimens=1, spacing="cycles")

@@ -37,6 +37,8 @@ tensile_strength = "590 MPa"
 cyclic_curve = { strength_coefficient = "760 MPa", hardening_exponent = 0.14 }
 displacement_at = "front-face"
 log_units = { load = "kN", displacement = "mm", crack_length = "mm" }
+# the virtual lab's crack opens abruptly: compliance-offset segments at their lower ends
+opening_segment_point = "lower-end"
 """
 
 CASE = """\

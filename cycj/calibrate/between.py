@@ -20,7 +20,13 @@ import math
 
 import numpy as np
 
-__all__ = ["between_specimen", "specimen_life"]
+__all__ = [
+    "between_specimen",
+    "specimen_life",
+    "scatter_of_lnc",
+    "direct_rows",
+    "random_intercept",
+]
 
 
 def specimen_life(a_hat, dj, lnc, m):
@@ -50,8 +56,6 @@ def between_specimen(tests, m, confidence=0.95):
     its own crack range and cycles, ``life_ratio``); ``summary`` the ``between_specimen``
     block of fit.json (``sigma_ln_C``, its interval, ``n_specimens``, ``m_fixed``, ``note``).
     """
-    from scipy import stats
-
     rows, lnc = [], []
     for t in tests:
         x, y = np.log(t["dJ"]), np.log(t["dadN"])
@@ -77,6 +81,14 @@ def between_specimen(tests, m, confidence=0.95):
                 "life_ratio": pred / obs if obs > 0 else None,
             }
         )
+    return rows, scatter_of_lnc(lnc, m, confidence)
+
+
+def scatter_of_lnc(lnc, m, confidence=0.95):
+    """The ``between_specimen`` block: σ_ln C, the sample standard deviation of the tests'
+    ln C_i (m fixed at ``m``), with its χ² interval (normal ln C_i); unknown for one test."""
+    from scipy import stats
+
     g = len(lnc)
     out = {"n_specimens": g, "m_fixed": m, "confidence": confidence}
     if g < 2:
@@ -86,7 +98,7 @@ def between_specimen(tests, m, confidence=0.95):
             note="one specimen: the between-specimen scatter is unknown; test more "
             "specimens before planning with scatter in C",
         )
-        return rows, out
+        return out
     s = float(np.std(lnc, ddof=1))
     lo_q, hi_q = stats.chi2.ppf([0.5 + confidence / 2, 0.5 - confidence / 2], g - 1)
     out.update(
@@ -98,4 +110,87 @@ def between_specimen(tests, m, confidence=0.95):
     )
     if g < 5:
         out["note"] += f"; from {g} specimens only: a rough figure"
-    return rows, out
+    return out
+
+
+def direct_rows(fit, iv, series, labels):
+    """Per-specimen rows of a direct a(N) fit (its own ln C_i with the common m; its one-step
+    own exponent ``m_free`` from ``iv``; the cycles its own law takes over its first to last
+    reading against those observed)."""
+    rows = []
+    for s, lnc, m_own, lnc_own, (pred, obs) in zip(
+        series, fit["lnC_per_test"], iv["m_i"], iv["lnC_own"], fit["life_per_test"], strict=True
+    ):
+        rows.append(
+            {
+                "test": s["log"],
+                "specimen": labels.get(s["log"], s["log"]),
+                "C": math.exp(lnc),
+                "m": fit["m"],
+                "m_fixed": True,
+                "C_free": math.exp(lnc_own),
+                "m_free": m_own,
+                "n_readings": int(s["cycle"].size),
+                "a_range_mm": [float(s["a_mm"][0]), float(s["a_mm"][-1])],
+                "dJ_range_kJm2": [float(np.min(s["dj_tab"])), float(np.max(s["dj_tab"]))],
+                "life_predicted": pred,
+                "life_observed": obs,
+                "life_ratio": pred / obs if obs > 0 else None,
+            }
+        )
+    return rows
+
+
+def random_intercept(y, se, *, confidence=0.95):
+    """Mixed-effects estimate of a mean across tests: y_i = μ + b_i + e_i with a random
+    intercept b_i ~ N(0, τ²) between tests and a known within-test error e_i ~ N(0, se_i²).
+
+    τ² by restricted maximum likelihood (REML, a bounded one-dimensional search), μ the
+    weighted mean with weights 1/(τ² + se_i²), its interval μ ± t(G−1)·√(1/Σw).
+
+    Parameters
+    ----------
+    y : per-test values (e.g. ln C_i with m fixed, or each test's ln da/dN at one ΔJ)
+    se : their within-test standard errors (e.g. from resampling each test's residuals)
+    confidence : two-sided level
+
+    Returns
+    -------
+    dict: ``mean``, ``se``, ``interval``, ``tau`` (between-test standard deviation),
+    ``n_tests``; None for fewer than two tests.
+
+    References
+    ----------
+    .. [1] Laird & Ware (1982); Harville, D. A., J. Amer. Statist. Assoc. 72 (1977) 320–340
+       (REML); from memory.
+    """
+    from scipy import optimize, stats
+
+    y, v = np.asarray(y, float), np.asarray(se, float) ** 2
+    g = y.size
+    if g < 2:
+        return None
+
+    def nll(log_tau2):
+        w = 1.0 / (math.exp(log_tau2) + v)
+        mu = np.sum(w * y) / np.sum(w)
+        return 0.5 * (np.sum(np.log(1 / w)) + math.log(np.sum(w)) + np.sum(w * (y - mu) ** 2))
+
+    scale = max(float(np.var(y, ddof=1)), float(np.mean(v)), 1e-12)
+    res = optimize.minimize_scalar(
+        nll, bounds=(math.log(scale) - 30, math.log(scale) + 5), method="bounded"
+    )
+    tau2 = math.exp(res.x)
+    if nll(math.log(scale) - 30) <= res.fun:  # the likelihood is flat at τ = 0
+        tau2 = 0.0
+    w = 1.0 / (tau2 + v)
+    mu = float(np.sum(w * y) / np.sum(w))
+    se_mu = math.sqrt(1.0 / float(np.sum(w)))
+    t = float(stats.t.ppf(0.5 + confidence / 2, g - 1))
+    return {
+        "mean": mu,
+        "se": se_mu,
+        "interval": [mu - t * se_mu, mu + t * se_mu],
+        "tau": math.sqrt(tau2),
+        "n_tests": g,
+    }

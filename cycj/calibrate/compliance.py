@@ -164,3 +164,37 @@ def crack_from_table(compliance, a_grid, c_grid):
     c = np.asarray(compliance, float)
     out = np.interp(c, c_grid, a_grid, left=np.nan, right=np.nan)
     return out
+
+
+#: X/W of each C(T) measuring point from the load line (negative: behind it, away from the
+#: crack)
+CT_POINT_X_OVER_W = {"front-face": -0.25, "load-line": 0.0}
+#: plastic rotational factor of a C(T) specimen: the arms turn as rigid bodies about a point
+#: r_p·(W − a) ahead of the crack tip (BS 7448-1 / ISO 12135 C(T) CTOD expression, from memory)
+CT_PLASTIC_ROTATION = 0.46
+
+
+def ct_plastic_displacement_ratio(alpha, location="front-face"):
+    """Plastic load-line displacement per unit plastic displacement at ``location`` of a C(T)
+    specimen, for a/W = ``alpha`` (dimensionless).
+
+    The plastic part of the displacement comes from the arms turning about a hinge
+    r_p·(W − a) ahead of the crack tip, so it scales with the distance from the hinge:
+    V_pl,LL / V_pl,X = (a/W + r_p·(1 − a/W)) / (a/W + r_p·(1 − a/W) − X/W), r_p = 0.46.
+    The elastic ratio (the E647 compliances) differs: at a/W = 0.5 it is 0.675 against 0.745
+    for the plastic one, so scaling a front-face plastic area by the elastic ratio reads ΔJ_pl
+    about 9 % low.  Valid for deep cracks, 0.45 ≤ a/W ≤ 0.7 per the CTOD expression (used
+    from 0.2 here with that caution).
+
+    References
+    ----------
+    .. [1] BS 7448-1:1991 and ISO 12135:2002, C(T) CTOD: δ_pl = r_p·(W − a)·V_p /
+       (r_p·(W − a) + a + z) with r_p = 0.46 (from memory, docs/references.md R35).
+    """
+    if location not in CT_POINT_X_OVER_W:
+        raise ValueError(
+            f"unknown measuring point {location!r}; expected one of " + ", ".join(CT_POINT_X_OVER_W)
+        )
+    alpha = np.asarray(alpha, float)
+    hinge = alpha + CT_PLASTIC_ROTATION * (1.0 - alpha)
+    return hinge / (hinge - CT_POINT_X_OVER_W[location])

@@ -2,9 +2,11 @@
 
 Simulates replicate programmes with known C, m and between-specimen scatter
 (:func:`cycj.calibrate.simulate.simulate_programme`), reduces each test as ``cycj fit`` does
-(crack-length logs: :func:`~cycj.calibrate.reduction.reduce_crack_log`, every reading,
-seven-point incremental polynomial rates) and counts how often the nominal intervals of m,
-of da/dN at mid-range and of σ_ln C contain the truth.  Used by the tests (a smaller count)
+(crack-length logs: :func:`~cycj.calibrate.reduction.reduce_crack_log`, every reading; the
+direct a(N) fit with its resampling intervals, or the regression on seven-point incremental
+polynomial rates) and counts how often the nominal intervals of m, of da/dN at mid-range and
+of σ_ln C contain the truth, with readings at equal crack extension or at equal cycles
+(``spacing``).  Used by the tests (a smaller count)
 and by ``bench/bench_fit.py`` (the full count).
 """
 
@@ -17,19 +19,22 @@ import numpy as np
 __all__ = ["programme_fit", "coverage_study"]
 
 
-def programme_fit(prog, specimen, *, confidence=0.95, resamples=1000, seed=0):
-    """Reduce and fit one :class:`~cycj.calibrate.simulate.SimulatedProgramme`.
+def programme_fit(prog, specimen, *, confidence=0.95, resamples=1000, seed=0, estimate="direct"):
+    """Reduce and fit one :class:`~cycj.calibrate.simulate.SimulatedProgramme` as ``cycj fit``
+    does: the direct a(N) fit with its resampling intervals (``estimate="direct"``, the
+    recommended fit) or the regression on incremental polynomial rates (``"polynomial"``,
+    the cross-check).
 
-    Returns a dict: ``intervals`` (:func:`~cycj.calibrate.resampling.resampled_intervals`
-    at the geometric middle ``dJ_mid`` of the data), ``per_specimen`` and ``between`` (from
-    :func:`~cycj.calibrate.between.between_specimen`), ``dJ_mid``.
+    Returns a dict: ``intervals`` (at the geometric middle ``dJ_mid`` of the data),
+    ``per_specimen`` and ``between``, ``dJ_mid``.
     """
+    from cycj.calibrate import fits as ft
     from cycj.calibrate import reduction as rd
-    from cycj.calibrate.between import between_specimen
+    from cycj.calibrate.between import between_specimen, direct_rows, scatter_of_lnc
     from cycj.calibrate.logs import CrackLog
-    from cycj.calibrate.resampling import resampled_intervals
+    from cycj.calibrate.resampling import direct_intervals, resampled_intervals
 
-    tests = []
+    tests, series = [], []
     for lab, df in prog.crack.groupby("specimen", sort=False):
         log = CrackLog(
             str(lab),
@@ -39,6 +44,7 @@ def programme_fit(prog, specimen, *, confidence=0.95, resamples=1000, seed=0):
             df["load_min"].to_numpy(float),
         )
         rows, _, _ = rd.reduce_crack_log(log, specimen)
+        series.append(ft.direct_series(rows, str(lab)))
         rates, _ = rd.rates_for_rows(rows, specimen)
         p = rates["polynomial"]
         ok = (p["dadN_mm_per_cycle"] > 0) & (p["dJ_eff_kJm2"] > 0)
@@ -54,12 +60,17 @@ def programme_fit(prog, specimen, *, confidence=0.95, resamples=1000, seed=0):
         )
     x = [np.log(t["dJ"]) for t in tests]
     y = [np.log(t["dadN"]) for t in tests]
-    xs = np.concatenate(x)
+    xs = np.log(np.concatenate([s["dj_tab"] for s in series]))
     mid = 0.5 * (xs.min() + xs.max())
-    iv = resampled_intervals(
-        x, y, x_at=[mid], confidence=confidence, resamples=resamples, seed=seed
-    )
-    rows, between = between_specimen(tests, iv["m"], confidence)
+    kw = dict(x_at=[mid], confidence=confidence, resamples=resamples, seed=seed)
+    iv = resampled_intervals(x, y, **kw)
+    if estimate == "polynomial":
+        rows, between = between_specimen(tests, iv["m"], confidence)
+    else:
+        fit = ft.direct_fit(series, math.exp(iv["lnC"]), iv["m"], confidence)
+        iv = direct_intervals(fit, **kw)
+        rows = direct_rows(fit, iv, series, {})
+        between = scatter_of_lnc(fit["lnC_per_test"], fit["m"], confidence)
     return {"intervals": iv, "per_specimen": rows, "between": between, "dJ_mid": math.exp(mid)}
 
 
@@ -75,13 +86,16 @@ def coverage_study(
     crack_noise=0.02,
     resamples=1000,
     seed=2026,
+    estimate="direct",
     **kw,
 ):
     """Share of ``programmes`` simulated programmes whose intervals hold the truth.
 
-    Returns a dict: ``m``, ``rate_mid``, ``sigma_ln_C`` (coverage shares), ``life_error``
+    Returns a dict: ``m``, ``rate_mid``, ``sigma_ln_C``, ``mixed_m``, ``mixed_rate_mid``
+    (coverage shares; ``mixed_``: the mixed-effects estimate beside the resampling of the
+    direct fit), ``life_error``
     (median |predicted/observed − 1| of the per-specimen lives), ``programmes``, the
-    settings, and ``method`` (the resampling used).
+    settings, ``method`` (the resampling used), ``estimate`` and ``spacing``.
     """
     from cycj.calibrate.simulate import PROGRAMME_LOADS, programme_paths, simulate_programme
 
@@ -93,7 +107,7 @@ def coverage_study(
         kw.get("r_ratio", 0.1),
         kw.get("crack_end"),
     )
-    hit = {"m": 0, "rate_mid": 0, "sigma_ln_C": 0}
+    hit = {"m": 0, "rate_mid": 0, "sigma_ln_C": 0, "mixed_m": 0, "mixed_rate_mid": 0}
     life_err, method = [], None
     for k in range(programmes):
         prog = simulate_programme(
@@ -108,7 +122,7 @@ def coverage_study(
             paths=paths,
             **kw,
         )
-        res = programme_fit(prog, specimen, resamples=resamples, seed=seed + k)
+        res = programme_fit(prog, specimen, resamples=resamples, seed=seed + k, estimate=estimate)
         iv, b = res["intervals"], res["between"]
         method = iv["method"]
         lo, hi = iv["m_interval"]
@@ -118,6 +132,11 @@ def coverage_study(
         true_rate = math.log(c_true) + m * math.log(res["dJ_mid"])
         rlo, rhi = iv["ln_rate_interval"][0][0], iv["ln_rate_interval"][1][0]
         hit["rate_mid"] += rlo <= true_rate <= rhi
+        mx = iv.get("mixed_effects")
+        if mx:
+            hit["mixed_m"] += mx["m_interval"][0] <= m <= mx["m_interval"][1]
+            lo_r, hi_r = (v[0] for v in mx["ln_rate_interval"])
+            hit["mixed_rate_mid"] += lo_r <= true_rate <= hi_r
         if b["sigma_ln_C_interval"] is not None:
             slo, shi = b["sigma_ln_C_interval"]
             hit["sigma_ln_C"] += slo <= sigma_ln_C <= shi
@@ -130,4 +149,6 @@ def coverage_study(
         "readings": readings,
         "sigma_ln_C_true": sigma_ln_C,
         "method": method,
+        "estimate": estimate,
+        "spacing": kw.get("spacing", "crack"),
     }

@@ -165,7 +165,7 @@ def fit_logs(
                 rate_frames.append(rf)
         frames.append(frame)
         gradients[log.name] = ft.k_gradient(rows["a_mm"], rows["dJ_eff_kJm2"])
-        series.append(_series(rows, log.name))
+        series.append(ft.direct_series(rows, log.name))
     if not frames:
         raise CycjInputError("no log has enough usable readings to fit", source=str(log_paths[0]))
     if len(kinds) > 1:
@@ -210,7 +210,7 @@ def fit_logs(
         curves = []
     chosen, reason = _choose(method, fits)
     best, iv, per_spec, between = scatter_and_intervals(
-        fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings
+        fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings, series
     )
     summary = make_summary(
         {
@@ -283,17 +283,6 @@ def _ligament(rows, spec, warnings, name):
     return rows
 
 
-def _series(rows, name):
-    """Readings and a smoothed ΔJ_eff(a) table (means of ~30 groups) for the direct fit."""
-    order = np.argsort(rows["cycle"])
-    n, a, dj = (rows[k][order] for k in ("cycle", "a_mm", "dJ_eff_kJm2"))
-    groups = np.array_split(np.arange(n.size), min(30, max(n.size // 3, 2)))
-    at = np.maximum.accumulate(np.array([a[g].mean() for g in groups]))
-    jt = np.array([dj[g].mean() for g in groups])
-    keep = np.concatenate([[True], np.diff(at) > 1e-9])
-    return {"log": name, "cycle": n, "a_mm": a, "a_tab": at[keep], "dj_tab": jt[keep]}
-
-
 def _regression(sub, meth, outlier_limit, confidence, skipped):
     from cycj.calibrate import fits as ft
 
@@ -359,17 +348,20 @@ def _choose(method, fits):
                 expected=", ".join(fits) or "more data",
             )
         return method, f"requested with --method {method}"
-    if "polynomial" in fits and fits["polynomial"]["n"] >= 10:
-        return "polynomial", (
-            "log–log regression on seven-point incremental polynomial rates from every "
-            "reading (ASTM E647 X1), one exponent m for all specimens and one intercept per "
-            "specimen (each specimen counts once in C); intervals by resampling, the scatter "
-            "for planning from the specimens' own C; the direct a(N) fit is a cross-check"
-        )
     if "direct" in fits and fits["direct"]["success"]:
         return "direct", (
-            "fewer than ten incremental-polynomial rates: the direct fit on "
-            "a(N) uses every reading without differentiating noisy data"
+            "direct fit on a(N): da/dN = C·ΔJ^m integrated over each test from its first "
+            "reading, one exponent m for all specimens and one C per specimen (each counts "
+            "once in C); it uses every reading without differentiating them, so it has no "
+            "bias of the incremental polynomial where growth accelerates between readings "
+            "(readings at equal cycles); intervals by resampling about it; the "
+            "incremental polynomial fit (ASTM E647 X1) is the cross-check"
+        )
+    if "polynomial" in fits and fits["polynomial"]["n"] >= 10:
+        return "polynomial", (
+            "the direct a(N) fit failed: log–log regression on seven-point incremental "
+            "polynomial rates from every reading (ASTM E647 X1), one exponent m for all "
+            "specimens and one intercept per specimen; intervals by resampling"
         )
     if "secant" in fits:
         return "secant", "only the secant rates could be fitted"

@@ -156,6 +156,27 @@ def k_gradient(a, delta_j):
     return float(0.5 * np.polyfit(a, np.log(dj), 1)[0])
 
 
+def direct_series(rows, name):
+    """Readings and a smooth ΔJ_eff(a) table for :func:`direct_fit`: a least-squares polynomial
+    of ln ΔJ_eff in a (degree ≤ 5, every reading) on 200 points over the crack range.  A
+    smooth fit, not means of groups of readings with straight lines between them: ΔJ is
+    convex in a, so group means and chords overstate it where readings are far apart (late
+    in a test logged at equal cycles), which biased m low."""
+    order = np.argsort(rows["cycle"], kind="stable")
+    n, a, dj = (np.asarray(rows[k], float)[order] for k in ("cycle", "a_mm", "dJ_eff_kJm2"))
+    ok = np.isfinite(a) & np.isfinite(dj) & (dj > 0)
+    lo, hi = float(np.min(a[ok])), float(np.max(a[ok]))
+    at = np.linspace(lo, hi, 200) if hi > lo else np.array([lo])
+    deg = int(min(5, max(ok.sum() // 8, 1)))
+    if hi > lo and ok.sum() > deg + 1:
+        u = (a[ok] - lo) / (hi - lo)
+        coef = np.polynomial.polynomial.polyfit(u, np.log(dj[ok]), deg)
+        jt = np.exp(np.polynomial.polynomial.polyval((at - lo) / (hi - lo), coef))
+    else:
+        jt = np.full(at.size, float(np.mean(dj[ok])))
+    return {"log": name, "cycle": n, "a_mm": a, "a_tab": at, "dj_tab": jt}
+
+
 def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
     """Fit C and m to measured a(N) by integrating da/dN = C·ΔJ(a)^m (scipy least_squares).
 
@@ -200,13 +221,13 @@ def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
 
     g = len(series)
 
-    def predict(p, cycles=None):
+    def predict(p, cycles=None, shift=0.0):
         m = p[0]
         out = []
         for i, s in enumerate(series):
             cyc = s["cycle"] if cycles is None else cycles[i]
             ag, dj = grids[i]
-            a0 = p[1 + g + i] if free_start else s["a_mm"][0]
+            a0 = p[1 + g + i] if free_start else s["a_mm"][0] + shift
             inv = 1.0 / (np.exp(p[1 + i]) * dj**m)
             nn = np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(ag))])
             n0 = np.interp(a0, ag, nn)
@@ -227,8 +248,8 @@ def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
     n = sol.fun.size
     dof = max(n - sol.x.size, 1)
     s2 = float(np.sum(sol.fun**2) / dof)
+    jac = sol.jac.toarray() if hasattr(sol.jac, "toarray") else np.asarray(sol.jac)
     try:
-        jac = sol.jac.toarray() if hasattr(sol.jac, "toarray") else np.asarray(sol.jac)
         cov = np.linalg.inv(jac.T @ jac) * s2
     except np.linalg.LinAlgError:
         cov = np.full((sol.x.size, sol.x.size), np.nan)
@@ -240,6 +261,14 @@ def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
     cov2 = tr @ cov @ tr.T
     lnc, m = float(np.mean(sol.x[1 : 1 + g])), float(sol.x[0])
     sd = np.sqrt(np.abs(np.diag(cov2)))
+    lives = []
+    for i, s in enumerate(series):
+        ag, dj = grids[i]
+        inv = 1.0 / (np.exp(sol.x[1 + i]) * dj ** sol.x[0])
+        nn = np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(ag))])
+        a_first = sol.x[1 + g + i] if free_start else s["a_mm"][0]
+        span = np.interp([a_first, s["a_mm"][-1]], ag, nn)
+        lives.append((float(span[1] - span[0]), float(s["cycle"][-1] - s["cycle"][0])))
     cyc = [np.linspace(s["cycle"][0], s["cycle"][-1], 200) for s in series]
     curves = [{"cycle": c, "a_mm": a} for c, a in zip(cyc, predict(sol.x, cyc), strict=True)]
     return {
@@ -255,10 +284,34 @@ def direct_fit(series, C0, m0, confidence=0.95, *, free_start=False):
         "a0_mm": sol.x[1 + g :].tolist() if free_start else [float(s["a_mm"][0]) for s in series],
         "start": "fitted per test" if free_start else "fixed at each test's first reading",
         "curves": curves,
+        "life_per_test": lives,
+        # working values for the resampling intervals (kept out of fit.json)
+        "_lin": {
+            "jac": jac,
+            "resid": sol.fun,
+            "rows": [s["cycle"].size for s in series],
+            "start": _start_column(series, predict, sol.x, free_start),
+        },
         "success": bool(sol.success),
         "message": str(sol.message),
         "confidence": confidence,
     }
+
+
+def _start_column(series, predict, p, free_start):
+    """How the residuals of a fixed-start fit move per mm of error in each test's first
+    reading (the prediction starts there; the first residual stays 0); zeros when the
+    start is fitted."""
+    if free_start:
+        return np.zeros(sum(s["cycle"].size for s in series))
+    h = 1e-4 * max(float(np.ptp(np.concatenate([s["a_mm"] for s in series]))), 1e-3)
+    base, moved = predict(p), predict(p, shift=h)
+    cols = []
+    for b, mv in zip(base, moved, strict=True):
+        col = (mv - b) / h
+        col[0] -= 1.0
+        cols.append(col)
+    return np.concatenate(cols)
 
 
 def _sparsity(series, free_start):

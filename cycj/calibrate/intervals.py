@@ -40,7 +40,9 @@ def test_groups(points, labels):
     return out
 
 
-def scatter_and_intervals(fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings):
+def scatter_and_intervals(
+    fits, chosen, labels, confidence, resamples, seed, dJ_at, warnings, series=()
+):
     """Recommended constants, resampling intervals, per-specimen rows and the
     ``between_specimen`` block.
 
@@ -49,11 +51,27 @@ def scatter_and_intervals(fits, chosen, labels, confidence, resamples, seed, dJ_
     (best, intervals, per_specimen, between): ``best`` the recommended fit's dict (``C, m,
     lnC, C_interval, m_interval, cov_lnC_m, dJ_range_kJm2, interval_method,
     interval_note``); ``intervals`` the result of
-    :func:`~cycj.calibrate.resampling.resampled_intervals` (None without rates).
+    :func:`~cycj.calibrate.resampling.resampled_intervals` (None without rates), or of
+    :func:`~cycj.calibrate.resampling.direct_intervals` when the direct a(N) fit is the
+    recommended one (``series``: its readings, :func:`cycj.calibrate.fits.direct_series`).
     """
     from cycj.calibrate.between import between_specimen
-    from cycj.calibrate.resampling import resampled_intervals
+    from cycj.calibrate.resampling import common_slope_fit, resampled_intervals
 
+    if chosen == "direct" and "_lin" in fits["direct"]:
+        best, iv, rows, between = _direct(
+            fits["direct"], series, labels, confidence, resamples, seed, dJ_at, warnings
+        )
+        reg = fits.get("polynomial") or fits.get("secant")
+        if iv is not None and reg is not None:
+            # the within-test scatter of single rates (labelled so, never for planning)
+            groups = test_groups(reg["points"], labels)
+            if groups:
+                within = common_slope_fit(
+                    [np.log(t["dJ"]) for t in groups], [np.log(t["dadN"]) for t in groups]
+                )
+                iv["sigma_ln_within"] = within["sigma_ln_within"]
+        return best, iv, rows, between
     reg = fits.get(chosen) if chosen != "direct" else None
     reg = reg or fits.get("polynomial") or fits.get("secant")
     if reg is None:
@@ -101,6 +119,47 @@ def scatter_and_intervals(fits, chosen, labels, confidence, resamples, seed, dJ_
         )
     per_spec, between = between_specimen(groups, m, confidence)
     return best, iv, per_spec, between
+
+
+def _direct(fit, series, labels, confidence, resamples, seed, dJ_at, warnings):
+    """The step of :func:`scatter_and_intervals` for the direct a(N) fit: linearised
+    resampling intervals, per-test rows and σ_ln C from the tests' own ln C_i."""
+    from cycj.calibrate.between import direct_rows, scatter_of_lnc
+    from cycj.calibrate.resampling import direct_intervals
+
+    lo, hi = fit["dJ_range_kJm2"]
+    at = np.atleast_1d(np.asarray(dJ_at if dJ_at is not None else math.sqrt(lo * hi), float))
+    try:
+        iv = direct_intervals(
+            fit, x_at=np.log(at), confidence=confidence, resamples=resamples, seed=seed
+        )
+    except (ValidityRangeError, np.linalg.LinAlgError) as exc:
+        warnings.append(
+            f"no resampling intervals ({exc}): the intervals are those of the Jacobian of "
+            "the a(N) least squares (too narrow)"
+        )
+        best = dict(fit)
+        best["interval_method"] = "least squares on a(N) (Jacobian)"
+        return best, None, [], _no_between(len(series), f"no per-specimen fits: {exc}")
+    best = {
+        **fit,
+        "C_interval": [math.exp(v) for v in iv["lnC_interval"]],
+        "m_interval": iv["m_interval"],
+        "cov_lnC_m": iv["cov_lnC_m"],
+        "interval_method": iv["method"],
+        "interval_note": iv["note"],
+    }
+    if iv["G"] == 1:
+        warnings.append(
+            "one specimen: the intervals are those of its own constants (moving-block "
+            "bootstrap); the scatter between specimens is unknown"
+        )
+    return (
+        best,
+        iv,
+        direct_rows(fit, iv, series, labels),
+        scatter_of_lnc(fit["lnC_per_test"], fit["m"], confidence),
+    )
 
 
 def _no_between(n, note):

@@ -7,11 +7,13 @@ the upper part of the unloading branch, finds the opening load by the compliance
 on the loading branch, and integrates the loading-branch area above the opening load.  The
 Python functions turn these numbers into ΔJ (Dowling–Begley with the ASTM E1820 η factors).
 
-Opening load: each segment's offset is assigned to its lower end (ASTM E647 assigns it to the
-segment midpoint, which places an abrupt opening up to half a segment, 5 % of ΔP, too high);
-the load where the offset reaches the criterion is interpolated between segments, and the
-offset must also hold in the next segment down and on average over all segments below, so
-one noisy segment does not decide it.
+Opening load: each segment's offset is assigned to the segment's midpoint force, as in
+ASTM E647 X2 practice (from memory; ``segment_point`` moves it, 0 = the lower end).  An abrupt
+opening is then placed up to half a segment (5 % of ΔP) high, because a segment shows the
+offset as soon as its lower part dips below the opening; a specimen file can ask for the lower
+end (``opening_segment_point = "lower-end"``).  The load where the offset reaches the
+criterion is interpolated between segments, and the offset must also hold in the next segment
+down and on average over all segments below, so one noisy segment does not decide it.
 Segments holding fewer than four samples are widened about their centre until they do.
 
 Units: P [N], V [mm], compliance [mm/N], area [N·mm], J [kJ/m² = N/mm], lengths [mm].
@@ -96,7 +98,9 @@ def _count(p, lo, hi):
 
 
 @jit
-def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_points, out):
+def _one_loop(
+    p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, seg_point, min_points, out
+):
     n = p_in.size
     out[N_SAMPLES] = n
     for i in range(n):
@@ -132,7 +136,7 @@ def _one_loop(p_in, v_in, fit_lo, fit_hi, seg_width, seg_step, criterion, min_po
     for k in range(n_seg):
         top = pmax - k * seg_step * dp
         bot = top - seg_width * dp
-        mids[k] = bot
+        mids[k] = bot + seg_point * seg_width * dp  # the load the segment's offset stands for
         # sparse samples: widen the segment about its centre until it holds five
         while _count(pl, bot, top) < 4 and top - bot < 0.5 * dp:
             bot -= 0.125 * seg_width * dp
@@ -229,14 +233,15 @@ def _area_above(pl, vl, p_op):
 
 @jit
 def reduce_loops_kernel(
-    load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg_step, criterion, min_points
+    load, disp, starts, ends, fit_lo, fit_hi, seg_width, seg_step, criterion, seg_point, min_points
 ):
     """Reduce every loop ``load[starts[i]:ends[i]]`` (compiled).
 
     Returns an array (n_loops, 7) with columns P_max, P_min [N], compliance dV/dP [mm/N] of the
     unloading branch between P_max − fit_hi·ΔP and P_max − fit_lo·ΔP, opening load [N] (first
     segment from the top whose offset reaches ``criterion`` and stays there, interpolated to
-    the criterion between the lower ends of the segments; P_min if none), loading-branch area
+    the criterion between the segments' points (``seg_point`` of the way up each segment,
+    0.5: its midpoint); P_min if none), loading-branch area
     above the opening load [N·mm], sample count and status (see :data:`LOOP_STATUS`).
     """
     m = starts.size
@@ -250,6 +255,7 @@ def reduce_loops_kernel(
             seg_width,
             seg_step,
             criterion,
+            seg_point,
             min_points,
             out[i],
         )
@@ -265,6 +271,7 @@ def reduce_loops(
     fit_window=(0.02, 0.5),
     segment=(0.10, 0.05),
     offset_criterion=0.02,
+    segment_point=0.5,
     min_points=20,
 ):
     """Reduce recorded loops to P_max, P_min, compliance, opening load and area.
@@ -276,6 +283,8 @@ def reduce_loops(
     fit_window : fractions of ΔP below P_max bounding the unloading compliance fit
     segment : width and step of the offset segments, fractions of ΔP (ASTM E647 X2: 10 %, 5 %)
     offset_criterion : compliance offset that marks the opening load (E647 default 2 % = 0.02)
+    segment_point : where in its segment each offset is placed, 0 (lower end) to 1 (upper
+        end); 0.5, the segment midpoint, is the ASTM E647 X2 practice (from memory)
     min_points : fewer samples than this skip the loop
 
     Returns
@@ -292,6 +301,8 @@ def reduce_loops(
         raise ValidityRangeError("segment width in (0, 0.5] and step in (0, width]")
     if not 0 < offset_criterion < 0.5:
         raise ValidityRangeError("offset criterion must lie in (0, 0.5)")
+    if not 0 <= segment_point <= 1:
+        raise ValidityRangeError("segment point must lie in [0, 1]")
     res = reduce_loops_kernel(
         np.ascontiguousarray(load, float),
         np.ascontiguousarray(disp, float),
@@ -302,6 +313,7 @@ def reduce_loops(
         float(segment[0]),
         float(segment[1]),
         float(offset_criterion),
+        float(segment_point),
         int(min_points),
     )
     names = ("p_max", "p_min", "compliance", "p_open", "area_above", "n_samples", "status")

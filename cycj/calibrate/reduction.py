@@ -132,17 +132,19 @@ def _delta_j(specimen, a, p_max, p_min_eff, p_op, comp_pt, area_above):
     b = specimen.width - a
     if specimen.shape in ETA_SHAPES:
         if specimen.shape == "compact-tension":
-            alpha = a / specimen.width
-            ratio = cm.e647_ct_normalised_compliance(
-                alpha, "load-line"
-            ) / cm.e647_ct_normalised_compliance(alpha, specimen.compliance_point)
+            # plastic displacement scales with the distance from the arms' hinge, not with the
+            # elastic compliances (docs/references.md R35)
+            ratio = cm.ct_plastic_displacement_ratio(a / specimen.width, specimen.compliance_point)
         else:
             ratio = np.ones_like(a)
-        a_pl = lp.plastic_area_above_opening(ratio * area_above, dpe, ratio * comp_pt)
+        # the elastic triangle off with the measuring point's own compliance, then the plastic
+        # area to the load line
+        a_pl = ratio * lp.plastic_area_above_opening(area_above, dpe, comp_pt)
         eta = lp.eta_plastic(specimen.shape, a, specimen.width, "load-line")
         dj_pl = lp.dowling_begley_delta_j(a_pl, geo.dims["net_thickness"], b, eta)
         how = "loop area above the opening load, η of ASTM E1820 (load line" + (
-            ", front-face readings scaled by the E647 compliance ratio)"
+            ", front-face plastic area scaled by the plastic displacement ratio of the arms' "
+            "hinge, r_p = 0.46)"
             if specimen.compliance_point == "front-face"
             else ")"
         )
@@ -196,6 +198,7 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20, out
         log.ends,
         fit_window=fit_window,
         offset_criterion=specimen.opening_offset,
+        segment_point=0.0 if specimen.opening_segment_point == "lower-end" else 0.5,
         min_points=min_points,
     )
     cyc = log.cycles
@@ -260,8 +263,9 @@ def reduce_raw_log(log, specimen, *, fit_window=(0.02, 0.35), min_points=20, out
         "crack_correction": how_corr,
         "plastic_dJ": how_j,
         "closure": f"opening load by compliance offset ({100 * specimen.opening_offset:g} %"
-        " criterion, ASTM E647 X2), running median of 7 loops; ΔJ_eff above "
-        "the opening load",
+        " criterion, ASTM E647 X2, offsets at the segments' "
+        + ("lower ends" if specimen.opening_segment_point == "lower-end" else "midpoints")
+        + "), running median of 7 loops; ΔJ_eff above the opening load",
     }
     return rows, skipped, notes, typical
 

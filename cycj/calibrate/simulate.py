@@ -4,7 +4,9 @@ The specimen's crack grows by da/dN = C·ΔJ_eff^m.  Every recorded cycle is a l
 displacement samples built from the elastic compliance of the specimen at the current crack
 length (E647 C(T) expressions, or the Castigliano compliance of other shapes), stiffened below
 an opening load (closure), plus a Masing-type plastic branch whose size matches the plastic
-part of ΔJ by the cyclic reference stress method, plus Gaussian noise (seeded).  Demos and
+part of ΔJ by the cyclic reference stress method (taken to the measuring point by the
+elastic compliance ratio for the elastic part and by the plastic hinge ratio of the arms for
+the plastic part), plus Gaussian noise (seeded).  Demos and
 tests get realistic data whose true constants are known.
 
 Units: N, mm, MPa, kJ/m², cycles.
@@ -261,24 +263,36 @@ def _loops(specimen, a, pmax, pmin, pop, samples, kappa, noise_load, noise_disp,
     c = c_ll[:, None]
     cc = kappa * c
     sop = s_op[:, None]
-    v_load = (
-        cc * np.minimum(s, sop)
-        + c * np.maximum(s - sop, 0)
-        + d_pl[:, None] * (s / dp[:, None]) ** p_exp
-    )
-    top = cc * sop + c * (dp[:, None] - sop) + d_pl[:, None]
+    d = d_pl[:, None]
+    top_el = cc * sop + c * (dp[:, None] - sop)
     r = dp[:, None] - s  # drop below the maximum
-    v_unl = top - (
-        c * np.minimum(r, dp[:, None] - sop)
-        + cc * np.maximum(r - (dp[:, None] - sop), 0)
-        + d_pl[:, None] * (r / dp[:, None]) ** p_exp
+    v_el = np.where(
+        rising[None, :],
+        cc * np.minimum(s, sop) + c * np.maximum(s - sop, 0),
+        top_el
+        - (c * np.minimum(r, dp[:, None] - sop) + cc * np.maximum(r - (dp[:, None] - sop), 0)),
     )
-    v_ll = np.where(rising[None, :], v_load, v_unl) + c * pmin[:, None]
-    v = v_ll * (c_pt / c_ll)[:, None]
-    v_range = top * (c_pt / c_ll)[:, None]
+    v_pl = np.where(
+        rising[None, :], d * (s / dp[:, None]) ** p_exp, d - d * (r / dp[:, None]) ** p_exp
+    )
+    # at the measuring point: the elastic part by the compliance ratio, the plastic part by the
+    # arms' hinge (compliance.ct_plastic_displacement_ratio)
+    el_ratio = (c_pt / c_ll)[:, None]
+    pl_ratio = 1.0 / _plastic_ratio(specimen, a)[:, None]
+    v = (v_el + c * pmin[:, None]) * el_ratio + v_pl * pl_ratio
+    v_range = top_el * el_ratio + d * pl_ratio
     load = load + noise_load * dp[:, None] * rng.standard_normal(load.shape)
     v = v + noise_disp * v_range * rng.standard_normal(v.shape)
     return load.ravel(), v.ravel()
+
+
+def _plastic_ratio(specimen, a):
+    """Plastic load-line displacement per unit plastic displacement at the measuring point."""
+    from cycj.calibrate.compliance import ct_plastic_displacement_ratio
+
+    if specimen.shape == "compact-tension":
+        return ct_plastic_displacement_ratio(a / specimen.width, specimen.compliance_point)
+    return np.ones(np.shape(a))
 
 
 def _eta_for_sim(specimen, a):

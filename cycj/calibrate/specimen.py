@@ -5,7 +5,9 @@ crack_length (initial), constraint, elastic_modulus, poisson_ratio, yield_streng
 tensile_strength and cyclic_curve {strength_coefficient, hardening_exponent}, span (SE(B)),
 displacement_at, log_units {load, displacement, crack_length}.  Added here: final_crack_length
 (optical reading after the test), crack_correction ("none" | "first" | "first-last"),
-opening_offset (compliance-offset criterion, default 0.02 = 2 %), label.
+opening_offset (compliance-offset criterion, default 0.02 = 2 %), opening_segment_point
+("midpoint", the ASTM E647 X2 practice, or "lower-end": the force each offset segment stands
+for), label.
 """
 
 from __future__ import annotations
@@ -46,6 +48,9 @@ class Specimen:
     crack_correction: str
     opening_offset: float
     source: str
+    #: the force each compliance-offset segment stands for: "midpoint" (ASTM E647 X2) or
+    #: "lower-end"
+    opening_segment_point: str = "midpoint"
 
     @property
     def shape(self) -> str:
@@ -136,6 +141,7 @@ def read_specimen(path) -> Specimen:
             found=corr,
         )
     off = t.number("opening_offset", default=0.02, lo=(0.001, "0.001"), hi=(0.2, "0.2"))
+    seg_point = t.choice("opening_segment_point", ("midpoint", "lower-end"), default="midpoint")
     label = t.string("label", default=Path(src).stem)
     t.finish()
     return Specimen(
@@ -151,4 +157,5 @@ def read_specimen(path) -> Specimen:
         corr,
         off,
         src,
+        seg_point,
     )

@@ -17,7 +17,7 @@ CAUTION = (
     "engineer's review."
 )
 #: keys of a fit kept out of fit.json (arrays and working values)
-_PRIVATE = ("residuals", "R_of_points", "x_mean", "sxx", "t", "points")
+_PRIVATE = ("residuals", "R_of_points", "x_mean", "sxx", "t", "points", "_lin", "life_per_test")
 
 
 def _rate_rows(iv):
@@ -30,6 +30,23 @@ def _rate_rows(iv):
         }
         for r, lo, hi in zip(iv["ln_rate_at"], *iv["ln_rate_interval"], strict=True)
     ]
+
+
+def _mixed_rows(iv):
+    """The mixed-effects estimate beside the resampling (direct fit, two tests or more)."""
+    mx = (iv or {}).get("mixed_effects")
+    if not mx:
+        return None
+    out = {k: v for k, v in mx.items() if not k.startswith("ln_rate")}
+    out["rate_at"] = _rate_rows(
+        {**mx, "lnC": math.log(mx["C"]), "ln_rate_interval": mx["ln_rate_interval"]}
+    )
+    out["note"] = (
+        "a cross-check of the recommended intervals: ln C_i of the tests (m fixed) with "
+        "their within-test errors, a random intercept between tests by REML; m's interval "
+        "is within-test only (a common m)"
+    )
+    return out
 
 
 def summary(ctx) -> dict:
@@ -81,7 +98,10 @@ def summary(ctx) -> dict:
         "recommended_reason": ctx["reason"],
         "pivot_dJ_kJm2": pivot,
         "rate_at_pivot_mm_per_cycle": math.exp(lnc + m * math.log(pivot)),
-        "rate_at_pivot_interval": reg["rate_at_pivot_interval"] if reg else None,
+        # the regression's own interval; for the direct fit see rate_at (resampled)
+        "rate_at_pivot_interval": reg["rate_at_pivot_interval"]
+        if reg and chosen != "direct"
+        else None,
         "rate_at": _rate_rows(iv) if iv else [],
         "cov_lnC_m": best["cov_lnC_m"],
         "sigma_ln": reg["sigma_ln"] if reg else None,
@@ -90,6 +110,7 @@ def summary(ctx) -> dict:
         "for planning (use between_specimen.sigma_ln_C)",
         "sigma_ln_within": iv["sigma_ln_within"] if iv else None,
         "between_specimen": between,
+        "mixed_effects": _mixed_rows(iv),
         "per_specimen": ctx["per_specimen"],
         "dJ_range_kJm2": valid,
         "dJ_range_note": "ΔJ range of the data behind the recommended fit (its validity)",

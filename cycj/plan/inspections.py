@@ -86,7 +86,10 @@ def plan_inspections(case, scheduler=None, workers=None) -> PlanResult:
         )
         a_det_c, n_det_c = [inp.detectable_size], [0.0]
     else:
-        a_det_c, n_det_c, _ = engine.deterministic_curve(case, inp.detectable_size)
+        a_det_c, n_det_c, det_run = engine.deterministic_curve(case, inp.detectable_size)
+        # the growth law's valid_dJ (from cycj fit): the run's one warning, with its range
+        # and share of cycles outside it
+        warnings += [w for w in det_run.get("warnings", []) if "valid_dJ" in w]
     det = deterministic_interval(
         a_det_c, n_det_c, inp.detectable_size, a_crit, inp.safety_factor, inp.design_life, cpb, hpc
     )

@@ -113,6 +113,10 @@ declare(S, "", "Specimen file (`cycj fit --specimen`)", (
       default='"none"', allowed=("none", "first", "first-last")),
     K("opening_offset", "number", "compliance-offset criterion of opening (0.001 to 0.2)",
       default="0.02"),
+    K("opening_segment_point", "choice",
+      "the force a compliance-offset segment stands for: its midpoint (ASTM E647 practice) or "
+      "its lower end (for an opening that is abrupt within one segment)",
+      default='"midpoint"', allowed=("midpoint", "lower-end")),
     K("label", "text", "the test's name (matches a specimen column)", default="the file name"),
 ))
 declare(S, "cyclic_curve", "cyclic_curve", (

@@ -51,19 +51,57 @@ def spec(spec_path):
     return read_specimen(spec_path)
 
 
-def test_coverage_on_the_virtual_frame(spec):
-    # cluster bootstrap (Davison & Hinkley 1997 §3.8): nominal 95 % intervals of m and of
-    # da/dN at mid-range hold the truth in 90–98 % of simulated programmes (known C, m; noise
-    # on a; between-specimen scatter σ_ln C = 0.15; fixed seed).  CI runs 100 programmes;
-    # bench/bench_fit.py runs the full 200 (95.5 % for m, 96 % for da/dN at this seed).
-    cov = coverage_study(spec, programmes=100, n_specimens=8, crack_end=30, resamples=500)
-    assert cov["method"] == "cluster-bootstrap"
+@pytest.mark.parametrize("spacing", ["crack", "cycles"])
+def test_coverage_on_the_virtual_frame(spec, spacing):
+    # cluster bootstrap (Davison & Hinkley 1997 §3.8) about the recommended direct a(N) fit:
+    # nominal 95 % intervals of m and of da/dN at mid-range hold the truth in 90–98 % of
+    # simulated programmes (known C, m; noise on a; between-specimen scatter σ_ln C = 0.15;
+    # fixed seed), with readings at equal crack extension and at equal cycles (as the
+    # example logs).  CI runs 100 programmes; bench/bench_fit.py runs the full 200.
+    cov = coverage_study(
+        spec, programmes=100, n_specimens=8, crack_end=30, resamples=500, spacing=spacing
+    )
+    assert cov["method"] == "cluster-bootstrap" and cov["estimate"] == "direct"
     assert 0.90 <= cov["m"] <= 0.98, cov
     assert 0.90 <= cov["rate_mid"] <= 0.98, cov
     # χ² interval of σ_ln C (normal ln C_i): near its nominal level too
     assert cov["sigma_ln_C"] >= 0.85, cov
     # lives predicted per specimen from its own fit (m fixed) within 5 % (median)
     assert cov["life_error"] < 0.05, cov
+
+
+@pytest.mark.parametrize("n_specimens", [1, 3])
+def test_coverage_few_specimens(spec, n_specimens):
+    # fewer than five specimens: moving blocks of each test's residuals of a (Künsch 1989)
+    # with the error of its first reading (a fixed start carries it into every residual);
+    # with 2–4 specimens the between-specimen part of ln C and da/dN takes t(G−1).  Readings
+    # at equal cycles, 40 programmes (bench/bench_fit.py runs 200 single-specimen ones)
+    cov = coverage_study(
+        spec,
+        programmes=40,
+        n_specimens=n_specimens,
+        crack_end=30,
+        resamples=300,
+        spacing="cycles",
+    )
+    assert cov["method"] == "moving-block-bootstrap"
+    assert cov["m"] >= 0.9 and cov["rate_mid"] >= 0.9, cov
+
+
+def test_coverage_check_can_fail(spec):
+    # the same check on the regression of seven-point incremental polynomial rates (ASTM
+    # E647 X1) with readings at equal cycles: the rates overshoot where growth accelerates
+    # between readings, a bias every specimen shares, and the intervals of m miss the truth
+    cov = coverage_study(
+        spec,
+        programmes=40,
+        n_specimens=8,
+        crack_end=30,
+        resamples=300,
+        spacing="cycles",
+        estimate="polynomial",
+    )
+    assert cov["m"] < 0.5, cov
 
 
 def test_between_specimen_sigma_within_its_interval(spec):
@@ -162,6 +200,40 @@ def test_outlier_option_lists_every_dropped_point(spec_path, tmp_path):
     assert all(r["reason"] and r["log"] == "bad.csv" for r in res.skipped)
 
 
+def test_direct_fit_unbiased_at_equal_cycles(spec):
+    # noise-free readings at equal cycles (few readings late in the test, where growth
+    # accelerates): integrating the law over each test recovers m and C of the virtual frame
+    # (its own a(N), simulate.py) to 0.2 %, where the seven-point incremental polynomial
+    # (ASTM E647 X1) overshoots; the ΔJ(a) table must not overstate ΔJ between readings
+    from cycj.calibrate import fits as ft
+    from cycj.calibrate import reduction as rd
+    from cycj.calibrate.logs import CrackLog
+
+    prog = simulate_programme(
+        spec,
+        TRUE_C,
+        TRUE_M,
+        n_specimens=2,
+        sigma_ln_C=0.0,
+        readings=40,
+        crack_noise=0.0,
+        spacing="cycles",
+        crack_end=30,
+        seed=1,
+    )
+    series, slopes = [], []
+    for lab, df in prog.crack.groupby("specimen", sort=False):
+        cols = [df[k].to_numpy(float) for k in ("cycle", "crack_length", "load_max", "load_min")]
+        rows, _, _ = rd.reduce_crack_log(CrackLog(str(lab), *cols), spec)
+        series.append(ft.direct_series(rows, str(lab)))
+        p = rd.rates_for_rows(rows, spec)[0]["polynomial"]
+        slopes.append(np.polyfit(np.log(p["dJ_eff_kJm2"]), np.log(p["dadN_mm_per_cycle"]), 1)[0])
+    d = ft.direct_fit(series, TRUE_C, TRUE_M)
+    assert d["m"] == pytest.approx(TRUE_M, abs=0.003)
+    assert d["C"] == pytest.approx(TRUE_C, rel=0.01)
+    assert min(slopes) > TRUE_M + 0.01  # the rates' bias that the direct fit avoids
+
+
 def test_direct_fit_start_fixed_at_first_reading(spec_path, tmp_path):
     prog = simulate_programme(
         read_specimen(spec_path), TRUE_C, TRUE_M, n_specimens=2, sigma_ln_C=0.0, seed=8
@@ -240,3 +312,23 @@ def test_long_format_raw_loops(tmp_path):
     assert s["basis"] == "effective" and s["n_tests"] == 2
     assert [r["test"] for r in s["per_specimen"]] == ["raw.csv:R0", "raw.csv:R1"]
     assert s["m"] == pytest.approx(TRUE_M, abs=0.1)
+
+
+def test_random_intercept_balanced_closed_form():
+    # balanced one-way random effects (equal within-test errors): the REML estimate of τ²
+    # equals the ANOVA moment estimate s² − se² when positive, μ is the plain mean and
+    # se(μ) = √((τ² + se²)/G) (Searle, Casella & McCulloch, *Variance Components* (1992)
+    # ch. 3–4, from memory).  y = 0, 1, 2, 3 with se = 0.5: s² = 5/3, τ² = 5/3 − 1/4
+    from cycj.calibrate.between import random_intercept
+
+    r = random_intercept([0.0, 1.0, 2.0, 3.0], [0.5] * 4)
+    assert r["tau"] ** 2 == pytest.approx(5 / 3 - 0.25, rel=1e-4)
+    assert r["mean"] == pytest.approx(1.5)
+    assert r["se"] == pytest.approx(math.sqrt((5 / 3) / 4), rel=1e-4)
+    # t(3) = 3.182446 (two-sided 95 %)
+    assert r["interval"][1] - r["mean"] == pytest.approx(3.182446 * r["se"], rel=1e-5)
+    # within-test errors larger than the spread: τ = 0, inverse-variance mean
+    r0 = random_intercept([0.0, 0.1], [1.0, 2.0])
+    assert r0["tau"] == 0.0
+    assert r0["mean"] == pytest.approx((0.0 / 1 + 0.1 / 4) / (1 + 1 / 4))
+    assert random_intercept([1.0], [0.1]) is None

@@ -273,3 +273,22 @@ def test_budget_reached_is_said_in_headline_json_and_report(tmp_path):
     plan = json.loads((tmp_path / "out" / "plan.json").read_text())
     assert plan["recommendation"]["budget_reached"] is True
     assert "sample budget reached" in (tmp_path / "out" / "report.html").read_text()
+
+
+def test_plan_warns_once_outside_valid_dJ(tmp_path):
+    # the growth law's valid_dJ (written by cycj fit) travels into cycj plan as into cycj run:
+    # one warning with the law's range and the share of cycles outside it.  ΔJ = K²/E' with
+    # K = S√(πa) (Tada–Paris–Irwin): 0.157 kJ/m² at a = 1 mm, 1.57 kJ/m² at 10 mm (plane
+    # stress, E = 200 GPa), so a range of 0.1–0.5 kJ/m² is left late in the life
+    text = CASE_13.replace(
+        'growth.law = "paris"', 'growth.law = "paris"\ngrowth.valid_dJ = ["0.1 kJ/m^2", 0.5]'
+    )
+    p = tmp_path / "valid.toml"
+    p.write_text(text)
+    s = plan_inspections(load_case(p)).summary
+    warn = [w for w in s["warnings"] if "valid_dJ" in w]
+    assert len(warn) == 1, s["warnings"]
+    assert "0.1–0.5 kJ/m²" in warn[0] and "% of the cycles" in warn[0]
+    # inside the range: no warning
+    p.write_text(text.replace('["0.1 kJ/m^2", 0.5]', '["0.1 kJ/m^2", 2]'))
+    assert not any("valid_dJ" in w for w in plan_inspections(load_case(p)).summary["warnings"])
