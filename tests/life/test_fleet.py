@@ -26,7 +26,7 @@ def test_fleet_on_dask_matches(tmp_path):
     distributed = pytest.importorskip("distributed")
     local = run_fleet(CASES, tmp_path / "a")
     with distributed.LocalCluster(
-        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=None
+        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=":0"
     ) as cluster:
         remote = run_fleet(CASES, tmp_path / "b", scheduler=cluster.scheduler_address)
     assert list(remote["cycles_to_end"]) == list(local["cycles_to_end"])

@@ -152,7 +152,7 @@ def test_one_two_workers_and_dask_give_identical_plans(tmp_path):
     one = dump(plan_inspections(case, workers=1))
     two = dump(plan_inspections(case, workers=2))
     with distributed.LocalCluster(
-        n_workers=2, threads_per_worker=1, processes=False, dashboard_address=None
+        n_workers=2, threads_per_worker=1, processes=False, dashboard_address=":0"
     ) as cluster:
         remote = dump(plan_inspections(case, scheduler=cluster.scheduler_address))
     assert one == two == remote

@@ -136,7 +136,7 @@ def test_dask_path_equals_in_process():
     )
     local = probabilistic_plan(tab, inp)
     with distributed.LocalCluster(
-        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=None
+        n_workers=1, threads_per_worker=1, processes=False, dashboard_address=":0"
     ) as cluster:
         remote = probabilistic_plan(tab, inp, scheduler=cluster.scheduler_address)
     assert remote["what_if"] == local["what_if"]
