@@ -25,15 +25,50 @@ sys.path.insert(0, str(ROOT))
 import cycj.fe.solver as S  # noqa: E402
 from cycj.fe.domain import j_domains  # noqa: E402
 from cycj.fe.law import DeformationLaw  # noqa: E402
+from cycj.fe.linear import METHODS  # noqa: E402
 from cycj.fe.shapes import build  # noqa: E402
 from cycj.geometry import make_geometry  # noqa: E402
+
+
+def sequence(pb, loads, s_l, method, verbose):
+    """Solve the load sequence with the linear solver ``method``; print and return seconds."""
+    linear = S.linear_solver(pb, method)
+    t1 = time.perf_counter()
+    sols = S.solve_loads(pb, loads, linear=linear)
+    t_solve = time.perf_counter() - t1
+    worst = 0.0
+    js = []
+    for sol in sols:
+        vals, spread = j_domains(pb, sol)
+        worst = max(worst, spread)
+        js.append(vals.mean())
+        if verbose:
+            print(
+                f"  L_r {sol.load / s_l:6.3f}  J {vals.mean():12.5g} kJ/m²  spread {spread:.1e}  "
+                f"{sol.iterations:3d} Newton iterations  {sol.seconds:6.2f} s"
+            )
+    st = linear.stats
+    print(
+        f"[{method}] total {t_solve:.1f} s for {len(loads)} levels "
+        f"({sum(s.iterations for s in sols)} Newton iterations); linear solves "
+        f"{100 * st['seconds'] / t_solve:.0f} % of it ({st['factorisations']} factorisations, "
+        f"{st['amg_setups']} AMG set-ups, {st['cg_iterations']} CG iterations, "
+        f"{st.get('direct_fallbacks', 0)} direct fallbacks); worst domain spread {worst:.1e}"
+    )
+    return t_solve, np.array(js)
 
 
 def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__)
     ap.add_argument("--refine", type=int, default=2)
     ap.add_argument("--levels", type=int, default=12)
+    ap.add_argument(
+        "--linear",
+        default="reuse,direct",
+        help="comma-separated linear solvers, each timed in this run: " + ", ".join(METHODS),
+    )
     args = ap.parse_args(argv)
+    methods = [m.strip() for m in args.linear.split(",") if m.strip()]
     e, nu, sigma_0, n, w = 200e3, 0.3, 400.0, 10.0, 50.0
     a = 0.5 * w
     law = DeformationLaw(e, nu, sigma_0 * (sigma_0 / e) ** (-1 / n), 1 / n, True)
@@ -43,36 +78,20 @@ def main(argv=None):
     t_setup = time.perf_counter() - t0
     s_l = make_geometry("compact-tension", a, width=w, thickness=1.0).limit_stress(a, sigma_0)
     loads = s_l * np.geomspace(0.05, 1.5, args.levels)
-    solve_time = [0.0]
-    inner = S._solve_linear
-
-    def timed(k, r):
-        t = time.perf_counter()
-        out = inner(k, r)
-        solve_time[0] += time.perf_counter() - t
-        return out
-
-    S._solve_linear = timed
-    t1 = time.perf_counter()
-    sols = S.solve_loads(pb, loads)
-    t_solve = time.perf_counter() - t1
     print(
         f"C(T) a/W = 0.5, n = 10, plane strain: {pb.n_dofs} degrees of freedom, "
         f"{len(pb.mesh.elements)} elements, setup {t_setup:.2f} s"
     )
-    worst = 0.0
-    for sol in sols:
-        vals, spread = j_domains(pb, sol)
-        worst = max(worst, spread)
-        print(
-            f"  L_r {sol.load / s_l:6.3f}  J {vals.mean():12.5g} kJ/m²  spread {spread:.1e}  "
-            f"{sol.iterations:3d} Newton iterations  {sol.seconds:6.2f} s"
-        )
-    print(
-        f"total {t_solve:.1f} s for {len(loads)} levels ({sum(s.iterations for s in sols)} "
-        f"Newton iterations); linear solves {100 * solve_time[0] / t_solve:.0f} % of it; "
-        f"worst domain spread {worst:.1e}"
-    )
+    times = {}
+    first = None
+    for k, m in enumerate(methods):
+        times[m], js = sequence(pb, loads, s_l, m, verbose=k == 0)
+        if first is None:
+            first = js
+        else:
+            print(f"  J differs from [{methods[0]}] by {np.max(np.abs(js / first - 1)):.1e}")
+    for m in methods[1:]:
+        print(f"time [{methods[0]}] / [{m}] = {times[methods[0]] / times[m]:.2f} (same run)")
 
 
 if __name__ == "__main__":
