@@ -28,10 +28,21 @@ import click
     type=click.Path(file_okay=False),
     help="Output folder (default: <case name>-jtable beside the case).",
 )
+@click.option(
+    "--scheduler",
+    default=None,
+    help="Dask scheduler address (tcp://HOST:PORT): run the load sequences on a cluster.",
+)
+@click.option(
+    "--workers",
+    type=click.IntRange(1, 1024),
+    default=None,
+    help="Processes for the load sequences (default: all cores; the table does not change).",
+)
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json):
+def j_table(case_file, sizes, loads, out_dir, scheduler, workers, force, no_plots, as_json):
     """Tabulate J at peak load and ΔJ for a load range by 2-D finite elements for CASE_FILE.
 
     Writes jtable.csv, jtable.json, plots and report.html to the output folder.
@@ -49,7 +60,7 @@ def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json):
         if not as_json:
             click.echo(f"  a = {a:.4g} mm done", err=True)
 
-    frame, info = compute(case, sizes, loads, progress)
+    frame, info = compute(case, sizes, loads, progress, workers=workers, scheduler=scheduler)
     with od:
         data = write_outputs(od, case, frame, info, plots=not no_plots)
     if as_json:
