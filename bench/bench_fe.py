@@ -5,9 +5,15 @@ strain, hardening exponent n = 1/n' = 10, with ``--refine`` 2 (about 20,000 degr
 freedom): prints the degrees of freedom, Newton iterations and seconds per level, the total
 time, the share spent in the linear solves, and the worst spread between the domains.
 
+With ``--table`` it times instead a J table of 8 crack sizes × 10 load levels (the C(T) case
+of bench_stepper.py, default loads L_r 0.05–2, refine 1): in worker processes, then on a local
+Dask cluster through its scheduler address (the two tables must agree exactly), with the
+peak resident memory of this process and of its largest worker.
+
 Run from the repository root::
 
-    python bench/bench_fe.py [--refine 2] [--levels 12]
+    python bench/bench_fe.py [--refine 2] [--levels 12] [--linear reuse,direct,amg]
+    python bench/bench_fe.py --table [--workers 2]
 """
 
 from __future__ import annotations
@@ -58,6 +64,47 @@ def sequence(pb, loads, s_l, method, verbose):
     return t_solve, np.array(js)
 
 
+def table(workers):
+    """Time a J table of 8 sizes × 10 loads in processes and on Dask; compare the tables."""
+    import resource
+
+    sys.path.insert(0, str(ROOT / "bench"))
+    from bench_stepper import ct_case
+
+    from cycj.fe.table import compute
+
+    case = ct_case()
+    t = time.perf_counter()
+    frame, info = compute(case, sizes=8, loads=10, workers=workers)
+    t_proc = time.perf_counter() - t
+    rss_children = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss / 1024
+    print(
+        f"J table {len(frame)} rows ({frame['a_mm'].nunique()} sizes), up to "
+        f"{info['dofs_max']} DOF, {info['parallel']}: {t_proc:.1f} s wall "
+        f"(sum of the sequences {info['seconds']:.1f} s); worst domain spread "
+        f"{info['worst_domain_spread']:.1e}"
+    )
+    from dask.distributed import Client, LocalCluster
+
+    n = workers or 2
+    with LocalCluster(n_workers=n, threads_per_worker=1, processes=True) as cluster:
+        with Client(cluster.scheduler_address) as client:
+            t = time.perf_counter()
+            frame_d, _ = compute(case, sizes=8, loads=10, scheduler=cluster.scheduler_address)
+            t_dask = time.perf_counter() - t
+            rss = client.run(lambda: resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)
+    same = frame_d.equals(frame)
+    rss_self = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+    print(
+        f"on Dask ({n} workers via {cluster.scheduler_address}): {t_dask:.1f} s wall; "
+        f"table identical to the processes' one: {same}"
+    )
+    print(
+        f"peak resident memory: this process {rss_self:.0f} MB, largest worker process "
+        f"{rss_children:.0f} MB, largest Dask worker {max(rss.values()) / 1024:.0f} MB"
+    )
+
+
 def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__)
     ap.add_argument("--refine", type=int, default=2)
@@ -67,7 +114,11 @@ def main(argv=None):
         default="reuse,direct",
         help="comma-separated linear solvers, each timed in this run: " + ", ".join(METHODS),
     )
+    ap.add_argument("--table", action="store_true", help="time an 8 × 10 J table instead")
+    ap.add_argument("--workers", type=int, default=None)
     args = ap.parse_args(argv)
+    if args.table:
+        return table(args.workers)
     methods = [m.strip() for m in args.linear.split(",") if m.strip()]
     e, nu, sigma_0, n, w = 200e3, 0.3, 400.0, 10.0, 50.0
     a = 0.5 * w

@@ -158,3 +158,25 @@ def pack_table(frame, geometry, sigma_y: float, source=None):
         tail += [*np.log(lr), *np.log(dj / jel), *np.log(j / jel)]
         lr_top.append(float(lr[-1]))
     return np.array(tail), sizes, np.array(lr_top)
+
+
+def table_ratio(frame, geometry, sigma_y: float, a, s, which: int = 0, source=None):
+    """g = J_FE/J_el from a J table at crack sizes ``a`` [mm] and nominal stresses ``s``
+    [MPa] (arrays; ``which`` 0: ΔJ for the range ``s``, 1: J at the peak ``s``), by the
+    stepper's own compiled look-up (:func:`fe_ratio`); refuses sizes or L_r beyond the table."""
+    from cycj.errors import CycjInputError
+
+    tail, sizes, lr_top = pack_table(frame, geometry, sigma_y, source)
+    mp = np.concatenate([np.zeros(FE_TABLE), tail])
+    a, s = np.broadcast_arrays(np.asarray(a, float), np.asarray(s, float))
+    lr = s / np.asarray(geometry.limit_stress(a, sigma_y), float)
+    top = np.interp(a, sizes, lr_top)
+    if np.any(a < sizes[0] * (1 - 1e-9)) or np.any(a > sizes[-1] * (1 + 1e-9)):
+        raise CycjInputError("crack sizes beyond the J table (no extrapolation)", source=source)
+    if np.any(lr > top * (1 + 1e-9)):
+        raise CycjInputError(
+            f"L_r {float(np.max(lr)):.4g} beyond the J table (no extrapolation)", source=source
+        )
+    pairs = zip(a.ravel(), lr.ravel(), strict=True)
+    out = np.array([fe_ratio(mp, float(x), float(y), which) for x, y in pairs])
+    return out.reshape(a.shape)
