@@ -167,7 +167,7 @@ def table_ratio(frame, geometry, sigma_y: float, a, s, which: int = 0, source=No
     from cycj.errors import CycjInputError
 
     tail, sizes, lr_top = pack_table(frame, geometry, sigma_y, source)
-    mp = np.concatenate([np.zeros(FE_TABLE), tail])
+    mp = np.concatenate([np.zeros(FE_NA), tail])  # the tail starts at slot FE_NA
     a, s = np.broadcast_arrays(np.asarray(a, float), np.asarray(s, float))
     lr = s / np.asarray(geometry.limit_stress(a, sigma_y), float)
     top = np.interp(a, sizes, lr_top)
