@@ -76,5 +76,6 @@ def test_fe_frame_is_not_the_reference_stress_frame(frame_fit):
     t = sim.truth
     args = (spec, t["a_mm"], t["P_max_N"], t["P_min_N"], t["P_open_N"])
     fe, ref = true_delta_j(*args, table), true_delta_j(*args)
-    np.testing.assert_allclose(t["dJ_eff_kJm2"], fe, rtol=1e-9)
+    # the truth is interpolated from the frame's crack-length grid: equal to ~1e-6
+    np.testing.assert_allclose(t["dJ_eff_kJm2"], fe, rtol=1e-4)
     assert np.max(np.abs(ref / fe - 1)) > 0.05
