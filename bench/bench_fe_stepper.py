@@ -37,7 +37,7 @@ def invented_table(case, path, sizes=8, levels=10):
     geo, mat = case.geometry, case.material
     e_prime = mat.effective_modulus(geo.plane_strain)
     rows = []
-    for a in np.linspace(14.0, 0.9 * geo.dims["width"], sizes):
+    for a in np.linspace(14.0, 0.95 * geo.dims["width"], sizes):
         s_l = float(geo.limit_stress(a, mat.yield_strength))
         for lr in np.geomspace(0.01, 3.0, levels):
             s = lr * s_l
