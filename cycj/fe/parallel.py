@@ -72,9 +72,10 @@ def run_jobs(jobs, workers: int | None = None, scheduler=None) -> list:
             if own:
                 client.close()
     n = processes(workers, len(jobs))
-    if n <= 1:
-        return [_job(j) for j in jobs]
     import multiprocessing as mp
+
+    if n <= 1 or mp.current_process().daemon:  # a daemonic worker (Dask's) may not fork
+        return [_job(j) for j in jobs]
     from concurrent.futures import ProcessPoolExecutor
 
     saved = {v: os.environ.get(v) for v in _THREAD_VARS}
