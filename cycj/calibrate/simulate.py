@@ -69,12 +69,14 @@ def _tips(shape):
     return 2 if shape == "center-crack-plate" else 1
 
 
-def true_delta_j(specimen, a, p_max, p_min, p_open):
+def true_delta_j(specimen, a, p_max, p_min, p_open, j_table=None):
     """ΔJ_eff [kJ/m²] that the loop reduction measures for a noise-free loop of this frame.
 
     ΔJ_el = ΔK_eff²/E' with ΔK_eff from P_max − P_op; plastic part: the reference stress
-    plastic term of the full range scaled by f_pl(U) (the Masing branch's share above the
-    opening load).  For M(T) the whole estimate is the reference stress method.
+    plastic term of the full range — or, with ``j_table`` (a finite-element J table,
+    jtable.csv columns), the table's ΔJ − ΔJ_el — scaled by f_pl(U) (the Masing branch's share
+    above the opening load).  For M(T) without a table the whole estimate is the reference
+    stress method.
     """
     from cycj.jintegral import plastic_fraction, reference_stress_delta_j
 
@@ -89,11 +91,25 @@ def true_delta_j(specimen, a, p_max, p_min, p_open):
     if mat.cyclic_curve is None:
         return u**2 * dj_el_full
     dsig_ref = dp_full * s_per_p * mat.yield_strength / geo.limit_stress(a, mat.yield_strength)
-    if specimen.shape == "center-crack-plate":
+    if specimen.shape == "center-crack-plate" and j_table is None:
         return reference_stress_delta_j(dj_el_full, dsig_ref, mat, u)
     return u**2 * dj_el_full + plastic_fraction(u, mat.cyclic_curve.hardening_exponent) * (
-        _plastic_ref(dj_el_full, dsig_ref, mat)
+        _plastic_full(specimen, a, dp_full, dj_el_full, j_table)
     )
+
+
+def _plastic_full(specimen, a, dp, dj_el, j_table):
+    """Plastic part of ΔJ [kJ/m²] for the full load range ``dp`` [N]: the finite-element
+    table's (g − 1)·ΔJ_el (the stepper's look-up) or the cyclic reference stress term."""
+    geo, mat = specimen.geometry, specimen.material
+    ds = dp * geo.nominal_stress_per_force()
+    if j_table is not None:
+        from cycj.fe.lookup import table_ratio
+
+        g = table_ratio(j_table, geo, mat.yield_strength, a, ds, 0)
+        return np.maximum(g - 1.0, 0.0) * dj_el
+    dsig = ds * mat.yield_strength / geo.limit_stress(a, mat.yield_strength)
+    return _plastic_ref(dj_el, dsig, mat)
 
 
 def _plastic_ref(dj_el, dsig_ref, mat):
@@ -130,6 +146,7 @@ def simulate_test(
     rate_floor=2e-8,
     start_cycle=0,
     seed=0,
+    j_table=None,
 ):
     """Synthesise a fatigue crack growth test.
 
@@ -151,6 +168,9 @@ def simulate_test(
     crack_noise : standard deviation of the crack length readings of ``crack`` [mm]
     max_cycles, rate_floor : stop when either is reached (rate_floor [mm/cycle])
     seed : random seed
+    j_table : optional finite-element J table (DataFrame with the jtable.csv columns, the
+        specimen's shape and width): the plastic part of ΔJ, and so the loops' plastic branch,
+        come from its ΔJ instead of the reference stress estimate
 
     Returns
     -------
@@ -178,7 +198,7 @@ def simulate_test(
     pmax_g = p_max * scale
     pmin_g = r_ratio * pmax_g
     pop_g = pmin_g + opening_fraction * (pmax_g - pmin_g)
-    dj_g = true_delta_j(specimen, a_grid, pmax_g, pmin_g, pop_g)
+    dj_g = true_delta_j(specimen, a_grid, pmax_g, pmin_g, pop_g, j_table)
     rate_g = np.where(dj_g > threshold, C * dj_g**m, 0.0)
     stop = np.flatnonzero(rate_g < rate_floor)
     if stop.size:
@@ -218,6 +238,7 @@ def simulate_test(
         noise_load,
         noise_disp,
         rng,
+        j_table,
     )
     raw = pd.DataFrame(
         {"cycle": np.repeat(rec, samples).astype(np.int64), "load": load, "displacement": disp}
@@ -233,21 +254,20 @@ def simulate_test(
     return SimulatedTest(raw, crack, truth)
 
 
-def _loops(specimen, a, pmax, pmin, pop, samples, kappa, noise_load, noise_disp, rng):
+def _loops(specimen, a, pmax, pmin, pop, samples, kappa, noise_load, noise_disp, rng, j_table):
     """Samples of every loop (concatenated), displacement at the specimen's measuring point."""
     mat = specimen.material
     geo = specimen.geometry
     c_pt, c_ll = point_compliance(specimen, a)
     dp = pmax - pmin
     s_op = pop - pmin
-    # plastic branch amplitude D [mm, load line] so that η·A_pl/(B_N·b) equals the reference
-    # stress plastic part of the full range (A_pl = D·ΔP/(1+n'))
+    # plastic branch amplitude D [mm, load line] so that η·A_pl/(B_N·b) equals the plastic
+    # part of ΔJ of the full range (A_pl = D·ΔP/(1+n'))
     if mat.cyclic_curve is not None:
         n_p = mat.cyclic_curve.hardening_exponent
         s_per_p = geo.nominal_stress_per_force()
         dj_el = (dp * s_per_p * geo.k_over_s(a)) ** 2 / specimen.e_prime
-        dsig = dp * s_per_p * mat.yield_strength / geo.limit_stress(a, mat.yield_strength)
-        jpl = _plastic_ref(dj_el, dsig, mat)
+        jpl = _plastic_full(specimen, a, dp, dj_el, j_table)
         b = specimen.width - a
         eta = _eta_for_sim(specimen, a)
         d_pl = (1 + n_p) * geo.dims["net_thickness"] * b * jpl / (eta * dp)

@@ -28,11 +28,24 @@ from cycj.commands.options import units_option
     type=click.Path(file_okay=False),
     help="Output folder (default: out/j-table-<case stem>).",
 )
+@click.option(
+    "--scheduler",
+    default=None,
+    help="Dask scheduler address (tcp://HOST:PORT): run the load sequences on a cluster.",
+)
+@click.option(
+    "--workers",
+    type=click.IntRange(1, 1024),
+    default=None,
+    help="Processes for the load sequences (default: all cores; the table does not change).",
+)
 @click.option("--force", is_flag=True, help="Replace a non-empty output folder.")
 @click.option("--no-plots", is_flag=True, help="Skip the PNG plots and the report.")
 @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
 @units_option
-def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json, units_system):
+def j_table(
+    case_file, sizes, loads, out_dir, scheduler, workers, force, no_plots, as_json, units_system
+):
     """Tabulate J at peak load and ΔJ for a load range by 2-D finite elements for CASE_FILE.
 
     Writes jtable.csv, jtable.json, plots and report.html to the output folder.
@@ -50,7 +63,7 @@ def j_table(case_file, sizes, loads, out_dir, force, no_plots, as_json, units_sy
         if not as_json:
             click.echo(f"  a = {a:.4g} mm done", err=True)
 
-    frame, info = compute(case, sizes, loads, progress)
+    frame, info = compute(case, sizes, loads, progress, workers=workers, scheduler=scheduler)
     from cycj.display import using
 
     with od, using(units_system or getattr(case, "report_units", None) or "SI"):

@@ -64,23 +64,81 @@ def fe_ratio(mp, a, lr, which):
     return math.exp(g0 + t * (g1 - g0))
 
 
-def pack_table(frame, geometry, sigma_y: float):
-    """The model-array tail of a J table (DataFrame with the jtable.csv columns) and, per
-    crack size, the largest L_r it covers: (tail, sizes [mm], lr_max per size).  Every size
-    needs the same number of levels (≥ 1), positive J and J_el."""
+#: columns the stepper reads from a J table
+NEEDED = ("a_mm", "nominal_stress_MPa", "J_kJm2", "dJ_kJm2", "J_el_kJm2")
+
+
+def read_table(path):
+    """A user's J table (CSV with the jtable.csv columns) as a DataFrame; a file that is not a
+    CSV table is refused in one line naming it."""
+    import pandas as pd
+
     from cycj.errors import CycjInputError
 
-    need = {"a_mm", "nominal_stress_MPa", "J_kJm2", "dJ_kJm2", "J_el_kJm2"}
-    if not need <= set(frame.columns):
+    try:
+        return pd.read_csv(path)
+    except (OSError, ValueError, pd.errors.ParserError) as exc:
+        msg = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
         raise CycjInputError(
-            "J table lacks columns", key="analysis.j_table", expected=", ".join(sorted(need))
-        )
+            f"cannot read the J table ({msg})", source=str(path), key="analysis.j_table"
+        ) from None
+
+
+def _check_frame(frame, source):
+    """Refuse missing columns, holes (empty or non-numeric cells) and load levels that do not
+    increase within a crack size, in one line naming the file and the first bad row."""
+    import pandas as pd
+
+    from cycj.errors import CycjInputError
+
+    def bad(message, **kw):
+        return CycjInputError(message, source=source, key="analysis.j_table", **kw)
+
+    missing = [c for c in NEEDED if c not in frame.columns]
+    if missing:
+        raise bad("J table lacks columns " + ", ".join(missing), expected=", ".join(NEEDED))
+    if len(frame) == 0:
+        raise bad("J table has no rows", expected="rows of " + ", ".join(NEEDED))
+    for c in NEEDED:
+        vals = pd.to_numeric(frame[c], errors="coerce").to_numpy(float)
+        holes = np.flatnonzero(~np.isfinite(vals))
+        if len(holes):
+            row = int(holes[0])
+            raise bad(
+                f"J table has a hole in column {c} at data row {row + 1} (line {row + 2})",
+                expected="a number in every cell",
+                found=frame[c].iloc[row],
+            )
+    frame = frame.astype({c: float for c in NEEDED})
+    for a, g in frame.groupby("a_mm", sort=True):
+        s = g["nominal_stress_MPa"].to_numpy(float)
+        steps = np.flatnonzero(np.diff(s) <= 0)
+        if len(steps):
+            row = int(g.index[steps[0] + 1])
+            raise bad(
+                f"J table loads at a = {a:.6g} mm do not increase at data row {row + 1} "
+                f"(line {row + 2})",
+                expected="nominal_stress_MPa rising row by row within each crack size",
+                found=float(s[steps[0] + 1]),
+            )
+    return frame
+
+
+def pack_table(frame, geometry, sigma_y: float, source=None):
+    """The model-array tail of a J table (DataFrame with the jtable.csv columns) and, per
+    crack size, the largest L_r it covers: (tail, sizes [mm], lr_max per size).  Every size
+    needs the same number of levels (≥ 1), rising loads, positive J and J_el and no holes;
+    ``source`` (the file) is named in the errors."""
+    from cycj.errors import CycjInputError
+
+    frame = _check_frame(frame, source)
     sizes = np.unique(frame["a_mm"].to_numpy(float))
-    groups = [frame[frame["a_mm"] == a].sort_values("nominal_stress_MPa") for a in sizes]
+    groups = [frame[frame["a_mm"] == a] for a in sizes]
     nl = len(groups[0])
     if any(len(g) != nl for g in groups) or nl < 1:
         raise CycjInputError(
             "every crack size of the J table needs the same number of load levels",
+            source=source,
             key="analysis.j_table",
         )
     tail = [float(len(sizes)), float(nl), *sizes]
@@ -91,9 +149,34 @@ def pack_table(frame, geometry, sigma_y: float):
         j, dj = g["J_kJm2"].to_numpy(float), g["dJ_kJm2"].to_numpy(float)
         if np.any(s <= 0) or np.any(jel <= 0) or np.any(j <= 0) or np.any(dj <= 0):
             raise CycjInputError(
-                "J table values must be positive", key="analysis.j_table", found=f"a = {a}"
+                "J table values must be positive",
+                source=source,
+                key="analysis.j_table",
+                found=f"a = {a}",
             )
         lr = s / float(geometry.limit_stress(a, sigma_y))
         tail += [*np.log(lr), *np.log(dj / jel), *np.log(j / jel)]
         lr_top.append(float(lr[-1]))
     return np.array(tail), sizes, np.array(lr_top)
+
+
+def table_ratio(frame, geometry, sigma_y: float, a, s, which: int = 0, source=None):
+    """g = J_FE/J_el from a J table at crack sizes ``a`` [mm] and nominal stresses ``s``
+    [MPa] (arrays; ``which`` 0: ΔJ for the range ``s``, 1: J at the peak ``s``), by the
+    stepper's own compiled look-up (:func:`fe_ratio`); refuses sizes or L_r beyond the table."""
+    from cycj.errors import CycjInputError
+
+    tail, sizes, lr_top = pack_table(frame, geometry, sigma_y, source)
+    mp = np.concatenate([np.zeros(FE_NA), tail])  # the tail starts at slot FE_NA
+    a, s = np.broadcast_arrays(np.asarray(a, float), np.asarray(s, float))
+    lr = s / np.asarray(geometry.limit_stress(a, sigma_y), float)
+    top = np.interp(a, sizes, lr_top)
+    if np.any(a < sizes[0] * (1 - 1e-9)) or np.any(a > sizes[-1] * (1 + 1e-9)):
+        raise CycjInputError("crack sizes beyond the J table (no extrapolation)", source=source)
+    if np.any(lr > top * (1 + 1e-9)):
+        raise CycjInputError(
+            f"L_r {float(np.max(lr)):.4g} beyond the J table (no extrapolation)", source=source
+        )
+    pairs = zip(a.ravel(), lr.ravel(), strict=True)
+    out = np.array([fe_ratio(mp, float(x), float(y), which) for x, y in pairs])
+    return out.reshape(a.shape)

@@ -34,8 +34,9 @@ import numpy as np
 from cycj.errors import CycjInputError
 from cycj.fe.domain import j_domains
 from cycj.fe.law import DeformationLaw
+from cycj.fe.parallel import processes, run_jobs
 from cycj.fe.shapes import FE_SHAPES, build
-from cycj.fe.solver import solve_loads
+from cycj.fe.solver import Unconverged, linear_solver, solve_loads
 
 COLUMNS = (
     "a_mm",
@@ -76,19 +77,23 @@ def laws(material, plane_strain: bool):
     return law_j, law_dj, which
 
 
-def solve_series(shape, width, a, law, stresses, *, refine=1, domains=4, span=None):
+def solve_series(shape, width, a, law, stresses, *, refine=1, domains=4, span=None, linear="reuse"):
     """J [kJ/m²] and domain spread at nominal stresses ``stresses`` [MPa] (any order), with
-    the mesh size, Newton iterations and seconds of each level."""
+    the mesh size, Newton iterations and seconds of each level.  Raises
+    :class:`cycj.errors.ValidityRangeError` naming the crack size, the nominal stress that
+    failed, the last one reached and why, when Newton does not converge."""
     t0 = time.perf_counter()
     pb = build(shape, width, a, law, refine=refine, span=span)
     order = np.argsort(stresses)
     try:
-        sols = solve_loads(pb, np.asarray(stresses, float)[order])
-    except RuntimeError as exc:
+        lin = linear_solver(pb, linear)
+        sols = solve_loads(pb, np.asarray(stresses, float)[order], linear=lin)
+    except Unconverged as exc:
         from cycj.errors import ValidityRangeError
 
         raise ValidityRangeError(
-            f"finite-element solution at a = {a:.6g} mm did not converge ({exc}); "
+            f"finite-element solution at a = {a:.6g} mm did not converge at nominal stress "
+            f"{exc.target:.6g} MPa (last converged {exc.reached:.6g} MPa: {exc.reason}); "
             "lower the largest load ([fe] loads or nominal_stresses)"
         ) from None
     j = np.empty(len(order))
@@ -104,6 +109,7 @@ def solve_series(shape, width, a, law, stresses, *, refine=1, domains=4, span=No
         "dofs": int(pb.n_dofs),
         "rings": int(len(pb.mesh.ring_sizes) - 1),
         "newton_iterations": iters.tolist(),
+        "linear_solver": {"method": linear, **lin.stats},
         "seconds": secs.tolist(),
         "total_seconds": time.perf_counter() - t0,
     }
@@ -165,8 +171,12 @@ def load_levels(case, a, loads=None, fe=None):
     return s_l * np.geomspace(LR_LOW, LR_HIGH, n) if n > 1 else np.array([LR_LOW * s_l])
 
 
-def compute(case, sizes=None, loads=None, progress=None):
-    """The J table (DataFrame with :data:`COLUMNS`) and its run information (dict)."""
+def compute(case, sizes=None, loads=None, progress=None, *, workers=None, scheduler=None):
+    """The J table (DataFrame with :data:`COLUMNS`) and its run information (dict).
+
+    The load sequences (two per crack size: J and ΔJ) run in ``workers`` processes (default:
+    the usable cores) or on the Dask ``scheduler`` (:mod:`cycj.fe.parallel`); the table is
+    the same either way."""
     import pandas as pd
 
     from cycj.fe.inputs import read_fe
@@ -181,15 +191,19 @@ def compute(case, sizes=None, loads=None, progress=None):
     e_prime = mat.effective_modulus(geo.plane_strain)
     width = geo.dims["width"]
     span = geo.dims.get("span")
+    t0 = time.perf_counter()
+    sizes_mm = crack_sizes(case, sizes)
+    levels = [load_levels(case, a, loads, fe) for a in sizes_mm]
+    common = {"refine": fe.refine, "domains": fe.domains, "span": span}
+    jobs = [
+        dict(shape=geo.shape.name, width=width, a=float(a), law=law, stresses=s, **common)
+        for a, s in zip(sizes_mm, levels, strict=True)
+        for law in (law_j, law_dj)
+    ]
+    results = run_jobs(jobs, workers, scheduler)
     rows, runs = [], []
-    for a in crack_sizes(case, sizes):
-        s = load_levels(case, a, loads, fe)
-        j, sp_j, info_j = solve_series(
-            geo.shape.name, width, a, law_j, s, refine=fe.refine, domains=fe.domains, span=span
-        )
-        dj, sp_dj, info_dj = solve_series(
-            geo.shape.name, width, a, law_dj, s, refine=fe.refine, domains=fe.domains, span=span
-        )
+    for i, (a, s) in enumerate(zip(sizes_mm, levels, strict=True)):
+        (j, sp_j, info_j), (dj, sp_dj, info_dj) = results[2 * i], results[2 * i + 1]
         j_el = (s * geo.k_over_s(a)) ** 2 / e_prime
         j_ref = np.atleast_1d(j_max(geo, mat, np.full(len(s), a), s))
         for k in range(len(s)):
@@ -212,11 +226,15 @@ def compute(case, sizes=None, loads=None, progress=None):
         "worst_domain_spread": float(frame["domain_spread"].max()),
         "dofs_max": max(r["J"]["dofs"] for r in runs),
         "seconds": sum(r["J"]["total_seconds"] + r["dJ"]["total_seconds"] for r in runs),
+        "wall_seconds": time.perf_counter() - t0,
+        "parallel": "dask"
+        if scheduler is not None
+        else f"{processes(workers, len(jobs))} processes",
     }
     return frame.reset_index(drop=True), info
 
 
-def j_table(case, sizes=None, loads=None):
+def j_table(case, sizes=None, loads=None, *, workers=None, scheduler=None):
     """J and ΔJ by finite elements for ``case`` (a :class:`cycj.case.Case` or a path).
 
     Parameters
@@ -224,6 +242,8 @@ def j_table(case, sizes=None, loads=None):
     case : Case or path of a case file
     sizes : None, a count, or crack sizes [mm] (half length for center-crack-plate)
     loads : None, a count of load levels per size, or loads [N]
+    workers : processes for the load sequences (default: the usable cores)
+    scheduler : Dask scheduler address or client (the sequences run there instead)
 
     Returns
     -------
@@ -234,4 +254,4 @@ def j_table(case, sizes=None, loads=None):
         from cycj.case import load_case
 
         case = load_case(case)
-    return compute(case, sizes, loads)[0]
+    return compute(case, sizes, loads, workers=workers, scheduler=scheduler)[0]

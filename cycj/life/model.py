@@ -147,14 +147,12 @@ def fe_table_tail(case: Case, loads: BlockLoads | None) -> np.ndarray:
     """The J table of j_method "finite-element" packed for the kernels: read from
     ``[analysis] j_table`` or computed by finite elements (:func:`cycj.fe.table.compute`);
     refuses a table that does not span the run's crack sizes or its loads' L_r."""
-    import pandas as pd
-
     from cycj.errors import CycjInputError
-    from cycj.fe.lookup import pack_table
+    from cycj.fe.lookup import pack_table, read_table
 
     geo, sy = case.geometry, case.material.yield_strength
     if case.analysis.j_table is not None:
-        frame = pd.read_csv(case.analysis.j_table)
+        frame = read_table(case.analysis.j_table)
     else:
         from cycj.fe.table import compute
 
@@ -162,7 +160,7 @@ def fe_table_tail(case: Case, loads: BlockLoads | None) -> np.ndarray:
             _FE_TABLES.clear()
             _FE_TABLES[id(case)] = (case, compute(case)[0])
         frame = _FE_TABLES[id(case)][1]
-    tail, sizes, lr_top = pack_table(frame, geo, sy)
+    tail, sizes, lr_top = pack_table(frame, geo, sy, case.analysis.j_table)
     a0, a_end = geo.crack_length, size_limit(case)[0]
     if a0 < sizes[0] * (1 - 1e-9) or a_end > sizes[-1] * (1 + 1e-9):
         raise CycjInputError(
