@@ -200,10 +200,11 @@ def fit_logs(
     try:
         direct = ft.direct_fit(series, c0, m0, confidence, free_start=free_start)
         curves = direct.pop("curves")
-        direct["dJ_range_kJm2"] = [
-            float(reduced["dJ_eff_kJm2"].min()),
-            float(reduced["dJ_eff_kJm2"].max()),
-        ]
+        dj = reduced["dJ_eff_kJm2"].to_numpy(float)
+        dj = dj[np.isfinite(dj) & (dj > 0.0)]
+        if dj.size == 0:
+            raise ValueError("no reading has a positive finite ΔJ_eff")
+        direct["dJ_range_kJm2"] = [float(dj.min()), float(dj.max())]
         fits["direct"] = direct
     except (ValueError, np.linalg.LinAlgError) as exc:
         warnings.append(f"direct fit on a(N) failed: {exc}")

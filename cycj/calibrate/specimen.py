@@ -94,7 +94,9 @@ def read_specimen(path) -> Specimen:
     )
     e = t.quantity("elastic_modulus", "stress", required=True, positive=True)
     nu = t.number("poisson_ratio", default=0.3, lo=(0.0, "0"), hi=(0.4999, "0.5"))
-    sy = t.quantity("yield_strength", "stress", required=True, positive=True)
+    sy = t.quantity(
+        "yield_strength", "stress", required=True, lo=(1e-3, "0.001 MPa"), hi=(1e5, "100 GPa")
+    )
     su = t.quantity("tensile_strength", "stress", positive=True)
     cyc = None
     ct = t.table("cyclic_curve")

@@ -63,7 +63,9 @@ def j_table(
         if not as_json:
             click.echo(f"  a = {a:.4g} mm done", err=True)
 
-    frame, info = compute(case, sizes, loads, progress, workers=workers, scheduler=scheduler)
+    frame, info = compute(
+        case, sizes, loads, progress, workers=workers or None, scheduler=scheduler
+    )
     from cycj.display import using
 
     with od, using(units_system or getattr(case, "report_units", None) or "SI"):

@@ -171,12 +171,13 @@ def load_levels(case, a, loads=None, fe=None):
     return s_l * np.geomspace(LR_LOW, LR_HIGH, n) if n > 1 else np.array([LR_LOW * s_l])
 
 
-def compute(case, sizes=None, loads=None, progress=None, *, workers=None, scheduler=None):
+def compute(case, sizes=None, loads=None, progress=None, *, workers=1, scheduler=None):
     """The J table (DataFrame with :data:`COLUMNS`) and its run information (dict).
 
-    The load sequences (two per crack size: J and ΔJ) run in ``workers`` processes (default:
-    the usable cores) or on the Dask ``scheduler`` (:mod:`cycj.fe.parallel`); the table is
-    the same either way."""
+    The load sequences (two per crack size: J and ΔJ) run in ``workers`` processes (default
+    1: in this process, which is safe in a script without a ``__main__`` guard; None: the
+    usable cores, as ``cycj j-table`` does) or on the Dask ``scheduler``
+    (:mod:`cycj.fe.parallel`); the table is the same either way."""
     import pandas as pd
 
     from cycj.fe.inputs import read_fe
@@ -234,7 +235,7 @@ def compute(case, sizes=None, loads=None, progress=None, *, workers=None, schedu
     return frame.reset_index(drop=True), info
 
 
-def j_table(case, sizes=None, loads=None, *, workers=None, scheduler=None):
+def j_table(case, sizes=None, loads=None, *, workers=1, scheduler=None):
     """J and ΔJ by finite elements for ``case`` (a :class:`cycj.case.Case` or a path).
 
     Parameters
@@ -242,7 +243,9 @@ def j_table(case, sizes=None, loads=None, *, workers=None, scheduler=None):
     case : Case or path of a case file
     sizes : None, a count, or crack sizes [mm] (half length for center-crack-plate)
     loads : None, a count of load levels per size, or loads [N]
-    workers : processes for the load sequences (default: the usable cores)
+    workers : processes for the load sequences (default 1, in this process; None: the usable
+        cores — worker processes are spawned, so a script needs an ``if __name__ ==
+        "__main__":`` guard)
     scheduler : Dask scheduler address or client (the sequences run there instead)
 
     Returns

@@ -78,7 +78,8 @@ def test_bad_user_table_is_one_line_exit_2_nothing_written(tmp_path, capsys, tex
 
 
 def test_good_user_table_runs(tmp_path, capsys):
-    code, _, err = run_cli(["run", _case(tmp_path, _csv(_rows())), "--no-plots"], capsys)
+    case = _case(tmp_path, _csv(_rows()))
+    code, _, err = run_cli(["run", case, "--out", tmp_path / "out", "--no-plots"], capsys)
     assert code == 0, err
 
 

@@ -267,7 +267,7 @@ def test_budget_reached_is_said_in_headline_json_and_report(tmp_path):
     s = r.summary
     assert s["recommendation"]["budget_reached"] and not s["recommendation"]["converged"]
     assert s["samples_used"] == 4000
-    assert "sample budget (4000) was reached" in answer_sentence(s)
+    assert "sample budget (4,000) was reached" in answer_sentence(s)
     assert any(w.startswith("sample budget reached") for w in s["warnings"])
     write_plan(r, case, tmp_path / "out")
     plan = json.loads((tmp_path / "out" / "plan.json").read_text())

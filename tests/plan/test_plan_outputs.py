@@ -38,8 +38,11 @@ def test_pod_plot_draws_the_curve_used_and_its_a90_95_bound(model):
     assert _line_at(bound, a90_95) == pytest.approx(0.9 * 0.95, abs=2e-3)
     for a in (a90 / 2, a90, a90_95):  # a lower bound at every size
         assert _line_at(bound, a) < _line_at(used, a)
+    assert "used in the plan" in bound.get_label()
+    # a plan on the curve itself still draws the bound it was given, not labelled as used
     ax_plain = P.pod_used(summary, lower_bound=False).axes[0]
-    assert len([ln for ln in ax_plain.get_lines() if len(ln.get_xdata()) > 2]) == 1
+    plain = [ln for ln in ax_plain.get_lines() if len(ln.get_xdata()) > 2]
+    assert len(plain) == 2 and "used in the plan" not in plain[1].get_label()
 
 
 def test_pof_per_period_plot_draws_the_rows():
