@@ -88,13 +88,24 @@ def elber_u(r):
 
 
 @jit(inline="always")
+def newman_terms(alpha):
+    """The α terms of Newman's A_0 and A_1: 0.825 − 0.34α + 0.05α², 0.415 − 0.071α, 1/α."""
+    return 0.825 - 0.34 * alpha + 0.05 * alpha * alpha, 0.415 - 0.071 * alpha, 1.0 / alpha
+
+
+@jit(inline="always")
 def newman_opening_ratio(r, smax_flow, alpha):
     """Newman's S_o/S_max for stress ratio R (−1 ≤ R < 1), S_max/σ_0 (≤ 0.8) and constraint
     factor α (1 plane stress … 3 plane strain); never below R (S_o ≥ S_min)."""
-    a0 = (0.825 - 0.34 * alpha + 0.05 * alpha * alpha) * math.cos(0.5 * math.pi * smax_flow) ** (
-        1.0 / alpha
-    )
-    a1 = (0.415 - 0.071 * alpha) * smax_flow
+    c0, c1, inv_alpha = newman_terms(alpha)
+    return newman_opening_ratio_hoisted(r, smax_flow, c0, c1, inv_alpha)
+
+
+@jit(inline="always")
+def newman_opening_ratio_hoisted(r, smax_flow, c0, c1, inv_alpha):
+    """:func:`newman_opening_ratio` given its α terms (:func:`newman_terms`)."""
+    a0 = c0 * math.cos(0.5 * math.pi * smax_flow) ** inv_alpha
+    a1 = c1 * smax_flow
     a3 = 2.0 * a0 + a1 - 1.0
     a2 = 1.0 - a0 - a1 - a3
     if r >= 0.0:
@@ -108,6 +119,12 @@ def newman_opening_ratio(r, smax_flow, alpha):
 def newman_u(r, smax_flow, alpha):
     """U = (1 − S_o/S_max)/(1 − R) from Newman's opening function."""
     return (1.0 - newman_opening_ratio(r, smax_flow, alpha)) / (1.0 - r)
+
+
+@jit(inline="always")
+def newman_u_hoisted(r, smax_flow, c0, c1, inv_alpha):
+    """:func:`newman_u` given the α terms (:func:`newman_terms`)."""
+    return (1.0 - newman_opening_ratio_hoisted(r, smax_flow, c0, c1, inv_alpha)) / (1.0 - r)
 
 
 def _chain_of_openings(added):
@@ -147,6 +164,17 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
     compressive part is excluded (S_op = 0) unless ``include_compressive``.  An unknown code
     is an error.
     """
+    c0, c1, inv_alpha = newman_terms(alpha)
+    return opening_fraction_hoisted(
+        model, smax, smin, smax_flow, u_const, alpha, include_compressive, c0, c1, inv_alpha
+    )
+
+
+@jit(inline="always")
+def opening_fraction_hoisted(
+    model, smax, smin, smax_flow, u_const, alpha, include_compressive, c0, c1, inv_alpha
+):
+    """:func:`opening_fraction` given Newman's α terms (:func:`newman_terms`)."""
     ds = smax - smin
     if ds <= 0.0 or smax <= 0.0:
         return 1.0, 0
@@ -170,7 +198,7 @@ def opening_fraction(model, smax, smin, smax_flow, u_const, alpha, include_compr
         sf = smax_flow
         if sf > 0.8:
             sf, clipped = 0.8, 1
-        x = 1.0 - newman_u(r, sf, alpha)
+        x = 1.0 - newman_u_hoisted(r, sf, c0, c1, inv_alpha)
         return min(max(x, 0.0), 1.0), clipped
     x = _extension_opening(model, r, smax_flow, u_const, alpha)
     if x < 0.0:

@@ -28,6 +28,11 @@ import numpy as np
 
 from cycj._jit import jit, ufunc
 from cycj.errors import ValidityRangeError
+from cycj.jintegral_hoisted import (
+    j_peak_hoisted,
+    plastic_fraction_hoisted,
+    reference_stress_delta_j_hoisted,
+)
 from cycj.material import masing_plastic_strain_range
 from cycj.models import register
 
@@ -136,12 +141,7 @@ def delta_j_elastic_scalar(delta_k, e_prime):
 def plastic_fraction_scalar(u, n_prime):
     """f_pl = 1 − (1+n')x + n'x^(1+1/n'), x = 1 − U: the share of the Masing branch's plastic
     work (from the minimum) that lies above the opening load.  U in [0, 1], 0 < n' ≤ 1."""
-    x = 1.0 - u
-    if x <= 0.0:
-        return 1.0
-    if x >= 1.0:
-        return 0.0
-    return 1.0 - (1.0 + n_prime) * x + n_prime * x ** (1.0 + 1.0 / n_prime)
+    return plastic_fraction_hoisted(u, n_prime, 1.0 + 1.0 / n_prime)
 
 
 @jit
@@ -151,23 +151,10 @@ def reference_stress_delta_j_scalar(dj_el, dsig_ref, e_mod, k_prime, n_prime, u)
     ΔJ_eff = U²·ΔJ_el·[1 + ½L_r,cyc²·Δσ_ref/(EΔε_ref)] + f_pl·ΔJ_el·EΔε_p,ref/Δσ_ref,
     Δε_ref = Δσ_ref/E + 2(Δσ_ref/2K')^(1/n'), L_r,cyc = Δσ_ref/(2σ'_y), σ'_y = K'·0.002^n'.
     """
+    sy_cyc, inv_n = k_prime * 0.002**n_prime, 1.0 / n_prime
     return reference_stress_delta_j_hoisted(
-        dj_el, dsig_ref, e_mod, k_prime, n_prime, u, k_prime * 0.002**n_prime, 1.0 / n_prime
+        dj_el, dsig_ref, e_mod, k_prime, n_prime, u, sy_cyc, inv_n, 1.0 + inv_n
     )
-
-
-@jit(inline="always")
-def reference_stress_delta_j_hoisted(dj_el, dsig_ref, e_mod, k_prime, n_prime, u, sy_cyc, inv_n):
-    """:func:`reference_stress_delta_j_scalar` given the loop invariants ``sy_cyc`` = K'·0.002^n'
-    [MPa] and ``inv_n`` = 1/n' (held in the stepper's model array)."""
-    if dsig_ref <= 0.0:
-        return u * u * dj_el
-    dep = 2.0 * (0.5 * dsig_ref / k_prime) ** inv_n  # masing_plastic_strain_range
-    de_ref = dsig_ref / e_mod + dep
-    lr_cyc = dsig_ref / (2.0 * sy_cyc)
-    elastic_part = dj_el * (1.0 + 0.5 * lr_cyc * lr_cyc * dsig_ref / (e_mod * de_ref))
-    plastic_part = dj_el * e_mod * dep / dsig_ref
-    return u * u * elastic_part + plastic_fraction_scalar(u, n_prime) * plastic_part
 
 
 @jit
@@ -210,11 +197,7 @@ def j_peak_scalar(j_el, lr, sigma_y, e_mod, k, n):
 
     σ_ref = L_r·σ_y, ε_ref = σ_ref/E + (σ_ref/K)^(1/n) on the monotonic (or cyclic) curve.
     """
-    if lr <= 0.0:
-        return j_el
-    s_ref = lr * sigma_y
-    e_ref = s_ref / e_mod + (s_ref / k) ** (1.0 / n)
-    return j_el * (e_mod * e_ref / s_ref + 0.5 * lr * lr * s_ref / (e_mod * e_ref))
+    return j_peak_hoisted(j_el, lr, sigma_y, e_mod, k, 1.0 / n)
 
 
 # --------------------------------------------------------------------------- vectorised API

@@ -61,11 +61,18 @@ CH_SECONDARY = CH_PB + MAX_CHANNELS
 #: criterion (``inf`` and END_SIZE when unknown)
 A_CRIT = CH_SECONDARY + MAX_CHANNELS
 CRIT_CODE = A_CRIT + 1
-#: loop invariants of the cyclic curve, filled once by cycj.life.model_array: the cyclic yield
-#: K'·0.002^n' [MPa] and 1/n'
+#: loop invariants, filled once by cycj.life.model_array (the stepper reads them instead of
+#: recomputing them each cycle): the cyclic yield K'·0.002^n' [MPa], 1/n', the exponent
+#: 1 + 1/n' of the plastic fraction, 1/n of the peak curve, and Newman's α terms
+#: 0.825 − 0.34α + 0.05α², 0.415 − 0.071α and 1/α
 SY_CYC = CRIT_CODE + 1
 INV_N_CYC = SY_CYC + 1
-N_MP = INV_N_CYC + 1
+PF_EXP = INV_N_CYC + 1
+INV_N_PEAK = PF_EXP + 1
+NEWMAN_C0 = INV_N_PEAK + 1
+NEWMAN_C1 = NEWMAN_C0 + 1
+INV_ALPHA = NEWMAN_C1 + 1
+N_MP = INV_ALPHA + 1
 #: finite-element J table (j_method "finite-element", cycj.fe.lookup): number of crack sizes,
 #: levels per size, then the table itself; cycj.life.model_array appends them (from FE_NA on)
 #: only for that method, so they lie beyond the base length N_MP

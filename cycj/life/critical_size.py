@@ -17,10 +17,25 @@ import numpy as np
 from cycj import kernel_slots as M
 from cycj._jit import jit
 from cycj.case import Case
-from cycj.end_criteria import END_NAMES
-from cycj.life import stepper as K
+from cycj.end_criteria import END_NAMES, RUNNING, end_check
 from cycj.life.loads import BlockLoads, block_loads
 from cycj.life.stepper import cycle_driving_force
+
+
+@jit
+def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
+    """Index of the first crack size in ``a_grid`` at which an end criterion trips under the
+    history's peak load (−1 if none), and its end code."""
+    row = lmax[i_peak : i_peak + 1]
+    zeros = 0.0 * row
+    for k in range(a_grid.shape[0]):
+        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(
+            row, zeros, 0, a_grid[k], code, gp, ct, mp
+        )
+        end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
+        if end != RUNNING:
+            return k, end
+    return -1, RUNNING
 
 
 def critical_crack_length(
@@ -41,7 +56,7 @@ def critical_crack_length(
     lo = geo.size_limits[0] if geo.size_limits[0] > 0 else min(geo.crack_length, 1e-3)
     top = min(mp[M.A_LIMIT], mp[M.LEAK_SIZE])
     grid = np.linspace(lo, top, 2001)
-    k, code = K.first_end(loads.lmax, loads.i_peak, grid, geo.code, geo.params, loads.ct, mp)
+    k, code = first_end(loads.lmax, loads.i_peak, grid, geo.code, geo.params, loads.ct, mp)
     if k < 0:
         return float(top), "leak" if top == mp[M.LEAK_SIZE] else "size-limit"
     if k == 0:
@@ -49,7 +64,7 @@ def critical_crack_length(
     a_lo, a_hi = grid[k - 1], grid[k]
     for _ in range(60):
         mid = 0.5 * (a_lo + a_hi)
-        kk, c = K.first_end(
+        kk, c = first_end(
             loads.lmax, loads.i_peak, np.array([mid]), geo.code, geo.params, loads.ct, mp
         )
         if kk == 0:

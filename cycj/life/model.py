@@ -15,6 +15,7 @@ from cycj import models
 from cycj.case import Case
 from cycj.citations import Citations
 from cycj.end_criteria import END_SIZE
+from cycj.growth import newman_terms
 from cycj.life.loads import BlockLoads
 
 
@@ -64,6 +65,10 @@ def choose_models(case: Case, mp: np.ndarray, cited: Citations) -> None:
     mp[M.FAD_CURVE] = cited.choose("fad", fad) if "fad" in crit else models.code("fad", fad)
 
 
+#: Newman's α terms computed in Python (the same expressions as the kernels')
+_newman_terms = getattr(newman_terms, "py_func", newman_terms)
+
+
 def model_array(
     case: Case,
     toughness_scale: float = 1.0,
@@ -84,11 +89,13 @@ def model_array(
     )
     mp[M.SY_CYC] = mp[M.K_CYC] * 0.002 ** mp[M.N_CYC]  # hoisted out of the stepper's loop
     mp[M.INV_N_CYC] = 1.0 / mp[M.N_CYC]
+    mp[M.PF_EXP] = 1.0 + 1.0 / mp[M.N_CYC]
     peak = mat.peak_curve
     # without any curve J_max is taken elastic: an enormous K makes the plastic term vanish
     mp[M.K_PEAK], mp[M.N_PEAK] = (
         (peak.strength_coefficient, peak.hardening_exponent) if peak else (1e30, 0.5)
     )
+    mp[M.INV_N_PEAK] = 1.0 / mp[M.N_PEAK]
     mp[M.FLOW_RATIO] = mat.flow_stress / mat.yield_strength
     mp[M.LR_MAX] = mat.lr_max
     mp[M.J_C] = (mat.J_c or math.inf) * toughness_scale
@@ -96,6 +103,7 @@ def model_array(
     mp[M.Q_TOUGH] = law.toughness_exponent if mat.J_c else 0.0
     mp[M.U_CONST] = ld.closure.U
     mp[M.ALPHA_NEWMAN] = case.newman_constraint_factor()[0]
+    mp[M.NEWMAN_C0], mp[M.NEWMAN_C1], mp[M.INV_ALPHA] = _newman_terms(mp[M.ALPHA_NEWMAN])
     mp[M.INCLUDE_COMP] = 1.0 if ld.compressive_part == "include" else 0.0
     crit = case.run.criteria
     mp[M.CHECK_TOUGH] = 1.0 if "toughness" in crit else 0.0

@@ -32,15 +32,15 @@ from cycj.fields.channels import channel_k
 from cycj.fields.notch import notch_delta_j_scalar
 from cycj.fields.residual import r6_rho_scalar
 from cycj.geometry.dispatch import k_over_s, k_over_s_surface, limit_stress
-from cycj.growth import opening_fraction, paris_rate_from_power
+from cycj.growth import opening_fraction_hoisted, paris_rate_from_power
 from cycj.jintegral import (
     ELASTIC,
     FINITE_ELEMENT,
     NOTCH,
     REFERENCE_STRESS,
     SMALL_CRACK,
-    j_peak_scalar,
-    plastic_fraction_scalar,
+    j_peak_hoisted,
+    plastic_fraction_hoisted,
     reference_stress_delta_j_hoisted,
     shape_small_crack_delta_j_scalar,
 )
@@ -60,7 +60,9 @@ from cycj.kernel_slots import (
     E_PRIME,
     FLOW_RATIO,
     INCLUDE_COMP,
+    INV_ALPHA,
     INV_N_CYC,
+    INV_N_PEAK,
     J_C,
     J_METHOD,
     K_CYC,
@@ -68,10 +70,12 @@ from cycj.kernel_slots import (
     LEAK_SIZE,
     M_LAW,
     N_CYC,
-    N_PEAK,
+    NEWMAN_C0,
+    NEWMAN_C1,
     NOTCH_DEPTH,
     NOTCH_KT,
     NOTCH_OWN_LONG,
+    PF_EXP,
     Q_TOUGH,
     SEQ_EXPONENT,
     SEQ_MODEL,
@@ -112,7 +116,7 @@ def k_driving_force(
     dk = kmax - kmin
     if kmax <= 0.0 or dk <= 0.0:
         return 0.0, 0.0, 0.0, 0.0, 0
-    x, clipped = opening_fraction(
+    x, clipped = opening_fraction_hoisted(
         closure if closure >= 0 else int(mp[CLOSURE]),
         kmax,
         kmin,
@@ -120,6 +124,9 @@ def k_driving_force(
         mp[U_CONST],
         mp[ALPHA_NEWMAN],
         mp[INCLUDE_COMP],
+        mp[NEWMAN_C0],
+        mp[NEWMAN_C1],
+        mp[INV_ALPHA],
     )
     u = 1.0 - x
     dj_el = dk * dk / mp[E_PRIME]
@@ -136,6 +143,7 @@ def k_driving_force(
             u,
             mp[SY_CYC],
             mp[INV_N_CYC],
+            mp[PF_EXP],
         )
     elif jm == SMALL_CRACK:
         dj = shape_small_crack_delta_j_scalar(dk, ds, mp[E_PRIME], mp[K_CYC], mp[N_CYC], u)
@@ -159,7 +167,7 @@ def k_driving_force(
         lr = lr_max * l_long
     elif jm == FINITE_ELEMENT:  # the J table's ΔJ/ΔJ_el; closure as for the reference stress
         g = fe_ratio(mp, a, lr_range, 0)
-        dj = dj_el * (u * u + plastic_fraction_scalar(u, mp[N_CYC]) * (g - 1.0))
+        dj = dj_el * (u * u + plastic_fraction_hoisted(u, mp[N_CYC], mp[PF_EXP]) * (g - 1.0))
     else:
         dj = u * u * dj_el
     j_el_max = k_used * k_used / mp[E_PRIME]
@@ -168,7 +176,7 @@ def k_driving_force(
     elif jm == FINITE_ELEMENT:
         jmax = j_el_max * fe_ratio(mp, a, lr_max, 1)
     else:
-        jmax = j_peak_scalar(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+        jmax = j_peak_hoisted(j_el_max, lr, mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[INV_N_PEAK])
     return dj, jmax, lr, j_el_max, clipped
 
 
@@ -220,10 +228,16 @@ def cycle_rate(dj, jmax, mp):
 @jit(inline="always")
 def rate_from_power(dj, djm, jmax, mp):
     """:func:`cycle_rate` given ΔJ^m already computed (the stepper needs it for ΔJ_eq too)."""
-    da = paris_rate_from_power(dj, djm, mp[C_LAW], mp[DJ_TH])
-    q = mp[Q_TOUGH]
+    return rate_given(dj, djm, jmax, mp[C_LAW], mp[DJ_TH], mp[Q_TOUGH], mp[J_C])
+
+
+@jit(inline="always")
+def rate_given(dj, djm, jmax, c, threshold, q, j_c):
+    """:func:`rate_from_power` given the law's C, ΔJ_th, q and J_c (the stepper reads them
+    once: no model array in its inner loop)."""
+    da = paris_rate_from_power(dj, djm, c, threshold)
     if q > 0.0 and da > 0.0:
-        ratio = jmax / mp[J_C]
+        ratio = jmax / j_c
         if ratio < 1.0:
             da = da / (1.0 - ratio) ** q
     return da
@@ -319,6 +333,7 @@ def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_m
         if two_d and mp[LEAK_SIZE] < a_stop:
             a_stop, stop_code = mp[LEAK_SIZE], END_LEAK
         c_stop = mp[C_LIMIT]
+        c_law, dj_th, q_tough, j_c = mp[C_LAW], mp[DJ_TH], mp[Q_TOUGH], mp[J_C]
         notch = int(mp[J_METHOD]) == NOTCH  # else the long-crack factors are 1 (hoisted)
         for _b in range(n_blocks):
             grew = False
@@ -354,7 +369,7 @@ def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_m
                         kmax, kmin, lr_max, lr_range, ds, a, dj, jmax, mp, st, gl, ll
                     )
                 djm = dj**m if dj > 0.0 else 0.0
-                da = rate_from_power(dj, djm, jmax, mp) * factor
+                da = rate_given(dj, djm, jmax, c_law, dj_th, q_tough, j_c) * factor
                 if two_d:
                     if channel_mode:
                         k1, k0 = channel_k(lmax, lmin, i, a, c, ct, mp, 1)[:2]
@@ -482,19 +497,3 @@ def peak_state(lmax, i_peak, a, code, gp, ct, mp):
     loaded from zero (the history's peak load) at crack size ``a`` (the peak row only)."""
     row = lmax[i_peak : i_peak + 1]
     return cycle_driving_force(row, 0.0 * row, 0, a, code, gp, ct, mp)
-
-
-@jit
-def first_end(lmax, i_peak, a_grid, code, gp, ct, mp):
-    """Index of the first crack size in ``a_grid`` at which an end criterion trips under the
-    history's peak load (−1 if none), and its end code."""
-    row = lmax[i_peak : i_peak + 1]
-    zeros = 0.0 * row
-    for k in range(a_grid.shape[0]):
-        dj, jmax, lr, jel, clipped, rho = cycle_driving_force(
-            row, zeros, 0, a_grid[k], code, gp, ct, mp
-        )
-        end, val = end_check(a_grid[k], jmax, lr, jel, rho, mp)
-        if end != RUNNING:
-            return k, end
-    return -1, RUNNING
