@@ -13,19 +13,14 @@ from __future__ import annotations
 import os
 
 from cycj.errors import CycjInputError
+from cycj.workers import usable_cores
 
 _THREAD_VARS = ("OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS")
 
 
 def cores() -> int:
-    """Usable cores: ``CYCJ_WORKERS`` if set, else the cores this process may run on."""
-    raw = os.environ.get("CYCJ_WORKERS", "").strip()
-    if raw.isdigit() and int(raw) > 0:
-        return int(raw)
-    try:
-        return max(len(os.sched_getaffinity(0)), 1)
-    except AttributeError:  # pragma: no cover - not on Linux
-        return max(os.cpu_count() or 1, 1)
+    """Usable cores (:func:`cycj.workers.usable_cores`)."""
+    return usable_cores()
 
 
 def processes(workers, n_jobs: int) -> int:

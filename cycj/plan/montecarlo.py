@@ -32,7 +32,6 @@ References
 from __future__ import annotations
 
 import math
-import os
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -243,14 +242,10 @@ def _add(total: dict | None, part: dict) -> dict:
 
 
 def default_workers() -> int:
-    """Threads for in-process chunks: ``CYCJ_WORKERS`` if set, else the usable cores."""
-    raw = os.environ.get("CYCJ_WORKERS", "").strip()
-    if raw.isdigit() and int(raw) > 0:
-        return int(raw)
-    try:
-        return max(len(os.sched_getaffinity(0)), 1)
-    except AttributeError:  # pragma: no cover - not on Linux
-        return max(os.cpu_count() or 1, 1)
+    """Threads for in-process chunks (:func:`cycj.workers.usable_cores`)."""
+    from cycj.workers import usable_cores
+
+    return usable_cores()
 
 
 class Runner:
