@@ -112,11 +112,7 @@ def scatter_and_intervals(
             "interval_method": iv["method"],
             "interval_note": iv["note"],
         }
-    if iv["G"] == 1:
-        warnings.append(
-            "one specimen: the intervals are those of its own constants (moving-block "
-            "bootstrap); the scatter between specimens is unknown"
-        )
+    _warn_one_specimen(iv, warnings)
     per_spec, between = between_specimen(groups, m, confidence)
     return best, iv, per_spec, between
 
@@ -149,11 +145,7 @@ def _direct(fit, series, labels, confidence, resamples, seed, dJ_at, warnings):
         "interval_method": iv["method"],
         "interval_note": iv["note"],
     }
-    if iv["G"] == 1:
-        warnings.append(
-            "one specimen: the intervals are those of its own constants (moving-block "
-            "bootstrap); the scatter between specimens is unknown"
-        )
+    _warn_one_specimen(iv, warnings)
     return (
         best,
         iv,
@@ -171,3 +163,13 @@ def _no_between(n, note):
         "m_fixed": None,
         "note": note,
     }
+
+
+def _warn_one_specimen(iv, warnings):
+    """Say, for an interval from one specimen, that it cannot tell the scatter between
+    specimens."""
+    if iv["G"] == 1:
+        warnings.append(
+            "one specimen: the intervals are those of its own constants (moving-block "
+            "bootstrap); the scatter between specimens is unknown"
+        )

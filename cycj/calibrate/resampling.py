@@ -202,22 +202,30 @@ def resampled_intervals(x, y, *, x_at, confidence=0.95, resamples=1000, seed=0):
         )
     cov = np.cov(np.stack([lb, mb])) * infl**2
     cov[0, 0] = se_l**2
-    rate = fit["lnC"] + fit["m"] * x_at
     return {
         **fit,
         "method": method,
         "note": note,
-        "m_interval": [fit["m"] - q * se_m, fit["m"] + q * se_m],
-        "lnC_interval": [fit["lnC"] - q * se_l, fit["lnC"] + q * se_l],
+        **_interval_record(fit["m"], fit["lnC"], se_m, se_l, x_at, se_r, q, cov),
+        "dof": dof,
+        "resamples": int(ok.sum()),
+        "block_length": blocks,
+        "confidence": confidence,
+    }
+
+
+def _interval_record(m, lnc, se_m, se_l, x_at, se_r, q, cov) -> dict:
+    """The interval keys shared by every resampling result: m, ln C and ln da/dN at ``x_at``
+    (ln ΔJ) ± q standard errors, the standard errors and the covariance of (ln C, m)."""
+    rate = lnc + m * x_at
+    return {
+        "m_interval": [m - q * se_m, m + q * se_m],
+        "lnC_interval": [lnc - q * se_l, lnc + q * se_l],
         "ln_rate_at": rate.tolist(),
         "ln_rate_interval": [(rate - q * se_r).tolist(), (rate + q * se_r).tolist()],
         "se_m": se_m,
         "se_lnC": se_l,
         "cov_lnC_m": cov.tolist(),
-        "dof": dof,
-        "resamples": int(ok.sum()),
-        "block_length": blocks,
-        "confidence": confidence,
     }
 
 
@@ -368,7 +376,6 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         if g >= CLUSTER_MIN:  # the within-test resampling, for the mixed-effects estimate
             sc, own_c, _ = _residual_draws(blocks, uperp, resamples, rng)
         mixed = _mixed_effects(lnc_i, np.std(own_c, axis=0, ddof=1), k, m, sc, h, x_at, confidence)
-    rate = lnc + m * x_at
     return {
         "m": m,
         "lnC": lnc,
@@ -380,13 +387,7 @@ def direct_intervals(fit, *, x_at, confidence=0.95, resamples=1000, seed=0):
         "G": g,
         "method": method,
         "note": note,
-        "m_interval": [m - q * se_m, m + q * se_m],
-        "lnC_interval": [lnc - q * se_l, lnc + q * se_l],
-        "ln_rate_at": rate.tolist(),
-        "ln_rate_interval": [(rate - q * se_r).tolist(), (rate + q * se_r).tolist()],
-        "se_m": se_m,
-        "se_lnC": se_l,
-        "cov_lnC_m": cov.tolist(),
+        **_interval_record(m, lnc, se_m, se_l, x_at, se_r, q, cov),
         "dof": dof,
         "resamples": int(resamples),
         "block_length": lens,
