@@ -57,15 +57,25 @@ def _cache_dir() -> str:
 
 os.environ.setdefault("NUMBA_CACHE_DIR", _cache_dir())
 
-import numba  # noqa: E402
-
-if numba.config.CACHE_DIR in ("", None):  # numba imported earlier without our setting
-    numba.config.CACHE_DIR = _cache_dir()
-
 JIT_DISABLED = os.environ.get("CYCJ_DISABLE_JIT", "") not in ("", "0")
 
+_NUMBA = []  # numba, once imported: a warm run served by the ahead-of-time copy never imports it
 
-def _compile_notice() -> None:
+
+def numba_module():
+    """numba, imported on first need (with cycj's cache folder and the compile notice)."""
+    if not _NUMBA:
+        import numba
+
+        if numba.config.CACHE_DIR in ("", None):  # numba imported earlier without our setting
+            numba.config.CACHE_DIR = _cache_dir()
+        if os.environ.get("CYCJ_COMPILE_NOTICE", "") not in ("", "0"):
+            _compile_notice(numba)
+        _NUMBA.append(numba)
+    return _NUMBA[0]
+
+
+def _compile_notice(numba) -> None:
     """One line on stderr the first time a kernel is really compiled (a cache miss; loading
     from the cache says nothing).  On when ``CYCJ_COMPILE_NOTICE`` is set (the command line
     sets it)."""
@@ -92,19 +102,22 @@ def _compile_notice() -> None:
     event.register("numba:compile", _Once())
 
 
-if os.environ.get("CYCJ_COMPILE_NOTICE", "") not in ("", "0") and not JIT_DISABLED:
-    _compile_notice()
-
-
 def jit(func=None, **options):
-    """Compile ``func`` with numba (nopython, cached), or return it unchanged when disabled."""
+    """Compile ``func`` with numba (nopython, cached), or return it unchanged when disabled.
+
+    The result is a :class:`cycj._ahead.Kernel`: called from Python it runs the ahead-of-time
+    copy of its machine code when one was built for the arguments' types (no numba import),
+    else numba's dispatcher (compiled, or loaded from numba's cache, on first use); called
+    from another kernel numba sees it as that dispatcher."""
 
     def wrap(f):
         if JIT_DISABLED:
             return f
+        from cycj._ahead import Kernel
+
         opts = {"cache": True, "nogil": True, "error_model": "numpy"}
         opts.update(options)
-        return numba.njit(**opts)(f)
+        return Kernel(f, opts)
 
     return wrap if func is None else wrap(func)
 
@@ -125,7 +138,7 @@ class _LazyUfunc:
             else:
                 nargs = self.src.__code__.co_argcount
                 sig = "float64(" + ",".join(["float64"] * nargs) + ")"
-                self.built = numba.vectorize([sig], cache=True)(self.src)
+                self.built = numba_module().vectorize([sig], cache=True)(self.src)
         return self.built(*args)
 
 

@@ -65,6 +65,9 @@ def main(argv=None):
     os.environ.setdefault("CYCJ_COMPILE_NOTICE", "1")
     try:
         rv = cli.main(args=argv, prog_name="cycj", standalone_mode=False)
+        from cycj import _ahead
+
+        _ahead.save_if_asked(lambda line: click.echo(line, err=True))
     except click.exceptions.Abort:
         click.echo("cycj: stopped by the user", err=True)
         sys.exit(130)

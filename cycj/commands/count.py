@@ -85,9 +85,12 @@ def count(
     import contextlib
     import tempfile
 
+    from cycj import _ahead
     from cycj.outputs import OutputDir, dumps
     from cycj.spectrum.reading import history_unit
     from cycj.spectrum.stream_count import wants_streaming
+
+    _ahead.save_after_command()  # a warm count after this one needs no numba
 
     factor, internal, kind = history_unit(unit, key="--unit")
     if not math.isfinite(scale) or scale == 0:

@@ -67,8 +67,11 @@ def run(case_files, out_dir, method, force, as_json, no_plots, scheduler, units_
 
     Writes summary.json, history.csv, plots and report.html to the output folder.
     """
+    from cycj import _ahead
     from cycj.case import load_case
     from cycj.outputs import default_out, dumps
+
+    _ahead.save_after_command()  # a warm run after this one needs no numba
 
     if len(case_files) > 1 or scheduler:
         from cycj.display import using
