@@ -167,7 +167,10 @@ def _copies_of(k: Kernel) -> dict:
     """{type key: compiled function} of the ahead-of-time copies of ``k`` (may be empty)."""
     rows = _manifest().get(kernel_id(k) or "", {})
     out = {}
-    for key, (module, name) in rows.items():
+    for key, row in rows.items():
+        if row is None:  # its build failed
+            continue
+        module, name = row
         mod = _load_module(module)
         if mod is not None and hasattr(mod, name):
             out[key] = getattr(mod, name)
@@ -216,16 +219,24 @@ def pending() -> list:
 
 
 def build(todo=None, say=None) -> int:
-    """Build one extension module with an ahead-of-time copy of every call in ``todo``
-    (default :func:`pending`) and add it to the manifest; return how many were built.
-    ``say`` gets one line before a build.  Another process building at the same time makes
-    this one skip (a lock file)."""
+    """Build an ahead-of-time copy of every call in ``todo`` (default :func:`pending`) and add
+    it to the manifest; return how many were built.  ``say`` gets the number to build first.
+    A call whose copy fails to build is listed as failed, so it is not tried again until the
+    sources change.  Another process building at the same time makes this one skip (a lock
+    file, taken over when older than 15 minutes)."""
+    import time
+
     todo = pending() if todo is None else todo
     if not todo:
         return 0
     out = folder()
     out.mkdir(parents=True, exist_ok=True)
     lock = out / "build.lock"
+    try:
+        if time.time() - lock.stat().st_mtime > 900:
+            lock.unlink(missing_ok=True)
+    except OSError:
+        pass
     try:
         fd = os.open(lock, os.O_CREAT | os.O_EXCL | os.O_WRONLY)
     except FileExistsError:
@@ -241,7 +252,7 @@ def build(todo=None, say=None) -> int:
 
 def _build_locked(todo, out: Path) -> int:
     """One extension module a call (numba's typing of one export can disturb the next in the
-    same module), then the manifest rewritten atomically."""
+    same module), the manifest rewritten atomically after each."""
     import logging
 
     from numba.pycc import CC
@@ -251,21 +262,29 @@ def _build_locked(todo, out: Path) -> int:
         manifest = json.loads((out / MANIFEST).read_text())
     except (OSError, ValueError):
         manifest = {}
-    n_modules = len({m for rows in manifest.values() for m, _ in rows.values()})
+    n_modules = sum(len(rows) for rows in manifest.values())
+    built, error = 0, None
     for i, (k, kid, key, sig) in enumerate(todo):
         name = f"cycj_ahead_{n_modules + i}"
-        cc = CC(name)
-        cc.output_dir = str(out)
-        cc.target_cpu = "host"
-        cc.verbose = False
-        cc.export("kernel", sig)(k.py_func)
-        cc.compile()
-        manifest.setdefault(kid, {})[key] = [name, "kernel"]
-    tmp = out / f"{MANIFEST}.{os.getpid()}.tmp"
-    tmp.write_text(json.dumps(manifest, indent=1, sort_keys=True))
-    os.replace(tmp, out / MANIFEST)
+        try:
+            cc = CC(name)
+            cc.output_dir = str(out)
+            cc.target_cpu = "host"
+            cc.verbose = False
+            cc.export("kernel", sig)(k.py_func)
+            cc.compile()
+            manifest.setdefault(kid, {})[key] = [name, "kernel"]
+            built += 1
+        except Exception as exc:  # no compiler, or a kernel pycc cannot take: numba serves it
+            manifest.setdefault(kid, {})[key] = None
+            error = error or exc
+        tmp = out / f"{MANIFEST}.{os.getpid()}.tmp"
+        tmp.write_text(json.dumps(manifest, indent=1, sort_keys=True))
+        os.replace(tmp, out / MANIFEST)
     _STATE.clear()
-    return len(todo)
+    if error is not None and not built:
+        raise error
+    return built
 
 
 def save_after_command() -> None:
