@@ -18,6 +18,7 @@ from a thread other than the main one use the dispatcher, which releases the GIL
 
 from __future__ import annotations
 
+import functools
 import json
 import os
 import threading
@@ -39,7 +40,29 @@ def enabled() -> bool:
 
 
 def folder() -> Path:
-    return Path(os.environ["NUMBA_CACHE_DIR"]) / "ahead"
+    """Where the copies live: in numba's cache folder (keyed on cycj's version and sources),
+    one folder a processor model and feature set, since the copies are built for this host's
+    processor (a cache folder shared between machines keeps each machine's own)."""
+    return Path(os.environ["NUMBA_CACHE_DIR"]) / f"ahead-{_host_key()}"
+
+
+@functools.cache
+def _host_key() -> str:
+    import hashlib
+
+    text = (
+        os.uname().machine if hasattr(os, "uname") else os.environ.get("PROCESSOR_IDENTIFIER", "")
+    )
+    try:
+        with open("/proc/cpuinfo", encoding="utf-8", errors="replace") as f:
+            for line in f:
+                if line.startswith(("model name", "flags", "Features", "CPU part")):
+                    text += line
+                if line.strip() == "":  # the first processor tells the model
+                    break
+    except OSError:
+        pass
+    return hashlib.sha1(text.encode()).hexdigest()[:10]
 
 
 class Kernel:
@@ -87,6 +110,18 @@ class Kernel:
 
     def __repr__(self):
         return f"<cycj kernel {self.__module__}.{self.__qualname__}>"
+
+    def __reduce__(self):  # pickled by name, as a function is
+        return _by_name, (self.__module__, self.__qualname__)
+
+
+def _by_name(module: str, qualname: str):
+    import importlib
+
+    obj = importlib.import_module(module)
+    for part in qualname.split("."):
+        obj = getattr(obj, part)
+    return obj
 
 
 def kernel_id(k: Kernel) -> str | None:

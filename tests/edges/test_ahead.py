@@ -156,3 +156,11 @@ def test_kernel_id_names_the_closure_values():
         return x + arr[0]
 
     assert _ahead.kernel_id(closes_over_array) is None  # no copy for it
+
+
+def test_a_kernel_pickles_by_name():
+    import pickle
+
+    from cycj.growth import elber_u
+
+    assert pickle.loads(pickle.dumps(elber_u)) is elber_u
