@@ -123,26 +123,71 @@ def jit(func=None, **options):
 
 
 class _LazyUfunc:
-    """Builds the numba ufunc on first call, so importing cycj stays fast."""
+    """An element-wise function of float64 arrays (numpy broadcasting, float64 out) made from
+    the scalar source of a kernel: one compiled loop over the broadcast inputs, so it has a
+    start-up copy like any kernel (a numba ufunc would need numba at every start)."""
 
-    def __init__(self, src):
-        self.src = src
+    def __init__(self, func):
+        self.src = getattr(func, "py_func", func)
+        self.kernel = func if hasattr(func, "py_func") else None
         self.built = None
 
     def __call__(self, *args):
-        if self.built is None:
-            import numpy as np
+        import numpy as np
 
+        if self.built is None:
             if JIT_DISABLED:
                 self.built = np.vectorize(self.src, otypes=[float])
             else:
-                nargs = self.src.__code__.co_argcount
-                sig = "float64(" + ",".join(["float64"] * nargs) + ")"
-                self.built = numba_module().vectorize([sig], cache=True)(self.src)
-        return self.built(*args)
+                self.built = _elementwise(self.kernel or jit(self.src), len(args))
+        if JIT_DISABLED:
+            return self.built(*args)
+        arrays = np.broadcast_arrays(*(np.asarray(a, dtype=np.float64) for a in args))
+        shape = arrays[0].shape
+        x = np.ascontiguousarray(np.stack([a.ravel() for a in arrays]))
+        out = np.empty(x.shape[1])
+        self.built(x, out)
+        return out.reshape(shape) if shape else out[0]
+
+
+def _elementwise(fn, nargs):
+    """A kernel ``loop(x, out)``: out[i] = fn(x[0, i], …, x[nargs − 1, i]) (1 ≤ nargs ≤ 6)."""
+    if nargs == 1:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i])
+    elif nargs == 2:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i], x[1, i])
+    elif nargs == 3:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i], x[1, i], x[2, i])
+    elif nargs == 4:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i], x[1, i], x[2, i], x[3, i])
+    elif nargs == 5:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i], x[1, i], x[2, i], x[3, i], x[4, i])
+    elif nargs == 6:
+
+        def loop(x, out):
+            for i in range(out.size):
+                out[i] = fn(x[0, i], x[1, i], x[2, i], x[3, i], x[4, i], x[5, i])
+    else:
+        raise ValueError(f"an element-wise kernel takes 1 to 6 inputs, not {nargs}")
+    return jit(loop)
 
 
 def ufunc(func):
-    """A numpy ufunc (float64 in, float64 out) made from the same scalar source as the kernel;
-    compiled (or loaded from the cache) on first use."""
-    return _LazyUfunc(getattr(func, "py_func", func))
+    """An element-wise function (float64 in, float64 out, numpy broadcasting) made from the same
+    scalar source as the kernel; compiled (or loaded from the cache) on first use."""
+    return _LazyUfunc(func)
