@@ -338,6 +338,11 @@ class OutputDir:
         frame.to_csv(p, index=False, **kw)
         return p
 
+    def write_columns(self, name: str, columns: dict) -> Path:
+        """Write ``{name: float array}`` columns as CSV, byte for byte as a DataFrame of them
+        writes with ``to_csv(index=False)`` (:func:`columns_csv`), without pandas."""
+        return self.write_text(name, columns_csv(columns))
+
     def savefig(self, name: str, fig, dpi: int = 110, tight: bool = True) -> Path:
         """Write ``fig`` as PNG with tidy axes (:func:`cycj.display.tidy`); ``tight``: crop to
         the drawn content (a second layout pass; figures laid out with fixed margins pass
@@ -351,6 +356,24 @@ class OutputDir:
         if plt is not None:
             plt.close(fig)
         return p
+
+
+def columns_csv(columns: dict) -> str:
+    """CSV text of float columns ``{name: array}`` as pandas' ``to_csv(index=False)`` writes
+    a DataFrame of them: a header of the names, each number as NumPy's shortest round-trip
+    text (``astype(str)``, what pandas uses for float columns without ``float_format``), an
+    empty field for NaN, one line per row."""
+    import numpy as np
+
+    names = list(columns)
+    text = []
+    for v in columns.values():
+        v = np.asarray(v, dtype=float)
+        t = v.astype(str).astype(object)
+        t[np.isnan(v)] = ""
+        text.append(t)
+    lines = [",".join(names), *(",".join(row) for row in zip(*text, strict=True))]
+    return "\n".join(lines) + "\n"
 
 
 def sha256_of(path) -> str:
