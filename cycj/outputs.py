@@ -334,14 +334,13 @@ class OutputDir:
         return self.write_text(name, dumps(data) + "\n")
 
     def write_csv(self, name: str, frame, **kw) -> Path:
+        """Write a DataFrame (``to_csv(index=False, **kw)``) or float columns
+        ``{name: array}`` (:func:`columns_csv`: the same bytes, without pandas) as CSV."""
+        if isinstance(frame, dict) and not kw:
+            return self.write_text(name, columns_csv(frame))
         p = self.path(name)
         frame.to_csv(p, index=False, **kw)
         return p
-
-    def write_columns(self, name: str, columns: dict) -> Path:
-        """Write ``{name: float array}`` columns as CSV, byte for byte as a DataFrame of them
-        writes with ``to_csv(index=False)`` (:func:`columns_csv`), without pandas."""
-        return self.write_text(name, columns_csv(columns))
 
     def savefig(self, name: str, fig, dpi: int = 110, tight: bool = True) -> Path:
         """Write ``fig`` as PNG with tidy axes (:func:`cycj.display.tidy`); ``tight``: crop to

@@ -97,7 +97,7 @@ def run_and_write(
     record_provenance(summary, inputs, files=files, method=summary["method"], seed=None)
     system = units_system or getattr(case, "report_units", None) or "SI"
     with od, using(system):
-        od.write_columns("history.csv", result.columns)
+        od.write_csv("history.csv", result.columns)
         figures = []
         if plots:
             for name, caption, fn in _figures(result):
