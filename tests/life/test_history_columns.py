@@ -63,11 +63,12 @@ def test_rows_table_is_the_pandas_table():
 
 
 def test_single_run_imports_no_pandas(tmp_path):
+    out_dir = str(tmp_path / "o")
     code = (
         "import sys\n"
         "from cycj.cli import main\n"
         "try:\n"
-        f"    main(['run', 'examples/lab_compact_tension.toml', '--out', {str(tmp_path / 'o')!r}])\n"
+        f"    main(['run', 'examples/lab_compact_tension.toml', '--out', {out_dir!r}])\n"
         "except SystemExit:\n"
         "    pass\n"
         "print(sorted(m for m in ('pandas', 'matplotlib') if m in sys.modules))\n"
