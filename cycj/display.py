@@ -251,6 +251,23 @@ def log_axis(ax, which: str = "y") -> None:
         axis.set_minor_formatter(NullFormatter())
 
 
+@cache
+def _plain_formatter_class():
+    """A ``ScalarFormatter`` whose labels are plain text (no mathtext: its parser costs more
+    than drawing the whole figure) and whose common factor is ``×10ⁿ`` in superscript digits,
+    as :func:`power_of_ten` writes it."""
+    from matplotlib.ticker import ScalarFormatter
+
+    class PlainFormatter(ScalarFormatter):
+        def get_offset(self):
+            plain = super().get_offset()  # "1e6" (no offset is used): the factor's exponent
+            if not plain.startswith("1e"):
+                return plain
+            return "×" + power_of_ten(int(plain[2:].replace("\u2212", "-")))
+
+    return PlainFormatter
+
+
 def plain_axis(ax, which: str = "both") -> None:
     """A linear axis with no offset (no ``1e−5+4``): plain numbers below a million, a common
     ``×10ⁿ`` factor beyond."""
@@ -258,7 +275,7 @@ def plain_axis(ax, which: str = "both") -> None:
 
     for axis in {"x": [ax.xaxis], "y": [ax.yaxis], "both": [ax.xaxis, ax.yaxis]}[which]:
         if axis.get_scale() == "linear" and isinstance(axis.get_major_formatter(), ScalarFormatter):
-            f = ScalarFormatter(useOffset=False, useMathText=True)
+            f = _plain_formatter_class()(useOffset=False, useMathText=False)
             f.set_powerlimits((-3, 6))
             axis.set_major_formatter(f)
 

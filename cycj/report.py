@@ -11,6 +11,7 @@ from __future__ import annotations
 import base64
 import html
 import re
+from dataclasses import dataclass
 from pathlib import Path
 
 from cycj.display import frame_text, text
@@ -41,17 +42,49 @@ def _img(src) -> str:
     return "data:image/png;base64," + base64.b64encode(data).decode("ascii")
 
 
-def _table(frame, max_rows: int = 60) -> str:
-    import pandas as pd
+@dataclass(frozen=True)
+class Rows:
+    """A report table given as its column names and rows of values (no DataFrame needed)."""
 
-    df = frame if isinstance(frame, pd.DataFrame) else pd.DataFrame(frame)
-    if df.empty:
+    columns: tuple
+    rows: list
+
+
+def _rows(frame) -> Rows:
+    """A table argument (:class:`Rows`, DataFrame, or what ``pandas.DataFrame`` takes) as
+    :class:`Rows` of cells shown by :func:`cycj.display.text`."""
+    if not isinstance(frame, Rows):
+        import pandas as pd
+
+        df = frame_text(frame if isinstance(frame, pd.DataFrame) else pd.DataFrame(frame))
+        frame = Rows(tuple(df.columns), list(df.itertuples(index=False, name=None)))
+    return Rows(
+        tuple(str(c) for c in frame.columns),
+        [tuple(text(v) for v in row) for row in frame.rows],
+    )
+
+
+def _table(frame, max_rows: int = 60) -> str:
+    """One table as HTML (the layout pandas' ``to_html(index=False)`` gives); beyond
+    ``max_rows`` rows its first and last halves with a note."""
+    t = _rows(frame)
+    if not t.rows:
         return "<p>none</p>"
-    note = ""
-    if len(df) > max_rows:
-        note = f"<p><small>first and last {max_rows // 2} of {len(df):,} rows</small></p>"
-        df = pd.concat([df.head(max_rows // 2), df.tail(max_rows // 2)])
-    return frame_text(df).to_html(index=False, border=0, escape=True, na_rep="—") + note
+    rows, note = t.rows, ""
+    if len(rows) > max_rows:
+        note = f"<p><small>first and last {max_rows // 2} of {len(rows):,} rows</small></p>"
+        rows = rows[: max_rows // 2] + rows[-(max_rows // 2) :]
+
+    def e(cell):
+        return html.escape(cell, quote=False)
+
+    lines = ['<table class="dataframe">', "  <thead>", '    <tr style="text-align: right;">']
+    lines += [f"      <th>{e(c)}</th>" for c in t.columns]
+    lines += ["    </tr>", "  </thead>", "  <tbody>"]
+    for row in rows:
+        lines += ["    <tr>", *(f"      <td>{e(v)}</td>" for v in row), "    </tr>"]
+    lines += ["  </tbody>", "</table>"]
+    return "\n".join(lines) + note
 
 
 #: verification notes kept out of printed citations (their status belongs in docs/)

@@ -52,6 +52,13 @@ def _widen(ax, values, axis="x", log=False):
         (ax.set_xlim if axis == "x" else ax.set_ylim)(*lim)
 
 
+def _dot(a_mm):
+    """A marker for the points when the run has fewer than three distinct crack sizes (it
+    ended at once or did not grow: a line alone would not show), else None."""
+    a = np.asarray(a_mm, float)
+    return "o" if np.unique(a[~np.isnan(a)]).size < 3 else None
+
+
 def _log_axis(ax, values, what: str):
     """A log y-axis over the positive finite ``values``; without any (a run with no growth),
     a linear axis from 0 with a note instead of an error."""
@@ -76,7 +83,7 @@ def _log_axis(ax, values, what: str):
 def crack_growth_figure(result):
     """a vs N with the end point and the critical crack size (or the leak size)."""
     u = units()
-    h, s = result.history, result.summary
+    h, s = result.columns, result.summary
     L = u.factor("length")
     fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(h["cycle"], h["a_mm"] * L, lw=1.6, label="depth a" if "c_mm" in h else "crack size")
@@ -111,11 +118,10 @@ def crack_growth_figure(result):
 def driving_force_figure(result):
     """ΔJ_eq, ΔJ (largest cycle) and da/dN vs crack size."""
     u = units()
-    h = result.history
+    h = result.columns
     L, J = u.factor("length"), u.factor("energy_per_area")
     fig, (ax1, ax2) = _subplots(1, 2, figsize=(9.0, 3.8), margins=(0.1, 0.98, 0.14, 0.96))
-    # a run that ends at once, or does not grow, has a single crack size
-    dot = "o" if h["a_mm"].nunique() < 3 else None
+    dot = _dot(h["a_mm"])
     a = h["a_mm"] * L
     ax1.plot(a, h["dJ_eq_kJm2"] * J, marker=dot, label="ΔJ_eq of the block")
     ax1.plot(a, h["dJ_kJm2"] * J, ls="--", marker=dot, label="largest cycle ΔJ_eff")
@@ -125,7 +131,7 @@ def driving_force_figure(result):
     _log_axis(ax1, np.concatenate([h["dJ_eq_kJm2"], h["dJ_kJm2"]]) * J, "ΔJ")
     ax1.grid(alpha=0.3, which="both")
     ax1.legend(fontsize=8)
-    rate = h["dadN_mm_per_cycle"].to_numpy() * L
+    rate = h["dadN_mm_per_cycle"] * L
     ok = rate > 0
     ax2.plot(a[ok], rate[ok], color="C2", marker=dot)
     _widen(ax2, a)
@@ -143,13 +149,12 @@ def split_figure(result):
     from cycj.units import MPA_SQRT_M
 
     u = units()
-    h = result.history
+    h = result.columns
     L, J = u.factor("length"), u.factor("energy_per_area")
-    a = h["a_mm"].to_numpy(float) * L
-    el = h["dJ_el_kJm2"].to_numpy(float)
-    pl = h["dJ_pl_kJm2"].to_numpy(float)
-    lefm = (h["dK_MPa_sqrt_m"].to_numpy(float) * MPA_SQRT_M) ** 2 / result.model[E_PRIME]
-    dot = "o" if h["a_mm"].nunique() < 3 else None
+    a = h["a_mm"] * L
+    el, pl = h["dJ_el_kJm2"], h["dJ_pl_kJm2"]
+    lefm = (h["dK_MPa_sqrt_m"] * MPA_SQRT_M) ** 2 / result.model[E_PRIME]
+    dot = _dot(h["a_mm"])
     fig, ax = _subplots(figsize=(6.4, 4.2))
     ax.plot(a, (el + pl) * J, "k-", lw=1.8, marker=dot, label="ΔJ_eff = elastic + plastic")
     ax.plot(a, el * J, "C0--", marker=dot, label="elastic part U²·ΔK²/E'")
@@ -200,7 +205,7 @@ def tearing_figure(result, n: int = 120):
 
 def criterion_figure(result):
     """The peak-load trajectory: J_max vs a against J_c, or on the FAD when it is used."""
-    h, case = result.history, result.case
+    h, case = result.columns, result.case
     mat = case.material
     fig, ax = _subplots(figsize=(6.0, 4.2))
     if "fad" in case.run.criteria and mat.J_c:
@@ -215,7 +220,7 @@ def criterion_figure(result):
             f = fad_option1(lr, mat.lr_max)
         ax.plot(lr, f, color="k", label=f"FAD {case.analysis.fad}")
         ax.vlines(mat.lr_max, 0, f[-1], color="k")
-        a = np.clip(h["a_mm"].to_numpy(), *case.geometry.size_limits)
+        a = np.clip(h["a_mm"], *case.geometry.size_limits)
         lr_pts, kr = result.peak_points(a, h["c_mm"] if "c_mm" in h else None)
         ax.plot(lr_pts, kr, "o-", ms=2, color="C3", label="assessment points (peak load)")
         ax.set_xlabel("L_r = P_max / P_L")

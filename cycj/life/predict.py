@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -18,6 +19,7 @@ from cycj.citations import Citations
 from cycj.end_criteria import END_NAMES, RUNNING
 from cycj.errors import CycjInputError
 from cycj.life import end_state as ES
+from cycj.life import history as H
 from cycj.life import stepper as K
 from cycj.life.blockmode import block_phase
 from cycj.life.critical_size import critical_crack_length
@@ -56,15 +58,22 @@ class LifeInterrupted(KeyboardInterrupt):
 
 @dataclass
 class LifeResult:
-    """Result of :func:`predict_life`: ``summary`` (dict) and ``history`` (DataFrame)."""
+    """Result of :func:`predict_life`: ``summary`` (dict) and ``history`` (DataFrame, built on
+    first access from ``columns``, the history as ``{name: float64 array}``,
+    :mod:`cycj.life.history`)."""
 
     summary: dict
-    history: object
+    columns: dict
     case: Case
     loads: BlockLoads
     warnings: list = field(default_factory=list)
     references: list = field(default_factory=list)
     model: np.ndarray | None = None  # the kernels' model-parameter array of the run
+
+    @cached_property
+    def history(self):
+        """The sparse history as a pandas DataFrame (one per result, built once)."""
+        return H.to_frame(self.columns)
 
     def peak_points(self, a_mm, c_mm=None):
         """(L_r, K_r) under the history's peak load at crack sizes ``a_mm`` (half-lengths
@@ -204,8 +213,6 @@ def predict_life(
     for a two-dimensional crack) and ``dK_MPa_sqrt_m, dJ_el_kJm2, dJ_pl_kJm2`` of the block's
     largest cycle, :mod:`cycj.life.split`).
     """
-    import pandas as pd
-
     from cycj._version import __version__
 
     if method is not None:
@@ -259,11 +266,10 @@ def predict_life(
         last_pass = ES.block_pass(case, loads, mp, a_end)
     first = (0.0, 0.0, a0, *ES.row_of(first_pass, loads), geo.dims.get("half_length", 0.0))
     last = (cycles, blocks, a_end, *ES.row_of(last_pass, loads), state[M.ST_C])
-    hist = pd.DataFrame([first, *rows, *step_rows, last], columns=HISTORY_COLUMNS)
+    hist = H.from_rows([first, *rows, *step_rows, last], HISTORY_COLUMNS)
     if not mp[M.TWO_D]:
-        hist = hist.drop(columns="c_mm")
-    hist = hist.drop_duplicates(subset=["cycle", "a_mm"]).sort_values("cycle", kind="stable")
-    hist = add_split(hist.reset_index(drop=True), case, loads, mp)
+        del hist["c_mm"]
+    hist = add_split(H.drop_repeats_sorted(hist), case, loads, mp)
     outside = valid_range_warning(case, loads, mp, hist)
     if outside:
         warnings.append(outside)
@@ -321,13 +327,11 @@ def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
     """
     from dataclasses import replace
 
-    import pandas as pd
-
     from cycj.geometry import make_geometry
 
     case, s1 = leaked.case, leaked.summary
     dims = case.geometry.dims
-    c_end = float(leaked.history["c_mm"].iloc[-1])
+    c_end = float(leaked.columns["c_mm"][-1])
     warnings = list(leaked.warnings)
     if dims.get("bending_ratio"):
         warnings.append(
@@ -356,15 +360,15 @@ def continue_as_through_crack(leaked: LifeResult, progress=None) -> LifeResult:
         after_leak="stop",
     )
     through = predict_life(replace(case, geometry=geo, run=run, fields=None), progress=progress)
-    h2 = through.history.copy()
-    h2["cycle"] += s1["cycles_to_end"]
-    h2["block"] += s1["blocks_to_end"]
+    h2 = H.take(through.columns, slice(1, None))
+    h2["cycle"] = h2["cycle"] + s1["cycles_to_end"]
+    h2["block"] = h2["block"] + s1["blocks_to_end"]
     h2["c_mm"] = h2["a_mm"]
-    hist = pd.concat([leaked.history, h2.iloc[1:]], ignore_index=True)
+    hist = H.concat(leaked.columns, h2)
     s2 = dict(through.summary)
     s2.update(
-        cycles_to_end=float(hist["cycle"].iloc[-1]),
-        blocks_to_end=float(hist["block"].iloc[-1]),
+        cycles_to_end=float(hist["cycle"][-1]),
+        blocks_to_end=float(hist["block"][-1]),
         a_initial_mm=s1["a_initial_mm"],
         leak_cycles=s1["cycles_to_end"],
         leak_half_length_mm=c_end,
@@ -405,6 +409,5 @@ def growth_curve(case: Case, a_start_mm: float | None = None, load_scale: float 
     Uses the block method when the case allows it (fast, smooth), else the cycle stepper's
     sparse history.  cycles[0] = 0.
     """
-    res = predict_life(case, load_scale=load_scale, a_start_mm=a_start_mm)
-    h = res.history
-    return h["a_mm"].to_numpy(), h["cycle"].to_numpy()
+    h = predict_life(case, load_scale=load_scale, a_start_mm=a_start_mm).columns
+    return h["a_mm"].copy(), h["cycle"].copy()

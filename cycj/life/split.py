@@ -84,13 +84,15 @@ def split_table(case, loads, mp, a, c=None) -> np.ndarray:
 
 
 def add_split(hist, case, loads, mp):
-    """``hist`` with the columns :data:`SPLIT_COLUMNS` added after the existing ones."""
-    if len(hist) == 0:
+    """``hist`` (columns ``{name: array}`` or a DataFrame) with the columns
+    :data:`SPLIT_COLUMNS` added after the existing ones."""
+    a = np.asarray(hist["a_mm"], dtype=float)
+    if a.size == 0:
         for col in SPLIT_COLUMNS:
-            hist[col] = []
+            hist[col] = np.zeros(0)
         return hist
-    c = hist["c_mm"].to_numpy(float) if "c_mm" in hist else None
-    t = split_table(case, loads, mp, hist["a_mm"].to_numpy(float), c)
+    c = np.asarray(hist["c_mm"], dtype=float) if "c_mm" in hist else None
+    t = split_table(case, loads, mp, a, c)
     hist["dK_MPa_sqrt_m"] = t[:, 0] / MPA_SQRT_M
     hist["dJ_el_kJm2"] = t[:, 1]
     hist["dJ_pl_kJm2"] = t[:, 2]

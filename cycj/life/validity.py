@@ -23,17 +23,17 @@ def valid_range_warning(case, loads, mp, hist):
 
     Parameters
     ----------
-    case : Case; loads : BlockLoads; mp : model array; hist : the run's history (DataFrame
-        with ``cycle`` and ``a_mm``)
+    case : Case; loads : BlockLoads; mp : model array; hist : the run's history (columns
+        ``{name: array}`` or a DataFrame, with ``cycle`` and ``a_mm``)
     """
     from cycj.life import stepper as K
 
     valid = getattr(case.growth, "valid_dJ", None)
-    if valid is None or len(hist) == 0:
+    cyc = np.asarray(hist["cycle"], dtype=float)
+    if valid is None or cyc.size == 0:
         return None
     lo, hi = valid
-    cyc = hist["cycle"].to_numpy(float)
-    a_hist = hist["a_mm"].to_numpy(float)
+    a_hist = np.asarray(hist["a_mm"], dtype=float)
     if cyc[-1] > 0:
         at = np.interp(np.linspace(0, 1, N_SIZES) * cyc[-1], cyc, a_hist)
     else:

@@ -97,7 +97,7 @@ def run_and_write(
     record_provenance(summary, inputs, files=files, method=summary["method"], seed=None)
     system = units_system or getattr(case, "report_units", None) or "SI"
     with od, using(system):
-        od.write_csv("history.csv", result.history)
+        od.write_csv("history.csv", result.columns)
         figures = []
         if plots:
             for name, caption, fn in _figures(result):
@@ -185,7 +185,7 @@ def _validity_rows(result, summary) -> list:
     import numpy as np
 
     u = units()
-    case, h = result.case, result.history
+    case, h = result.case, result.columns
     geo = case.geometry
     lo, hi = geo.size_limits
     rows = [
@@ -196,7 +196,7 @@ def _validity_rows(result, summary) -> list:
         ),
         ("K solution and limit load", geo.shape.validity),
     ]
-    dj = h["dJ_kJm2"].to_numpy(float)
+    dj = np.asarray(h["dJ_kJm2"], float)
     dj = dj[np.isfinite(dj) & (dj > 0)]
     if dj.size:
         span = f"{u.q(dj.min(), 'energy_per_area')} to {u.q(dj.max(), 'energy_per_area')}"
@@ -211,13 +211,13 @@ def _validity_rows(result, summary) -> list:
         else:
             span += "; the growth law gives no data range (valid_dJ), so extrapolation is unknown"
         rows.append(("ΔJ_eff of the largest cycle", span))
-    if "dJ_pl_kJm2" in h and len(h):
-        tot = (h["dJ_el_kJm2"] + h["dJ_pl_kJm2"]).to_numpy(float)
+    if "dJ_pl_kJm2" in h and len(h["dJ_pl_kJm2"]):
+        tot = np.asarray(h["dJ_el_kJm2"] + h["dJ_pl_kJm2"], float)
         share = np.divide(
-            h["dJ_pl_kJm2"].to_numpy(float), tot, where=tot > 0, out=np.zeros_like(tot)
+            np.asarray(h["dJ_pl_kJm2"], float), tot, where=tot > 0, out=np.zeros_like(tot)
         )
         rows.append(("largest plastic share of ΔJ", f"{num(100 * share.max(), 3)} %"))
-    lr = h["Lr"].to_numpy(float)
+    lr = np.asarray(h["Lr"], float)
     if lr.size:
         rows.append(("largest L_r of a cycle", num(np.nanmax(lr), 3)))
     from cycj import models
@@ -255,6 +255,6 @@ def _report(od, result, summary, figures):
 
 
 def _end_table(rows):
-    import pandas as pd
+    from cycj.report import Rows
 
-    return pd.DataFrame(rows, columns=["quantity", "value"])
+    return Rows(("quantity", "value"), rows)
