@@ -127,8 +127,8 @@ def first_calls() -> None:
         else:
             print(
                 f"count_cycles, 2e6 samples, fresh interpreter, no warm-up: import cycj "
-                f"{before:.2f} s + first call {first:.3f} s (imports pandas and numba, loads "
-                f"the cached kernels) vs warm {warm:.3f} s, ratio {(before + first) / warm:.1f}"
+                f"{before:.2f} s + first call {first:.3f} s (imports pandas, loads "
+                f"the kernels) vs warm {warm:.3f} s, ratio {(before + first) / warm:.1f}"
             )
 
 
