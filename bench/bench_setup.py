@@ -86,6 +86,15 @@ def main(n_cycles=10_000_000, long_only=False):
             f"  a_end: cycle {s_cycle['a_end_mm']:.6g} mm, block {s_block['a_end_mm']:.6g} mm; "
             f"cycles: cycle {s_cycle['cycles_to_end']:.6g}, block {s_block['cycles_to_end']:.6g}"
         )
+        import resource
+
+        peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024  # bytes (Linux: KiB)
+        hist = 2 * n_cycles * 8
+        print(
+            f"peak RSS of this process so far (interpreter, kernels, three runs) "
+            f"{peak / 2**20:.0f} MiB = {peak / hist:.2f} × the history array "
+            f"({hist / 2**20:.0f} MiB; target ≤ 3)"
+        )
         long_life(folder, n_cycles)
 
 
