@@ -4,10 +4,9 @@
  * are compile-time constants here, run-time flags in cycj), the Paris law, and the stepper's
  * per-cycle bookkeeping (end size, clipped count, the history row's accumulators, the
  * cycle limit).  Powers with an integer exponent are products (numba's x**4), the others
- * libm pow.  Used only by bench/bench_stepper.py. */
+ * libm pow.  Built as a shared library (gcc -O2) and called
+ * through ctypes by bench/bench_stepper.py, in the same process as the stepper. */
 #include <math.h>
-#include <stdio.h>
-#include <stdlib.h>
 
 static double srawley(double al) {
     double al2 = al * al;
@@ -15,19 +14,14 @@ static double srawley(double al) {
     return (2.0 + al) * p / pow(1.0 - al, 1.5);
 }
 
-int main(int argc, char **argv) {
-    long n = atol(argv[1]);
-    long blocks = atol(argv[2]);
-    double *smax = malloc(n * sizeof(double)), *smin = malloc(n * sizeof(double));
-    FILE *f = fopen(argv[3], "rb");
-    if (fread(smax, sizeof(double), n, f) != (size_t)n) return 1;
-    if (fread(smin, sizeof(double), n, f) != (size_t)n) return 1;
-    fclose(f);
+/* Runs ``blocks`` repetitions of the block (smax, smin) from crack size *a (updated); returns
+ * the cycles done, negated when an end criterion stopped the run. */
+long ref_run(long n, long blocks, const double *smax, const double *smin, double *a_io) {
     const double W = 50, B = 12.5, BN = 12.5, E = 205000, EP = 205000 / 0.91, SY = 340,
                  KC = 880, NC = 0.16, KP = 780, NP = 0.19, FLOW = 425.0 / 340.0, LRMAX = 1.25,
                  JC = 1e30, C = 2e-7, M = 1.5, TH = 0.0, ALPHA = 3.0, A_LIMIT = 0.95 * W,
                  A_TEAR = INFINITY, REC_DA = 1e9, MAX_CYCLES = 1e18;
-    double a = atof(argv[4]);
+    double a = *a_io;
     double cyc = 0;
     /* the stepper's accumulators for the next history row */
     double a_rec = a, cyc_rec = 0, sum_djm = 0, n_acc = 0, max_dj = 0, max_jmax = 0,
@@ -73,14 +67,14 @@ int main(int argc, char **argv) {
                 double sr = lr * SY, er = sr / E + pow(sr / KP, 1 / NP);
                 jmax = jel * (E * er / sr + 0.5 * lr * lr * sr / (E * er));
                 if (lr >= LRMAX || a >= A_TEAR || jmax >= JC || a >= A_LIMIT) {
-                    printf("end %f %f\n", cyc, a);
-                    return 0;
+                    *a_io = a;
+                    return -(long)cyc;
                 }
             }
             djm = dj > 0 ? pow(dj, M) : 0;
             if (dj > TH && dj > 0) da = C * djm;
             if (da > 0) grew = 1;
-            if (a + da >= A_LIMIT) { printf("end %f %f\n", cyc + 1, A_LIMIT); return 0; }
+            if (a + da >= A_LIMIT) { *a_io = A_LIMIT; return -(long)(cyc + 1); }
             a += da;
             cyc += 1;
             sum_djm += djm;
@@ -93,12 +87,12 @@ int main(int argc, char **argv) {
                 a_rec = a, cyc_rec = cyc;
                 sum_djm = n_acc = max_dj = max_jmax = max_lr = 0;
             }
-            if (cyc >= MAX_CYCLES) { printf("max %f %f\n", cyc, a); return 0; }
+            if (cyc >= MAX_CYCLES) { *a_io = a; return (long)cyc; }
         }
         if (!grew) break;
     }
     if (n_clipped < 0 || rec_n < 0 || cyc_rec + sum_djm + max_dj + max_jmax + max_lr < 0)
-        return 2; /* keep the bookkeeping live */
-    printf("%.0f %.12f\n", cyc, a);
-    return 0;
+        return -1; /* keep the bookkeeping live */
+    *a_io = a;
+    return (long)cyc;
 }

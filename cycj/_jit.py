@@ -71,8 +71,42 @@ def numba_module():
             numba.config.CACHE_DIR = _cache_dir()
         if os.environ.get("CYCJ_COMPILE_NOTICE", "") not in ("", "0"):
             _compile_notice(numba)
+        _bind_libm()
         _NUMBA.append(numba)
     return _NUMBA[0]
+
+
+def _bind_libm() -> None:
+    """Point the math functions of numba's machine code (pow, exp, log, cos, …) at the C
+    library's own current entries.
+
+    numba binds them to the addresses its helper library was linked with; on glibc those are
+    the old compatibility versions of pow, exp and log (an error-handling wrapper around the
+    same routine, reached through a PLT jump), which cost about 10 % of the stepper's time
+    against a C program of the same arithmetic, linked against the current versions
+    (bench/bench_stepper.py).  The results are the same: one routine computes both.  Done once
+    numba has installed its own bindings (its CPU target is set up first), before any kernel
+    is compiled or loaded from the cache; elsewhere than glibc nothing changes.
+    """
+    import ctypes
+    import ctypes.util
+    import sys
+
+    if not sys.platform.startswith("linux"):
+        return
+    try:
+        libm = ctypes.CDLL(ctypes.util.find_library("m") or "libm.so.6")
+    except OSError:
+        return
+    import llvmlite.binding as ll
+    from numba.core import intrinsics
+    from numba.core.registry import cpu_target
+
+    cpu_target.target_context  # noqa: B018 - sets up the target: numba's bindings come first
+    for name in sorted(intrinsics.INTR_MATH):
+        fn = getattr(libm, name, None)
+        if fn is not None:
+            ll.add_symbol(name, ctypes.cast(fn, ctypes.c_void_p).value)
 
 
 def _compile_notice(numba) -> None:

@@ -132,18 +132,49 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
     Order when several trip in the same cycle (:data:`PRIORITY`): collapse (L_r ≥ L_r,max
     overrides every fracture criterion), tearing, toughness, FAD, size limit;
     :func:`tripped_criteria` lists them all."""
-    if mp[CHECK_COLLAPSE] > 0.5 and lr >= mp[LR_MAX]:
+    return end_check_given(a, jmax, lr, j_el_max, rho, end_terms(mp))
+
+
+@jit(inline="always")
+def end_terms(mp):
+    """The model array's values :func:`end_check_given` reads, as one tuple of scalars (the
+    stepper reads them once, before its loop: no array enters the per-cycle check, so the
+    loop does no reference counting)."""
+    return (
+        mp[CHECK_COLLAPSE] > 0.5,
+        mp[LR_MAX],
+        mp[A_TEAR],
+        mp[CHECK_TOUGH] > 0.5,
+        mp[J_C],
+        mp[CHECK_FAD] > 0.5,
+        int(mp[FAD_CURVE]),
+        mp[SIGMA_Y],
+        mp[E_MOD],
+        mp[K_PEAK],
+        mp[N_PEAK],
+        mp[FLOW_RATIO],
+        mp[A_LIMIT],
+    )
+
+
+@jit(inline="always")
+def end_check_given(a, jmax, lr, j_el_max, rho, terms):
+    """:func:`end_check` given :func:`end_terms` of the model array."""
+    collapse, lr_max, a_tear, tough, j_c, fad, fad_code, sy, e_mod, k_peak, n_peak, flow, a_lim = (
+        terms
+    )
+    if collapse and lr >= lr_max:
         return END_COLLAPSE, lr
-    if a >= mp[A_TEAR]:
+    if a >= a_tear:
         return END_TEARING, a
-    if mp[CHECK_TOUGH] > 0.5 and jmax >= mp[J_C]:
+    if tough and jmax >= j_c:
         return END_TOUGHNESS, jmax
-    if mp[CHECK_FAD] > 0.5:
-        kr = math.sqrt(j_el_max / mp[J_C]) + rho
-        f = fad_value(lr, mp)
+    if fad:
+        kr = math.sqrt(j_el_max / j_c) + rho
+        f = fad_value_given(lr, fad_code, lr_max, sy, e_mod, k_peak, n_peak, flow)
         if kr >= f:
             return END_FAD, kr
-    if a >= mp[A_LIMIT]:
+    if a >= a_lim:
         return END_SIZE, a
     return RUNNING, 0.0
 
@@ -152,17 +183,23 @@ def end_check(a, jmax, lr, j_el_max, rho, mp):
 def fad_value(lr, mp):
     """The failure assessment curve f(L_r) the case chose (its record's code in FAD_CURVE);
     an unknown code is an error."""
-    code = int(mp[FAD_CURVE])
+    t = end_terms(mp)
+    return fad_value_given(lr, t[6], t[1], t[7], t[8], t[9], t[10], t[11])
+
+
+@jit
+def fad_value_given(lr, code, lr_max, sy, e_mod, k_peak, n_peak, flow_ratio):
+    """:func:`fad_value` given the curve's code, L_r,max, σ_y [MPa], E [MPa], the peak curve's
+    K [MPa] and n, and σ_flow/σ_y."""
     if code == FAD_OPTION_2:
-        return fad_option2_scalar(lr, mp[LR_MAX], mp[SIGMA_Y], mp[E_MOD], mp[K_PEAK], mp[N_PEAK])
+        return fad_option2_scalar(lr, lr_max, sy, e_mod, k_peak, n_peak)
     if code == FAD_OPTION_1_2013:
-        sy = mp[SIGMA_Y]
-        su = sy * (2.0 * mp[FLOW_RATIO] - 1.0)  # σ_flow = (σ_y + σ_u)/2
+        su = sy * (2.0 * flow_ratio - 1.0)  # σ_flow = (σ_y + σ_u)/2
         return fad_option1_2013_scalar(
-            lr, mp[LR_MAX], min(0.001 * mp[E_MOD] / sy, 0.6), 0.3 * (1.0 - sy / su)
+            lr, lr_max, min(0.001 * e_mod / sy, 0.6), 0.3 * (1.0 - sy / su)
         )
     if code == FAD_OPTION_1:
-        return fad_option1_scalar(lr, mp[LR_MAX])
+        return fad_option1_scalar(lr, lr_max)
     raise ValueError("unknown FAD curve code")
 
 

@@ -25,7 +25,8 @@ from cycj.end_criteria import (
     END_SIZE,
     END_TEARING,
     RUNNING,
-    end_check,
+    end_check_given,
+    end_terms,
 )
 from cycj.fe.lookup import fe_ratio
 from cycj.fields.channels import channel_k
@@ -335,6 +336,7 @@ def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_m
         c_stop = mp[C_LIMIT]
         c_law, dj_th, q_tough, j_c = mp[C_LAW], mp[DJ_TH], mp[Q_TOUGH], mp[J_C]
         notch = int(mp[J_METHOD]) == NOTCH  # else the long-crack factors are 1 (hoisted)
+        terms = end_terms(mp)
         for _b in range(n_blocks):
             grew = False
             for i in range(n):
@@ -358,7 +360,7 @@ def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_m
                 n_clipped += clipped
                 if kmax > 0.0:
                     rho = r6_rho_scalar(kres, kmax - kres, lr) if kres > 0.0 else 0.0
-                    end, val = end_check(a, jmax, lr, jel, rho, mp)
+                    end, val = end_check_given(a, jmax, lr, jel, rho, terms)
                     if end == RUNNING and two_d:
                         end, val = _two_d_check(a, c, mp)
                     if end != RUNNING:
