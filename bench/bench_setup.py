@@ -3,12 +3,16 @@ run; not a test).
 
 A random history of 10⁷ cycles per block (stored as ``.npy`` in a temporary folder) on an edge
 crack: the wall time of ``predict_life`` with ``auto`` and with ``block`` against ``cycle`` on a
-life of a few blocks, and the wall time of ``auto`` on a life of about 10¹⁰ cycles (block mode).
+life of a few blocks; the peak memory one forced ``block`` run adds (in a child process)
+against the history array; and the wall time of ``auto`` on a life of about 10¹⁰ cycles
+(block mode).
 
 Run: python bench/bench_setup.py [cycles_per_block] [--long-only]
+(``--memory-child METHOD`` is the child process of the memory figure.)
 """
 
 import os
+import subprocess
 import sys
 import tempfile
 import time
@@ -86,16 +90,54 @@ def main(n_cycles=10_000_000, long_only=False):
             f"  a_end: cycle {s_cycle['a_end_mm']:.6g} mm, block {s_block['a_end_mm']:.6g} mm; "
             f"cycles: cycle {s_cycle['cycles_to_end']:.6g}, block {s_block['cycles_to_end']:.6g}"
         )
-        import resource
-
-        peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024  # bytes (Linux: KiB)
-        hist = 2 * n_cycles * 8
-        print(
-            f"peak RSS of this process so far (interpreter, kernels, three runs) "
-            f"{peak / 2**20:.0f} MiB = {peak / hist:.2f} × the history array "
-            f"({hist / 2**20:.0f} MiB; target ≤ 3)"
-        )
+        peak_of_one_run("block", n_cycles)
         long_life(folder, n_cycles)
+
+
+def peak_of_one_run(method, n_cycles):
+    """Peak memory one ``predict_life`` run adds, measured in a fresh child process (kernels
+    loaded and the case written first; then the peak resident set is reset and the run's
+    peak read back), against the history array (the block's samples as float64)."""
+    out = subprocess.run(
+        [sys.executable, __file__, str(n_cycles), "--memory-child", method],
+        check=True,
+        capture_output=True,
+        text=True,
+        env={**os.environ, "PYTHONPATH": str(HERE.parent)},
+    ).stdout.split()
+    if not out:
+        print("peak memory: not measured (needs Linux /proc/self/clear_refs)")
+        return
+    added, total = float(out[0]), float(out[1])
+    hist = 2 * n_cycles * 8
+    print(
+        f"peak memory of one {method} run: {added / 2**20:.0f} MiB added = "
+        f"{added / hist:.2f} × the history array ({hist / 2**20:.0f} MiB; target ≤ 3); "
+        f"whole process {total / 2**20:.0f} MiB = {total / hist:.2f} ×"
+    )
+
+
+def _proc_status(key):
+    with open("/proc/self/status") as f:
+        return next(int(line.split()[1]) * 1024 for line in f if line.startswith(key))
+
+
+def memory_child(method, n_cycles):
+    """The child of :func:`peak_of_one_run`: prints the added and the whole peak [bytes]."""
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        (folder / "warm").mkdir()
+        predict_life(make_case(folder / "warm", 10, 1e-3), method=method)  # load the kernels
+        case = make_case(folder, n_cycles, 2e-5 * 1.37e6 / (5.0 * n_cycles))
+        try:
+            with open("/proc/self/clear_refs", "w") as f:
+                f.write("5")  # reset the peak resident set (VmHWM) to the current one
+        except OSError:
+            return
+        before = _proc_status("VmRSS")
+        predict_life(case, method=method)
+        peak = _proc_status("VmHWM")
+    print(peak - before, peak)
 
 
 def long_life(folder, n_cycles):
@@ -115,4 +157,8 @@ def long_life(folder, n_cycles):
 if __name__ == "__main__":
     os.environ.setdefault("MPLBACKEND", "Agg")
     args = [a for a in sys.argv[1:] if not a.startswith("--")]
-    main(int(float(args[0])) if args else 10_000_000, "--long-only" in sys.argv)
+    n = int(float(args[0])) if args else 10_000_000
+    if "--memory-child" in sys.argv:
+        memory_child(args[1], n)
+    else:
+        main(n, "--long-only" in sys.argv)

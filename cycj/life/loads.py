@@ -85,6 +85,8 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
         samples = 2
     else:
         from cycj.spectrum import cycles_in_sequence, read_history
+        from cycj.spectrum.cycle_order import closing_cycles
+        from cycj.spectrum.reversals import block_reversal_values
         from cycj.units import unit_factor as _unit_factor
 
         kind = "force" if ld.quantity == "force" else "stress"
@@ -93,7 +95,13 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
             ld.history, column=ld.column, unit_factor=unit_factor, scale=ld.scale, sheet=ld.sheet
         )
         samples = int(values.size)
-        peaks, valleys = cycles_in_sequence(values, gate=ld.gate, order=order)
+        if order == "closing":  # in two steps: the history is freed before the count
+            reversals = block_reversal_values(values, ld.gate)
+            del values
+            peaks, valleys = closing_cycles(reversals)
+            del reversals
+        else:
+            peaks, valleys = cycles_in_sequence(values, gate=ld.gate, order=order)
         if peaks.size == 0:
             raise CycjInputError(
                 "the history has no cycles above the gate",
@@ -101,8 +109,11 @@ def block_loads(case: Case, load_scale: float = 1.0) -> BlockLoads:
                 key="loading.gate",
                 found=ld.gate,
             )
-        smax, smin = peaks * per_force, valleys * per_force
-    smax, smin = smax * load_scale, smin * load_scale
+        peaks *= per_force  # in place: the block is as long as the history's cycles
+        valleys *= per_force
+        smax, smin = peaks, valleys
+    smax *= load_scale
+    smin *= load_scale
     if not np.any(smax > 0):
         raise CycjInputError(
             "no cycle reaches a tensile load: the crack cannot grow",

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from cycj.spectrum.rainflow import rainflow_pairs
-from cycj.spectrum.reversals import block_reversals
+from cycj.spectrum.rainflow import rainflow_extremes, rainflow_pairs
+from cycj.spectrum.reversals import block_reversal_values, block_reversals
 
 #: the orders :func:`cycles_in_sequence` knows
 ORDERS = ("closing", "reversal")
@@ -60,9 +60,25 @@ def cycles_in_sequence(
     .. [2] Wheeler, O. E. (1972), "Spectrum loading and crack growth", *J. Basic Eng.* 94,
        181–186 (why load order matters with a sequence model).
     """
+    if order == "closing":
+        return closing_cycles(block_reversal_values(values, gate))
     x = np.asarray(values, dtype=float)
     peak_idx, valley_idx = cycle_indices_in_sequence(x, gate, order)
     return x[peak_idx], x[valley_idx]
+
+
+def closing_cycles(closed_reversals: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(max, min) of every cycle of a closed reversal sequence
+    (:func:`~cycj.spectrum.reversals.block_reversal_values`) in the order they close: the
+    ``"closing"`` order of :func:`cycles_in_sequence`, with memory for the cycles only.
+
+    References
+    ----------
+    .. [1] ASTM E1049-85 (reapproved 2017), §5.4.4 and §5.4.5.
+    """
+    if closed_reversals.shape[0] < 3:
+        return np.empty(0), np.empty(0)
+    return rainflow_extremes(closed_reversals, closed=True)
 
 
 def cycle_indices_in_sequence(

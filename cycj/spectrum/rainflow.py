@@ -12,14 +12,15 @@ CYCLE_COLUMNS = ("range", "mean", "count", "start", "end")
 
 
 @jit
-def _rainflow_kernel(r, closed, first, second, count):
+def _rainflow_kernel(r, closed, first, second, count, extremes):
     """Three-point rainflow count of the reversal values ``r``.
 
     Writes, per cycle, the positions in ``r`` of its first and second point and its count
-    (1.0 or 0.5) into the preallocated arrays (length ``len(r)``); returns the number of cycles,
-    in the order they were counted.  With ``closed`` the sequence starts and ends on its
-    largest extreme (a repeating block): no point is a start point and every range that closes
-    is a full cycle.
+    (1.0 or 0.5) into the preallocated arrays (length ``len(r)``), or with ``extremes`` its
+    larger and smaller value into ``first``, ``second`` (float64; ``count`` unused); returns
+    the number of cycles, in the order they were counted.  With ``closed`` the sequence starts
+    and ends on its largest extreme (a repeating block): no point is a start point and every
+    range that closes is a full cycle.
     """
     n = r.shape[0]
     stack = np.empty(n, dtype=np.int64)
@@ -37,9 +38,7 @@ def _rainflow_kernel(r, closed, first, second, count):
                 break
             if sp == 3 and not closed:
                 # Y contains the starting point: one-half cycle, discard the first point
-                first[nc] = stack[0]
-                second[nc] = stack[1]
-                count[nc] = 0.5
+                _record(first, second, count, extremes, nc, stack, sv, 0, 1, 0.5)
                 nc += 1
                 stack[0] = stack[1]
                 sv[0] = sv[1]
@@ -48,20 +47,29 @@ def _rainflow_kernel(r, closed, first, second, count):
                 sp = 2
             else:
                 # one cycle: discard the peak and the valley of Y
-                first[nc] = stack[sp - 3]
-                second[nc] = stack[sp - 2]
-                count[nc] = 1.0
+                _record(first, second, count, extremes, nc, stack, sv, sp - 3, sp - 2, 1.0)
                 nc += 1
                 stack[sp - 3] = stack[sp - 1]
                 sv[sp - 3] = sv[sp - 1]
                 sp -= 2
     # residue: each remaining range counts one-half cycle
     for m in range(sp - 1):
-        first[nc] = stack[m]
-        second[nc] = stack[m + 1]
-        count[nc] = 0.5
+        _record(first, second, count, extremes, nc, stack, sv, m, m + 1, 0.5)
         nc += 1
     return nc
+
+
+@jit(inline="always")
+def _record(first, second, count, extremes, nc, stack, sv, p, q, c):
+    """Cycle ``nc`` from the stacked points ``p``, ``q``: their positions and count, or with
+    ``extremes`` their larger and smaller value."""
+    if extremes:
+        first[nc] = max(sv[p], sv[q])
+        second[nc] = min(sv[p], sv[q])
+    else:
+        first[nc] = stack[p]
+        second[nc] = stack[q]
+        count[nc] = c
 
 
 def rainflow_pairs(peaks_and_valleys: np.ndarray, closed: bool = False):
@@ -93,10 +101,31 @@ def rainflow_pairs(peaks_and_valleys: np.ndarray, closed: bool = False):
     first = np.empty(m, dtype=np.int64)
     second = np.empty(m, dtype=np.int64)
     count = np.empty(m, dtype=np.float64)
-    nc = _rainflow_kernel(r, bool(closed), first, second, count)
+    nc = _rainflow_kernel(r, bool(closed), first, second, count, False)
     # views, not copies: the untouched tail is never paged in, and a first call on a long
     # history does not fault in fresh pages for the copies
     return first[:nc], second[:nc], count[:nc]
+
+
+def rainflow_extremes(peaks_and_valleys: np.ndarray, closed: bool = False):
+    """Larger and smaller value of every rainflow cycle, in counting order: the values of
+    :func:`rainflow_pairs`' two points, larger first (half cycles included), without the
+    position arrays.
+
+    Returns
+    -------
+    peak, valley : numpy.ndarray of float64, shape (k,)
+        Views of buffers of the input's length (only their first k values are written).
+
+    References
+    ----------
+    .. [1] ASTM E1049-85 (reapproved 2017), §5.4.4 and §5.4.5.
+    """
+    r = np.ascontiguousarray(peaks_and_valleys, dtype=np.float64)
+    m = max(r.shape[0], 1)
+    peak, valley = np.empty(m), np.empty(m)
+    nc = _rainflow_kernel(r, bool(closed), peak, valley, peak, True)
+    return peak[:nc], valley[:nc]
 
 
 def rainflow_cycles(values, gate: float = 0.0, repeat: bool = False) -> dict:

@@ -12,10 +12,13 @@ from cycj._jit import jit
 
 
 @jit
-def _turning_point_kernel(x, gate, out):
-    """Write the sample indices of the gated turning points of ``x`` into ``out``.
+def _turning_point_kernel(x, gate, out, out_v, values):
+    """Write the sample indices of the gated turning points of ``x`` into ``out`` (int64), or
+    with ``values`` their values into ``out_v`` (float64; ``out`` is then unused).
 
-    Returns how many were written.  ``out`` must hold ``len(x)`` int64 entries.
+    Returns how many were written; the output must hold ``len(x)`` entries.  With ``values``
+    ``out_v`` may be ``x`` itself (the filter in place): the k-th point is written only once
+    sample k has been read, from the values the filter holds.
     """
     n = x.shape[0]
     if n == 0:
@@ -44,16 +47,16 @@ def _turning_point_kernel(x, gate, out):
             break
         i += 1
     if direction == 0:  # constant, or every change smaller than the gate
-        out[0] = 0
+        _emit(out, out_v, values, 0, 0, x[0])
         return 1
     # the history starts at the extreme opposite the first excursion: with gate = 0 that is
     # x[0]; with a gate, a lead-in smaller than the gate is skipped and the deeper point kept
     if direction == 1:
-        out[0] = ilo
+        _emit(out, out_v, values, 0, ilo, lo)
         cand = hi
         icand = ihi
     else:
-        out[0] = ihi
+        _emit(out, out_v, values, 0, ihi, hi)
         cand = lo
         icand = ilo
     k = 1
@@ -64,7 +67,7 @@ def _turning_point_kernel(x, gate, out):
                 cand = v
                 icand = j
             elif cand - v > 0.0 and cand - v >= gate:
-                out[k] = icand
+                _emit(out, out_v, values, k, icand, cand)
                 k += 1
                 direction = -1
                 cand = v
@@ -74,13 +77,43 @@ def _turning_point_kernel(x, gate, out):
                 cand = v
                 icand = j
             elif v - cand > 0.0 and v - cand >= gate:
-                out[k] = icand
+                _emit(out, out_v, values, k, icand, cand)
                 k += 1
                 direction = 1
                 cand = v
                 icand = j
-    out[k] = icand
+    _emit(out, out_v, values, k, icand, cand)
     return k + 1
+
+
+@jit(inline="always")
+def _emit(out, out_v, values, k, index, value):
+    """The k-th turning point: its sample index into ``out``, or its value into ``out_v``."""
+    if values:
+        out_v[k] = value
+    else:
+        out[k] = index
+
+
+@jit
+def _rotate_left(a, m, k):
+    """Rotate ``a[:m]`` left by ``k`` in place (three reversals; no second array)."""
+    _reverse(a, 0, k)
+    _reverse(a, k, m)
+    _reverse(a, 0, m)
+
+
+@jit(inline="always")
+def _reverse(a, i, j):
+    j -= 1
+    while i < j:
+        a[i], a[j] = a[j], a[i]
+        i += 1
+        j -= 1
+
+
+_NO_INDEX = np.empty(0, dtype=np.int64)
+_NO_VALUE = np.empty(0)
 
 
 def _as_history(values) -> np.ndarray:
@@ -104,7 +137,7 @@ def _check_gate(gate: float) -> float:
 def turning_point_indices(x: np.ndarray, gate: float) -> np.ndarray:
     """Sample indices (int64) of the gated turning points of a float64 array (no checks)."""
     out = np.empty(max(x.shape[0], 1), dtype=np.int64)
-    k = _turning_point_kernel(x, gate, out)
+    k = _turning_point_kernel(x, gate, out, _NO_VALUE, False)
     return out[:k]  # a view: the untouched tail of ``out`` is never paged in
 
 
@@ -194,3 +227,44 @@ def block_reversals(values, gate: float = 0.0) -> tuple[np.ndarray, np.ndarray]:
     seq_i = np.concatenate((idx[k:], idx[: k + 1] + n))
     keep = turning_point_indices(seq_v, gate)
     return seq_v[keep], seq_i[keep]
+
+
+def block_reversal_values(values, gate: float = 0.0) -> np.ndarray:
+    """The values of :func:`block_reversals` (``block_reversals(values, gate)[0]``), built in
+    one array of the history's length: the gated reversals, rotated in place to start at the
+    largest absolute extreme, closed, and cleaned at the junction in place.
+
+    Parameters
+    ----------
+    values : array_like of float, shape (n,)
+        One pass of the load history [any unit].
+    gate : float, optional
+        Smallest range kept [same unit as ``values``].
+
+    Returns
+    -------
+    numpy.ndarray of float64, shape (m,)
+        Closed reversal sequence (a view of a buffer of n + 1 values; only its first m are
+        ever written, so memory is the history plus the reversals).
+
+    References
+    ----------
+    .. [1] ASTM E1049-85 (reapproved 2017), §5.4.5 (repeating histories: start at the
+       largest peak or valley).
+    """
+    x = _as_history(values)
+    gate = _check_gate(gate)
+    n = x.shape[0]
+    if n == 0:
+        return np.empty(0)
+    v = np.empty(n + 1)
+    m = _turning_point_kernel(x, gate, _NO_INDEX, v, True)
+    if m < 2:
+        return v[:m]
+    i_hi, i_lo = int(np.argmax(v[:m])), int(np.argmin(v[:m]))
+    hi, lo = v[i_hi], -v[i_lo]  # first of the largest |v|, as np.argmax(np.abs(v))
+    k = i_hi if hi > lo else (i_lo if lo > hi else min(i_hi, i_lo))
+    _rotate_left(v, m, k)
+    v[m] = v[0]
+    seq = v[: m + 1]
+    return v[: _turning_point_kernel(seq, gate, _NO_INDEX, v, True)]

@@ -10,7 +10,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from cycj.spectrum import count_cycles, cycles_in_sequence, reversals
-from cycj.spectrum.reversals import block_reversals
+from cycj.spectrum.cycle_order import cycle_indices_in_sequence
+from cycj.spectrum.reversals import block_reversal_values, block_reversals
 from tests.helpers import read_check_csv
 
 DATA = Path(__file__).parents[1] / "data"
@@ -150,6 +151,33 @@ def test_cycles_in_sequence_orders(x, gate):
     assert len(p2) == len(peak) and np.all(p2 >= v2)
     # the same reversals are used: same multiset of peaks and of valleys
     assert sorted(p2) == sorted(peak) and sorted(v2) == sorted(valley)
+
+
+@settings(max_examples=300, deadline=None)
+@given(
+    st.lists(st.integers(min_value=-20, max_value=20), min_size=0, max_size=60).map(
+        lambda xs: np.array(xs, dtype=float) / 4.0
+    ),
+    st.sampled_from([0.0, 0.25, 1.0, 2.5]),
+)
+def test_lean_block_path_equals_the_index_path(x, gate):
+    # the life engine's block (values only, rotated and cleaned in place, rainflow writing the
+    # cycles' extremes) equals the reversals and sample indices of the counting path, value
+    # for value, plateaus, gates, empty and constant histories included
+    v_index = block_reversals(x, gate)[0] if x.size else np.empty(0)
+    assert np.array_equal(block_reversal_values(x, gate), v_index)
+    peak_i, valley_i = cycle_indices_in_sequence(x, gate, "closing")
+    peak, valley = cycles_in_sequence(x, gate, order="closing")
+    assert np.array_equal(peak, x[peak_i]) and np.array_equal(valley, x[valley_i])
+
+
+def test_lean_block_path_starts_on_the_first_largest_extreme():
+    # |−4| = |4| twice: the block starts on the first of them, as np.argmax(np.abs(v)) does
+    x = np.array([1.0, -4.0, 2.0, 4.0, 0.0, -4.0, 3.0])
+    # reversals 1, −4, 4, −4, 3; rotated to the first −4 and closed: −4, 4, −4, 3, 1, −4;
+    # 3 → 1 → −4 falls throughout, so 1 is no longer a turning point at the junction
+    assert np.array_equal(block_reversal_values(x), [-4.0, 4.0, -4.0, 3.0, -4.0])
+    assert np.array_equal(block_reversal_values([5.0, 1.0, 9.0, -9.0]), [9.0, -9.0, 5.0, 1.0, 9.0])
 
 
 def test_reversal_order_keeps_overload_in_place():
