@@ -333,8 +333,7 @@ def stepper_for(channel_mode=False, two_d=False, sequence=False, closure=-1, j_m
             a_stop, stop_code = mp[A_TEAR], END_TEARING
         if two_d and mp[LEAK_SIZE] < a_stop:
             a_stop, stop_code = mp[LEAK_SIZE], END_LEAK
-        c_stop = mp[C_LIMIT]
-        c_law, dj_th, q_tough, j_c = mp[C_LAW], mp[DJ_TH], mp[Q_TOUGH], mp[J_C]
+        c_stop, c_law, dj_th, q_tough, j_c = mp[C_LIMIT], mp[C_LAW], mp[DJ_TH], mp[Q_TOUGH], mp[J_C]
         notch = int(mp[J_METHOD]) == NOTCH  # else the long-crack factors are 1 (hoisted)
         terms = end_terms(mp)
         for _b in range(n_blocks):
