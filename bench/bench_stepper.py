@@ -57,7 +57,7 @@ def ct_case(closure="newman", max_cycles=1e12):
     )
 
 
-def stepper_vs_c(n_block=200_000, blocks=10, rounds=9):
+def stepper_vs_c(n_block=200_000, blocks=10, rounds=15):
     rng = np.random.default_rng(1)
     case = ct_case()
     per_force = case.geometry.nominal_stress_per_force()
