@@ -234,23 +234,9 @@ def block_reversal_values(values, gate: float = 0.0) -> np.ndarray:
     one array of the history's length: the gated reversals, rotated in place to start at the
     largest absolute extreme, closed, and cleaned at the junction in place.
 
-    Parameters
-    ----------
-    values : array_like of float, shape (n,)
-        One pass of the load history [any unit].
-    gate : float, optional
-        Smallest range kept [same unit as ``values``].
-
-    Returns
-    -------
-    numpy.ndarray of float64, shape (m,)
-        Closed reversal sequence (a view of a buffer of n + 1 values; only its first m are
-        ever written, so memory is the history plus the reversals).
-
-    References
-    ----------
-    .. [1] ASTM E1049-85 (reapproved 2017), §5.4.5 (repeating histories: start at the
-       largest peak or valley).
+    Parameters, units and references as :func:`block_reversals`.  Returns the closed reversal
+    sequence (float64, shape (m,)): a view of a buffer of n + 1 values of which only the first
+    m are ever written, so memory is the history plus its reversals.
     """
     x = _as_history(values)
     gate = _check_gate(gate)
