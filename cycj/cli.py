@@ -63,6 +63,8 @@ def main(argv=None):
     forget_inputs()  # a new command: the inputs it reads are noted afresh
     # one line on stderr when the kernels are really compiled (cycj._jit reads it on import)
     os.environ.setdefault("CYCJ_COMPILE_NOTICE", "1")
+    # no docstrings for matplotlib's artists when cycj.life.plots imports it: none is read
+    os.environ.setdefault("CYCJ_COMMAND_LINE", "1")
     try:
         rv = cli.main(args=argv, prog_name="cycj", standalone_mode=False)
         from cycj import _ahead

@@ -233,7 +233,8 @@ def log_axis(ax, which: str = "y") -> None:
     """Label a log axis cleanly: decades (as ``10ⁿ``, or plain numbers on an axis within
     0.01 … 1000); when the shown span is under two decades also 2 and 5 of each decade,
     under one decade every integer multiple; no label on the other minor ticks (so labels
-    never run into each other)."""
+    never run into each other).  The ticks are then fixed where they fall inside the shown
+    span (:func:`_keep_shown_ticks`): call after the limits are set."""
     from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
 
     axes = {"x": [ax.xaxis], "y": [ax.yaxis], "both": [ax.xaxis, ax.yaxis]}[which]
@@ -249,6 +250,23 @@ def log_axis(ax, which: str = "y") -> None:
         axis.set_major_formatter(FuncFormatter(_log_labeller(lo, hi)))
         axis.set_minor_locator(LogLocator(base=10, subs=tuple(range(2, 10)), numticks=12))
         axis.set_minor_formatter(NullFormatter())
+        if lo > 0:
+            _keep_shown_ticks(axis, lo, hi)
+
+
+def _keep_shown_ticks(axis, lo: float, hi: float) -> None:
+    """Fix the major and minor ticks of a log ``axis`` at the positions its locators give
+    inside [lo, hi] (a hair wider, so that no tick on a limit is lost).  A log locator gives
+    whole decades, the parts beyond the view included, and matplotlib asks it again at each
+    draw and makes a tick for every position: the same picture with fewer ticks made."""
+    from matplotlib.ticker import FixedLocator
+
+    low, high = lo * (1.0 - 1e-9), hi * (1.0 + 1e-9)
+    for get, put in (
+        (axis.get_major_locator, axis.set_major_locator),
+        (axis.get_minor_locator, axis.set_minor_locator),
+    ):
+        put(FixedLocator([x for x in get()() if low <= x <= high]))
 
 
 @cache

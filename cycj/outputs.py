@@ -345,16 +345,26 @@ class OutputDir:
     def savefig(self, name: str, fig, dpi: int = 110, tight: bool = True) -> Path:
         """Write ``fig`` as PNG with tidy axes (:func:`cycj.display.tidy`); ``tight``: crop to
         the drawn content (a second layout pass; figures laid out with fixed margins pass
-        False).  A pyplot figure is closed."""
+        False).  A pyplot figure is closed.  The PNG is compressed at zlib level 1
+        (:data:`PNG_COMPRESS_LEVEL`): a tenth larger than at the default 6, in 0.6 of the time."""
         from cycj.display import tidy
 
         p = self.path(name)
         tidy(fig)
-        fig.savefig(p, dpi=dpi, bbox_inches="tight" if tight else None)
+        fig.savefig(
+            p,
+            dpi=dpi,
+            bbox_inches="tight" if tight else None,
+            pil_kwargs={"compress_level": PNG_COMPRESS_LEVEL},
+        )
         plt = sys.modules.get("matplotlib.pyplot")
         if plt is not None:
             plt.close(fig)
         return p
+
+
+#: zlib level of the PNG plots (Pillow's default is 6)
+PNG_COMPRESS_LEVEL = 1
 
 
 def columns_csv(columns: dict) -> str:
