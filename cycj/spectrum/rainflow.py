@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 
 from cycj._jit import jit
@@ -11,52 +13,63 @@ from cycj.spectrum.reversals import block_reversals, reversals
 CYCLE_COLUMNS = ("range", "mean", "count", "start", "end")
 
 
-@jit
-def _rainflow_kernel(r, closed, first, second, count, extremes):
-    """Three-point rainflow count of the reversal values ``r``.
+@functools.cache
+def _rainflow_kernel_for(extremes):
+    """The rainflow kernel writing positions and counts (``extremes`` False) or the cycles'
+    extremes (True); the choice is fixed when the kernel is compiled."""
 
-    Writes, per cycle, the positions in ``r`` of its first and second point and its count
-    (1.0 or 0.5) into the preallocated arrays (length ``len(r)``), or with ``extremes`` its
-    larger and smaller value into ``first``, ``second`` (float64; ``count`` unused); returns
-    the number of cycles, in the order they were counted.  With ``closed`` the sequence starts
-    and ends on its largest extreme (a repeating block): no point is a start point and every
-    range that closes is a full cycle.
-    """
-    n = r.shape[0]
-    stack = np.empty(n, dtype=np.int64)
-    sv = np.empty(n)  # the stacked points' values (saves an indirect load per test)
-    sp = 0
-    nc = 0
-    for j in range(n):
-        stack[sp] = j
-        sv[sp] = r[j]
-        sp += 1
-        while sp >= 3:
-            x_rng = abs(sv[sp - 1] - sv[sp - 2])
-            y_rng = abs(sv[sp - 2] - sv[sp - 3])
-            if x_rng < y_rng:
-                break
-            if sp == 3 and not closed:
-                # Y contains the starting point: one-half cycle, discard the first point
-                _record(first, second, count, extremes, nc, stack, sv, 0, 1, 0.5)
-                nc += 1
-                stack[0] = stack[1]
-                sv[0] = sv[1]
-                stack[1] = stack[2]
-                sv[1] = sv[2]
-                sp = 2
-            else:
-                # one cycle: discard the peak and the valley of Y
-                _record(first, second, count, extremes, nc, stack, sv, sp - 3, sp - 2, 1.0)
-                nc += 1
-                stack[sp - 3] = stack[sp - 1]
-                sv[sp - 3] = sv[sp - 1]
-                sp -= 2
-    # residue: each remaining range counts one-half cycle
-    for m in range(sp - 1):
-        _record(first, second, count, extremes, nc, stack, sv, m, m + 1, 0.5)
-        nc += 1
-    return nc
+    @jit
+    def rainflow_kernel(r, closed, first, second, count):
+        """Three-point rainflow count of the reversal values ``r``.
+
+        Writes, per cycle, the positions in ``r`` of its first and second point and its count
+        (1.0 or 0.5) into the preallocated arrays (length ``len(r)``), or with ``extremes`` its
+        larger and smaller value into ``first``, ``second`` (float64; ``count`` unused); returns
+        the number of cycles, in the order they were counted.  With ``closed`` the sequence starts
+        and ends on its largest extreme (a repeating block): no point is a start point and every
+        range that closes is a full cycle.
+        """
+        n = r.shape[0]
+        stack = np.empty(n, dtype=np.int64)
+        sv = np.empty(n)  # the stacked points' values (saves an indirect load per test)
+        sp = 0
+        nc = 0
+        for j in range(n):
+            stack[sp] = j
+            sv[sp] = r[j]
+            sp += 1
+            while sp >= 3:
+                x_rng = abs(sv[sp - 1] - sv[sp - 2])
+                y_rng = abs(sv[sp - 2] - sv[sp - 3])
+                if x_rng < y_rng:
+                    break
+                if sp == 3 and not closed:
+                    # Y contains the starting point: one-half cycle, discard the first point
+                    _record(first, second, count, extremes, nc, stack, sv, 0, 1, 0.5)
+                    nc += 1
+                    stack[0] = stack[1]
+                    sv[0] = sv[1]
+                    stack[1] = stack[2]
+                    sv[1] = sv[2]
+                    sp = 2
+                else:
+                    # one cycle: discard the peak and the valley of Y
+                    _record(first, second, count, extremes, nc, stack, sv, sp - 3, sp - 2, 1.0)
+                    nc += 1
+                    stack[sp - 3] = stack[sp - 1]
+                    sv[sp - 3] = sv[sp - 1]
+                    sp -= 2
+        # residue: each remaining range counts one-half cycle
+        for m in range(sp - 1):
+            _record(first, second, count, extremes, nc, stack, sv, m, m + 1, 0.5)
+            nc += 1
+        return nc
+
+    return rainflow_kernel
+
+
+_rainflow_kernel = _rainflow_kernel_for(False)
+_rainflow_extremes = _rainflow_kernel_for(True)
 
 
 @jit(inline="always")
@@ -101,7 +114,7 @@ def rainflow_pairs(peaks_and_valleys: np.ndarray, closed: bool = False):
     first = np.empty(m, dtype=np.int64)
     second = np.empty(m, dtype=np.int64)
     count = np.empty(m, dtype=np.float64)
-    nc = _rainflow_kernel(r, bool(closed), first, second, count, False)
+    nc = _rainflow_kernel(r, bool(closed), first, second, count)
     # views, not copies: the untouched tail is never paged in, and a first call on a long
     # history does not fault in fresh pages for the copies
     return first[:nc], second[:nc], count[:nc]
@@ -124,7 +137,7 @@ def rainflow_extremes(peaks_and_valleys: np.ndarray, closed: bool = False):
     r = np.ascontiguousarray(peaks_and_valleys, dtype=np.float64)
     m = max(r.shape[0], 1)
     peak, valley = np.empty(m), np.empty(m)
-    nc = _rainflow_kernel(r, bool(closed), peak, valley, peak, True)
+    nc = _rainflow_extremes(r, bool(closed), peak, valley, peak)
     return peak[:nc], valley[:nc]
 
 

@@ -6,84 +6,97 @@ indices; they know nothing of files or units.
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 
 from cycj._jit import jit
 
 
-@jit
-def _turning_point_kernel(x, gate, out, out_v, values):
-    """Write the sample indices of the gated turning points of ``x`` into ``out`` (int64), or
-    with ``values`` their values into ``out_v`` (float64; ``out`` is then unused).
+@functools.cache
+def _turning_point_kernel_for(values):
+    """The turning-point kernel writing sample indices (``values`` False) or values (True); the
+    choice is fixed when the kernel is compiled, so the loop carries no test of it."""
 
-    Returns how many were written; the output must hold ``len(x)`` entries.  With ``values``
-    ``out_v`` may be ``x`` itself (the filter in place): the k-th point is written only once
-    sample k has been read, from the values the filter holds.
-    """
-    n = x.shape[0]
-    if n == 0:
-        return 0
-    # leading phase: find the first excursion of at least ``gate`` (and > 0)
-    hi = x[0]
-    lo = x[0]
-    ihi = 0
-    ilo = 0
-    direction = 0
-    i = 1
-    while i < n:
-        v = x[i]
-        if v > hi:
-            hi = v
-            ihi = i
-        elif v < lo:
-            lo = v
-            ilo = i
-        span = hi - lo
-        if span > 0.0 and span >= gate:
-            if ihi > ilo:
-                direction = 1
-            else:
-                direction = -1
-            break
-        i += 1
-    if direction == 0:  # constant, or every change smaller than the gate
-        _emit(out, out_v, values, 0, 0, x[0])
-        return 1
-    # the history starts at the extreme opposite the first excursion: with gate = 0 that is
-    # x[0]; with a gate, a lead-in smaller than the gate is skipped and the deeper point kept
-    if direction == 1:
-        _emit(out, out_v, values, 0, ilo, lo)
-        cand = hi
-        icand = ihi
-    else:
-        _emit(out, out_v, values, 0, ihi, hi)
-        cand = lo
-        icand = ilo
-    k = 1
-    for j in range(i + 1, n):
-        v = x[j]
+    @jit
+    def turning_point_kernel(x, gate, out, out_v):
+        """Write the sample indices of the gated turning points of ``x`` into ``out`` (int64), or
+        with ``values`` their values into ``out_v`` (float64; ``out`` is then unused).
+
+        Returns how many were written; the output must hold ``len(x)`` entries.  With ``values``
+        ``out_v`` may be ``x`` itself (the filter in place): the k-th point is written only once
+        sample k has been read, from the values the filter holds.
+        """
+        n = x.shape[0]
+        if n == 0:
+            return 0
+        # leading phase: find the first excursion of at least ``gate`` (and > 0)
+        hi = x[0]
+        lo = x[0]
+        ihi = 0
+        ilo = 0
+        direction = 0
+        i = 1
+        while i < n:
+            v = x[i]
+            if v > hi:
+                hi = v
+                ihi = i
+            elif v < lo:
+                lo = v
+                ilo = i
+            span = hi - lo
+            if span > 0.0 and span >= gate:
+                if ihi > ilo:
+                    direction = 1
+                else:
+                    direction = -1
+                break
+            i += 1
+        if direction == 0:  # constant, or every change smaller than the gate
+            _emit(out, out_v, values, 0, 0, x[0])
+            return 1
+        # the history starts at the extreme opposite the first excursion: with gate = 0 that is
+        # x[0]; with a gate, a lead-in smaller than the gate is skipped and the deeper point kept
         if direction == 1:
-            if v > cand:
-                cand = v
-                icand = j
-            elif cand - v > 0.0 and cand - v >= gate:
-                _emit(out, out_v, values, k, icand, cand)
-                k += 1
-                direction = -1
-                cand = v
-                icand = j
+            _emit(out, out_v, values, 0, ilo, lo)
+            cand = hi
+            icand = ihi
         else:
-            if v < cand:
-                cand = v
-                icand = j
-            elif v - cand > 0.0 and v - cand >= gate:
-                _emit(out, out_v, values, k, icand, cand)
-                k += 1
-                direction = 1
-                cand = v
-                icand = j
-    _emit(out, out_v, values, k, icand, cand)
-    return k + 1
+            _emit(out, out_v, values, 0, ihi, hi)
+            cand = lo
+            icand = ilo
+        k = 1
+        for j in range(i + 1, n):
+            v = x[j]
+            if direction == 1:
+                if v > cand:
+                    cand = v
+                    icand = j
+                elif cand - v > 0.0 and cand - v >= gate:
+                    _emit(out, out_v, values, k, icand, cand)
+                    k += 1
+                    direction = -1
+                    cand = v
+                    icand = j
+            else:
+                if v < cand:
+                    cand = v
+                    icand = j
+                elif v - cand > 0.0 and v - cand >= gate:
+                    _emit(out, out_v, values, k, icand, cand)
+                    k += 1
+                    direction = 1
+                    cand = v
+                    icand = j
+        _emit(out, out_v, values, k, icand, cand)
+        return k + 1
+
+    return turning_point_kernel
+
+
+_turning_point_kernel = _turning_point_kernel_for(False)
+_turning_point_values = _turning_point_kernel_for(True)
 
 
 @jit(inline="always")
@@ -137,7 +150,7 @@ def _check_gate(gate: float) -> float:
 def turning_point_indices(x: np.ndarray, gate: float) -> np.ndarray:
     """Sample indices (int64) of the gated turning points of a float64 array (no checks)."""
     out = np.empty(max(x.shape[0], 1), dtype=np.int64)
-    k = _turning_point_kernel(x, gate, out, _NO_VALUE, False)
+    k = _turning_point_kernel(x, gate, out, _NO_VALUE)
     return out[:k]  # a view: the untouched tail of ``out`` is never paged in
 
 
@@ -244,7 +257,7 @@ def block_reversal_values(values, gate: float = 0.0) -> np.ndarray:
     if n == 0:
         return np.empty(0)
     v = np.empty(n + 1)
-    m = _turning_point_kernel(x, gate, _NO_INDEX, v, True)
+    m = _turning_point_values(x, gate, _NO_INDEX, v)
     if m < 2:
         return v[:m]
     i_hi, i_lo = int(np.argmax(v[:m])), int(np.argmin(v[:m]))
@@ -253,4 +266,4 @@ def block_reversal_values(values, gate: float = 0.0) -> np.ndarray:
     _rotate_left(v, m, k)
     v[m] = v[0]
     seq = v[: m + 1]
-    return v[: _turning_point_kernel(seq, gate, _NO_INDEX, v, True)]
+    return v[: _turning_point_values(seq, gate, _NO_INDEX, v)]
