@@ -38,11 +38,7 @@ def _rainflow_kernel_for(extremes):
             stack[sp] = j
             sv[sp] = r[j]
             sp += 1
-            while sp >= 3:
-                x_rng = abs(sv[sp - 1] - sv[sp - 2])
-                y_rng = abs(sv[sp - 2] - sv[sp - 3])
-                if x_rng < y_rng:
-                    break
+            while sp >= 3 and range_closes(sv, sp):
                 if sp == 3 and not closed:
                     # Y contains the starting point: one-half cycle, discard the first point
                     _record(first, second, count, extremes, nc, stack, sv, 0, 1, 0.5)
@@ -70,6 +66,13 @@ def _rainflow_kernel_for(extremes):
 
 _rainflow_kernel = _rainflow_kernel_for(False)
 _rainflow_extremes = _rainflow_kernel_for(True)
+
+
+@jit(inline="always")
+def range_closes(v, sp):
+    """The three-point test of ASTM E1049-85 §5.4.4 on the stacked values ``v[:sp]``: the
+    latest range X (last two points) is at least the range Y before it (Y then counts)."""
+    return abs(v[sp - 1] - v[sp - 2]) >= abs(v[sp - 2] - v[sp - 3])
 
 
 @jit(inline="always")

@@ -21,6 +21,7 @@ from __future__ import annotations
 import numpy as np
 
 from cycj._jit import jit
+from cycj.spectrum.rainflow import range_closes
 
 # slots of the turning-point state (float64 array)
 (TP_PHASE, TP_HI, TP_LO, TP_IHI, TP_ILO, TP_DIR, TP_CAND, TP_ICAND, TP_OFFSET) = range(9)
@@ -127,11 +128,7 @@ def rainflow_chunk(rv, ri, stack_v, stack_i, sp_arr, frm, to, cnt, start, end):
         stack_v[sp] = rv[j]
         stack_i[sp] = ri[j]
         sp += 1
-        while sp >= 3:
-            x_rng = abs(stack_v[sp - 1] - stack_v[sp - 2])
-            y_rng = abs(stack_v[sp - 2] - stack_v[sp - 3])
-            if x_rng < y_rng:
-                break
+        while sp >= 3 and range_closes(stack_v, sp):
             if sp == 3:  # Y contains the starting point: one-half cycle
                 a, b = 0, 1
                 c = 0.5
