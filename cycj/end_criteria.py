@@ -183,8 +183,16 @@ def end_check_given(a, jmax, lr, j_el_max, rho, terms):
 def fad_value(lr, mp):
     """The failure assessment curve f(L_r) the case chose (its record's code in FAD_CURVE);
     an unknown code is an error."""
-    t = end_terms(mp)
-    return fad_value_given(lr, t[6], t[1], t[7], t[8], t[9], t[10], t[11])
+    return fad_value_given(
+        lr,
+        int(mp[FAD_CURVE]),
+        mp[LR_MAX],
+        mp[SIGMA_Y],
+        mp[E_MOD],
+        mp[K_PEAK],
+        mp[N_PEAK],
+        mp[FLOW_RATIO],
+    )
 
 
 @jit
