@@ -168,9 +168,9 @@ def scale_loads(values, unit_factor: float, scale: float, src: str, row0: int = 
                 expected="a smaller scale",
                 found=float(scale),
             )
-    big = values > MAX_LOAD  # two comparisons, not np.abs: no float copy of the history
-    big |= values < -MAX_LOAD
-    big = np.flatnonzero(big)
+    too_big = values > MAX_LOAD  # two comparisons, not np.abs: no float copy of the history
+    too_big |= values < -MAX_LOAD
+    big = np.flatnonzero(too_big)
     if big.size:
         raise CycjInputError(
             f"sample {row0 + big[0]} is not a plausible load",
